@@ -1,0 +1,37 @@
+#include "cli/common.h"
+
+#include <CLI/CLI.hpp>
+#include <exception>
+#include <fmt/format.h>
+
+#include "core/error.h"
+#include "data/load.h"
+#include "io/config.h"
+
+namespace lagsieve::cli {
+
+int run_command(const std::function<int()>& body) {
+  try {
+    return body();
+  } catch (const InputError& e) {
+    fmt::print(stderr, "lagsieve: error: {}\n", e.what());
+    return kExitBadInput;
+  } catch (const NumericalError& e) {
+    fmt::print(stderr, "lagsieve: numerical error: {}\n", e.what());
+    return kExitInternal;
+  } catch (const std::exception& e) {
+    fmt::print(stderr, "lagsieve: internal error: {}\n", e.what());
+    return kExitInternal;
+  }
+}
+
+void finish(int code) { throw CLI::RuntimeError(code); }
+
+LoadedRun load_run(const std::filesystem::path& config_file) {
+  LoadedRun run;
+  run.config = load_config(config_file);
+  run.series = load_series(run.config);
+  return run;
+}
+
+}  // namespace lagsieve::cli

@@ -1,0 +1,35 @@
+#pragma once
+// Shared pieces of the command-line front: exit codes, error handling, config + data loading.
+#include <filesystem>
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "core/config.h"
+#include "core/series.h"
+
+namespace lagsieve::cli {
+
+// Exit codes of every command (documented in the README).
+inline constexpr int kExitOk = 0;
+inline constexpr int kExitBadInput = 2;        // InputError: config, CSV, model file, options
+inline constexpr int kExitInternal = 3;        // numerical failure or a bug
+inline constexpr int kExitRevalidateDrift = 10;   // reserved for `revalidate`
+inline constexpr int kExitRevalidateFailed = 11;  // reserved for `revalidate`
+
+// Runs a command body and maps exceptions to exit codes: InputError -> message on stderr
+// ("lagsieve: error: ...") and 2; NumericalError and anything else -> 3.
+int run_command(const std::function<int()>& body);
+
+// Throws the exit code out of a CLI11 callback so main() returns it.
+[[noreturn]] void finish(int code);
+
+struct LoadedRun {
+  RunConfig config;
+  std::vector<SeriesData> series;  // one per target column
+};
+
+// Reads and validates the config, then loads and checks the data of every target column.
+LoadedRun load_run(const std::filesystem::path& config_file);
+
+}  // namespace lagsieve::cli

@@ -1,0 +1,113 @@
+#pragma once
+// The run configuration: the parsed and validated YAML file. One schema serves a single fit
+// (every range collapsed to one value) and a search. Defaults are documented beside each field;
+// the YAML key is the field name unless noted.
+#include <filesystem>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/spec.h"
+
+namespace lagsieve {
+
+// Inclusive integer range; YAML accepts `3` or `[1, 3]`.
+struct IntRange {
+  int min = 0;
+  int max = 0;
+  bool operator==(const IntRange&) const = default;
+};
+
+enum class MissingPolicy { error, interpolate };
+enum class EventShape { pulse, step, ramp };
+enum class FutureMode { known, forecast };
+enum class ConstantMode { yes, no, automatic };  // YAML: true | false | auto
+enum class Strategy { exhaustive, guided, stepwise };
+enum class Criterion { aic, aicc, bic };
+enum class WindowKind { expanding, sliding };
+
+struct DataConfig {
+  std::filesystem::path file;               // resolved relative to the config file
+  std::string time;                         // time column; "" = none (rows are the index)
+  MissingPolicy missing = MissingPolicy::error;
+};
+
+struct TargetConfig {
+  std::vector<std::string> columns;         // `column: x` or `columns: [x, y]` (panel run)
+  TargetTransform transform;                // transform: none | log | boxcox; lambda
+};
+
+// Own model of an input whose future must be forecast: ARMA on the input after the model's
+// differencing. Absent orders: chosen by AIC over p, q in 0..2 and recorded.
+struct InputModelConfig {
+  std::optional<int> p;
+  std::optional<int> q;
+};
+
+struct InputConfig {
+  std::string name;                         // `column: x` (a data column) or `event: name`
+  bool is_event = false;
+  EventShape shape = EventShape::pulse;     // events only
+  std::string at;                           // events only: a time stamp or a row index
+  IntRange delay;                           // b (default 0)
+  IntRange numerator;                       // s (default 0)
+  IntRange denominator;                     // r (default 0)
+  bool optional = false;                    // the search may leave it out
+  FutureMode future = FutureMode::known;    // events are always known
+  int known_steps = 0;                      // with future: forecast, the first m steps known
+  InputModelConfig own_model;               // `model: {ar: 1, ma: 0}`
+  int line = 0;                             // YAML line, for messages
+};
+
+struct NoiseConfig {
+  IntRange ar;                              // p (default 0)
+  IntRange ma;                              // q (default 0)
+  IntRange seasonal_ar;                     // P (default 0)
+  IntRange seasonal_ma;                     // Q (default 0)
+  int period = 1;                           // S (default: differencing.period)
+  ConstantMode constant = ConstantMode::automatic;
+};
+
+struct SearchConfig {
+  Strategy strategy = Strategy::exhaustive;
+  Criterion criterion = Criterion::bic;
+  int budget = 20000;                       // candidates at most (stepwise, and a cap overall)
+  int threads = 0;                          // 0 = all cores
+};
+
+struct BacktestConfig {
+  bool enabled = false;                     // true when the YAML has a backtest section
+  int first_origin = 0;                     // row index of the first origin (0 = auto: 2/3 of rows)
+  int step = 1;
+  int horizon = 1;                          // K
+  WindowKind window = WindowKind::expanding;
+  int window_length = 0;                    // sliding only; 0 = first_origin
+  int refit = 1;                            // refit every m-th origin; 0 = never
+  int shortlist = 10;
+  std::vector<double> levels{0.8, 0.95};
+  std::string score = "mase";               // mase | rmse | mae | interval_score
+};
+
+struct ForecastConfig {
+  int horizon = 0;                          // 0 = backtest.horizon or 12
+  std::vector<double> levels{0.8, 0.95};
+};
+
+struct OutputConfig {
+  std::filesystem::path dir = "runs/out";   // resolved relative to the config file
+};
+
+struct RunConfig {
+  std::filesystem::path config_file;
+  DataConfig data;
+  TargetConfig target;
+  Differencing differencing;
+  std::vector<InputConfig> inputs;
+  NoiseConfig noise;
+  SearchConfig search;
+  BacktestConfig backtest;
+  ForecastConfig forecast;
+  OutputConfig output;
+};
+
+}  // namespace lagsieve

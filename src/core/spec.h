@@ -1,0 +1,67 @@
+#pragma once
+// The transfer-function model, in one place. Sign conventions (used everywhere, converted only
+// when comparing with a published table that uses another):
+//
+//   w_t = c + sum_i [omega_i(B) / delta_i(B)] B^{b_i} u_{i,t} + n_t
+//   phi(B) Phi(B^S) n_t = theta(B) Theta(B^S) a_t,   a_t ~ iid N(0, sigma^2)
+//
+//   omega(B) = omega_0 + omega_1 B + ... + omega_s B^s
+//   delta(B) = 1 - delta_1 B - ... - delta_r B^r
+//   phi(B)   = 1 - phi_1 B - ... - phi_p B^p          (likewise Phi)
+//   theta(B) = 1 + theta_1 B + ... + theta_q B^q      (likewise Theta; the sign of R's arima)
+//
+// w_t and u_{i,t} are the target and the inputs after the same transform of the target and the
+// same differencing (1 - B)^d (1 - B^S)^D.
+#include <string>
+#include <vector>
+
+namespace lagsieve {
+
+enum class TransformKind { none, log, boxcox };
+
+struct TargetTransform {
+  TransformKind kind = TransformKind::none;
+  double lambda = 1.0;  // Box-Cox only
+};
+
+struct Differencing {
+  int regular = 0;   // d
+  int seasonal = 0;  // D
+  int period = 1;    // S of the seasonal difference
+  int lost() const { return regular + seasonal * period; }  // observations consumed
+};
+
+// Dynamic shape of one input: b, s, r.
+struct InputOrder {
+  int delay = 0;        // b
+  int numerator = 0;    // s: omega_0..omega_s
+  int denominator = 0;  // r: delta_1..delta_r
+  bool operator==(const InputOrder&) const = default;
+};
+
+struct NoiseOrder {
+  int p = 0;
+  int q = 0;
+  int seasonal_p = 0;  // P
+  int seasonal_q = 0;  // Q
+  int period = 1;      // S of the seasonal ARMA terms
+  bool operator==(const NoiseOrder&) const = default;
+};
+
+struct InputTerm {
+  std::string name;  // column name or event name
+  InputOrder order;
+  bool operator==(const InputTerm&) const = default;
+};
+
+// One fully specified model: what a single fit estimates.
+struct ModelSpec {
+  std::vector<InputTerm> inputs;  // the inputs included, in config order
+  NoiseOrder noise;
+  bool constant = true;
+  Differencing differencing;
+  TargetTransform transform;
+  bool operator==(const ModelSpec&) const = default;
+};
+
+}  // namespace lagsieve

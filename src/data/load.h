@@ -1,0 +1,47 @@
+#pragma once
+// Reading the data a config names: one SeriesData per target column, checked and ready to model.
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include "core/config.h"
+#include "core/series.h"
+#include "data/time_index.h"
+#include "io/csv.h"
+
+namespace lagsieve {
+
+// Reads `config.data.file` once and returns one series per target column (config order).
+// Throws InputError for anything wrong with the file or its agreement with the config:
+//  - a column named in the config (time, target, input) absent from the header (with the
+//    closest header name as a suggestion);
+//  - a cell that is not a number or not finite; a time stamp that is not YYYY-MM-DD,
+//    YYYY-MM-DD HH:MM[:SS] or an integer, missing, repeated or out of order;
+//  - a missing cell (empty, NA, N/A, NaN, null) with `missing: error`; with `interpolate`,
+//    interior gaps are filled linearly (counted in SeriesData::interpolated) but a gap at the
+//    start or end is still an error;
+//  - a constant input (column or event), a constant target, a non-positive target value under
+//    `transform: log | boxcox`;
+//  - too few rows for the largest candidate of the grid (see min_rows_needed) or for the
+//    backtest settings.
+// Every message names the file and line (or the config key) and says what to do.
+std::vector<SeriesData> load_series(const RunConfig& config);
+
+// The same for one target column of another CSV file (e.g. new data to re-validate on).
+SeriesData load_series_from_csv(const RunConfig& config, const std::filesystem::path& csv,
+                                const std::string& target_column);
+
+// The same for an already parsed table (tests parse CSV text).
+SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
+                             const std::string& target_column);
+
+// Rows the largest candidate of the grid needs: the differencing loss, the longest input lag
+// (delay + numerator), every parameter of the largest model (constant, omegas, deltas, ARMA
+// terms, sigma^2) and kMinSpareRows more, so every candidate keeps some degrees of freedom.
+inline constexpr int kMinSpareRows = 10;
+int min_rows_needed(const RunConfig& config);
+
+// Throws InputError when `series` is too short for the grid or the backtest settings.
+void check_feasible(const RunConfig& config, const SeriesData& series);
+
+}  // namespace lagsieve

@@ -1,0 +1,505 @@
+#include "io/config.h"
+
+#include <fmt/format.h>
+#include <yaml-cpp/yaml.h>
+
+#include <algorithm>
+#include <charconv>
+#include <cmath>
+#include <fstream>
+#include <limits>
+#include <set>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "core/error.h"
+#include "core/names.h"
+
+namespace lagsieve {
+namespace {
+
+namespace fs = std::filesystem;
+
+std::string join(const std::vector<std::string>& items) {
+  std::string out;
+  for (const auto& s : items) {
+    if (!out.empty()) out += ", ";
+    out += s;
+  }
+  return out;
+}
+
+std::string child(const std::string& path, const std::string& key) {
+  return path.empty() ? key : path + "." + key;
+}
+
+// Walks the YAML tree with the config file name in hand, so every message can point at the spot.
+class Reader {
+ public:
+  explicit Reader(std::string file) : file_(std::move(file)) {}
+
+  [[noreturn]] void fail(const YAML::Node& node, const std::string& path,
+                         const std::string& what) const {
+    const int line = node.Mark().is_null() ? 0 : node.Mark().line + 1;
+    if (path.empty()) throw InputError(fmt::format("{}:{}: {}", file_, line, what));
+    throw InputError(fmt::format("{}:{}: {}: {}", file_, line, path, what));
+  }
+
+  // Requires a mapping whose keys are all in `allowed`; unknown keys suggest the closest one.
+  void check_map(const YAML::Node& node, const std::string& path,
+                 const std::vector<std::string>& allowed) const {
+    if (!node.IsMap())
+      fail(node, path,
+           fmt::format("expected a mapping of keys ({}), got {}", join(allowed), describe(node)));
+    std::set<std::string> seen;
+    for (const auto& kv : node) {
+      const auto key = kv.first.Scalar();
+      if (std::find(allowed.begin(), allowed.end(), key) == allowed.end()) {
+        const auto guess = closest_match(key, allowed);
+        fail(kv.first, child(path, key),
+             guess.empty()
+                 ? fmt::format("unknown key; valid keys here: {}", join(allowed))
+                 : fmt::format("unknown key; did you mean `{}`? (valid keys here: {})", guess,
+                               join(allowed)));
+      }
+      if (!seen.insert(key).second)
+        fail(kv.first, child(path, key), "key given twice; keep one");
+    }
+  }
+
+  static std::string describe(const YAML::Node& node) {
+    if (node.IsNull()) return "nothing";
+    if (node.IsSequence()) return "a list";
+    if (node.IsMap()) return "a mapping";
+    return fmt::format("'{}'", node.Scalar());
+  }
+
+  void require_scalar(const YAML::Node& node, const std::string& path,
+                      const std::string& expected) const {
+    if (!node.IsScalar()) fail(node, path, fmt::format("expected {}, got {}", expected, describe(node)));
+  }
+
+  static bool parse_int(const std::string& s, long long& out) {
+    const char* begin = s.data();
+    const char* end = s.data() + s.size();
+    if (begin != end && *begin == '+') ++begin;
+    const auto [p, ec] = std::from_chars(begin, end, out);
+    return ec == std::errc() && p == end && begin != end;
+  }
+
+  int get_int(const YAML::Node& node, const std::string& path, int min_value = 0) const {
+    require_scalar(node, path, "an integer");
+    long long v = 0;
+    if (!parse_int(node.Scalar(), v))
+      fail(node, path, fmt::format("expected an integer, got '{}'", node.Scalar()));
+    if (v < min_value)
+      fail(node, path, fmt::format("must be at least {}, got {}", min_value, v));
+    if (v > std::numeric_limits<int>::max())
+      fail(node, path, fmt::format("{} is too large", v));
+    return static_cast<int>(v);
+  }
+
+  double get_double(const YAML::Node& node, const std::string& path) const {
+    require_scalar(node, path, "a number");
+    const auto& s = node.Scalar();
+    double v = 0.0;
+    const char* begin = s.data();
+    const char* end = s.data() + s.size();
+    if (begin != end && *begin == '+') ++begin;
+    const auto [p, ec] = std::from_chars(begin, end, v);
+    if (ec != std::errc() || p != end || begin == end || !std::isfinite(v))
+      fail(node, path, fmt::format("expected a finite number, got '{}'", s));
+    return v;
+  }
+
+  bool get_bool(const YAML::Node& node, const std::string& path) const {
+    require_scalar(node, path, "true or false");
+    const auto& s = node.Scalar();
+    if (s == "true" || s == "yes") return true;
+    if (s == "false" || s == "no") return false;
+    fail(node, path, fmt::format("expected true or false, got '{}'", s));
+  }
+
+  std::string get_string(const YAML::Node& node, const std::string& path) const {
+    require_scalar(node, path, "a text value");
+    if (node.Scalar().empty()) fail(node, path, "must not be empty");
+    return node.Scalar();
+  }
+
+  template <typename Enum>
+  Enum get_enum(const YAML::Node& node, const std::string& path) const {
+    const auto choices = enum_choices<Enum>();
+    require_scalar(node, path, "one of " + join(choices));
+    if (auto v = parse_enum<Enum>(node.Scalar())) return *v;
+    const auto guess = closest_match(node.Scalar(), choices);
+    fail(node, path,
+         fmt::format("unknown value '{}'; {}choose one of: {}", node.Scalar(),
+                     guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
+                     join(choices)));
+  }
+
+  // `3` or `[1, 3]`; both ends within [0, max_value] and min <= max.
+  IntRange get_range(const YAML::Node& node, const std::string& path, int max_value) const {
+    IntRange r;
+    if (node.IsSequence()) {
+      if (node.size() != 2)
+        fail(node, path,
+             fmt::format("expected an integer or a range [min, max], got a list of {} item{}",
+                         node.size(), node.size() == 1 ? "" : "s"));
+      r.min = get_int(node[0], path + "[0]");
+      r.max = get_int(node[1], path + "[1]");
+      if (r.min > r.max)
+        fail(node, path,
+             fmt::format("range [{}, {}] has min > max; write it as [{}, {}]", r.min, r.max, r.max,
+                         r.min));
+    } else {
+      if (!node.IsScalar())
+        fail(node, path,
+             fmt::format("expected an integer or a range [min, max], got {}", describe(node)));
+      long long v = 0;
+      if (!parse_int(node.Scalar(), v))
+        fail(node, path,
+             fmt::format("expected an integer or a range [min, max], got '{}'", node.Scalar()));
+      r.min = r.max = get_int(node, path);
+    }
+    if (r.max > max_value)
+      fail(node, path,
+           fmt::format("{} is above the limit of {}; orders this large are not identifiable "
+                       "(check for a typo)",
+                       r.max, max_value));
+    return r;
+  }
+
+  std::vector<double> get_levels(const YAML::Node& node, const std::string& path) const {
+    std::vector<double> levels;
+    if (node.IsScalar()) {
+      levels.push_back(get_double(node, path));
+    } else if (node.IsSequence() && node.size() > 0) {
+      for (size_t i = 0; i < node.size(); ++i)
+        levels.push_back(get_double(node[i], fmt::format("{}[{}]", path, i)));
+    } else {
+      fail(node, path, fmt::format("expected a list of levels such as [0.8, 0.95], got {}",
+                                   describe(node)));
+    }
+    for (double level : levels)
+      if (!(level > 0.0 && level < 1.0))
+        fail(node, path,
+             fmt::format("level {} is outside (0, 1); write coverage as a fraction, e.g. 0.95",
+                         level));
+    std::sort(levels.begin(), levels.end());
+    levels.erase(std::unique(levels.begin(), levels.end()), levels.end());
+    return levels;
+  }
+
+  const std::string& file() const { return file_; }
+
+ private:
+  std::string file_;
+};
+
+fs::path resolve(const fs::path& base_dir, const std::string& p) {
+  const fs::path path(p);
+  return path.is_absolute() ? path : (base_dir / path).lexically_normal();
+}
+
+void read_data(const Reader& rd, const YAML::Node& node, const fs::path& base, DataConfig& data) {
+  const std::string path = "data";
+  rd.check_map(node, path, {"file", "time", "missing"});
+  if (!node["file"]) rd.fail(node, path, "missing key `file` (the CSV file with the series)");
+  data.file = resolve(base, rd.get_string(node["file"], "data.file"));
+  if (const auto n = node["time"]; n && !n.IsNull()) data.time = rd.get_string(n, "data.time");
+  if (const auto n = node["missing"]) data.missing = rd.get_enum<MissingPolicy>(n, "data.missing");
+}
+
+void read_target(const Reader& rd, const YAML::Node& node, TargetConfig& target) {
+  const std::string path = "target";
+  rd.check_map(node, path, {"column", "columns", "transform", "lambda"});
+  const auto one = node["column"];
+  const auto many = node["columns"];
+  if (one && many)
+    rd.fail(node, path, "give either `column` (one series) or `columns` (a panel), not both");
+  if (!one && !many)
+    rd.fail(node, path, "missing key `column` (the series to forecast) or `columns` (a panel)");
+  if (one) {
+    target.columns.push_back(rd.get_string(one, "target.column"));
+  } else {
+    if (!many.IsSequence() || many.size() == 0)
+      rd.fail(many, "target.columns",
+              fmt::format("expected a non-empty list of column names, got {}",
+                          Reader::describe(many)));
+    std::set<std::string> seen;
+    for (size_t i = 0; i < many.size(); ++i) {
+      const auto key = fmt::format("target.columns[{}]", i);
+      auto name = rd.get_string(many[i], key);
+      if (!seen.insert(name).second)
+        rd.fail(many[i], key, fmt::format("column '{}' is listed twice", name));
+      target.columns.push_back(std::move(name));
+    }
+  }
+  if (const auto n = node["transform"])
+    target.transform.kind = rd.get_enum<TransformKind>(n, "target.transform");
+  const auto lambda = node["lambda"];
+  if (target.transform.kind == TransformKind::boxcox) {
+    if (!lambda)
+      rd.fail(node, "target.lambda",
+              "`transform: boxcox` needs `lambda` (e.g. 0.5 for a square root; 0 is the log)");
+    target.transform.lambda = rd.get_double(lambda, "target.lambda");
+    if (std::abs(target.transform.lambda) > 3.0)
+      rd.fail(lambda, "target.lambda",
+              fmt::format("{} is outside [-3, 3]; such a strong power transform is almost "
+                          "certainly a mistake",
+                          target.transform.lambda));
+  } else if (lambda) {
+    rd.fail(lambda, "target.lambda", "only used with `transform: boxcox`; remove it");
+  }
+}
+
+void read_differencing(const Reader& rd, const YAML::Node& node, Differencing& diff) {
+  const std::string path = "differencing";
+  rd.check_map(node, path, {"regular", "seasonal", "period"});
+  if (const auto n = node["regular"]) {
+    diff.regular = rd.get_int(n, "differencing.regular");
+    if (diff.regular > kMaxDifferencing)
+      rd.fail(n, "differencing.regular",
+              fmt::format("{} is above {}; more differencing than that over-differences the "
+                          "series",
+                          diff.regular, kMaxDifferencing));
+  }
+  if (const auto n = node["seasonal"]) {
+    diff.seasonal = rd.get_int(n, "differencing.seasonal");
+    if (diff.seasonal > kMaxDifferencing)
+      rd.fail(n, "differencing.seasonal",
+              fmt::format("{} is above {}", diff.seasonal, kMaxDifferencing));
+  }
+  if (const auto n = node["period"]) diff.period = rd.get_int(n, "differencing.period", 1);
+  if (diff.seasonal > 0 && diff.period < 2)
+    rd.fail(node, "differencing.period",
+            "a seasonal difference needs `period` of at least 2 (e.g. 7 for daily data with a "
+            "weekly cycle, 12 for monthly data)");
+}
+
+void read_input(const Reader& rd, const YAML::Node& node, const std::string& path,
+                InputConfig& in) {
+  rd.check_map(node, path,
+               {"column", "event", "shape", "at", "delay", "numerator", "denominator", "optional",
+                "future", "known_steps", "model"});
+  in.line = node.Mark().line + 1;
+  const auto column = node["column"];
+  const auto event = node["event"];
+  if (column && event)
+    rd.fail(node, path, "give either `column` (a data column) or `event` (a generated input), "
+                        "not both");
+  if (!column && !event)
+    rd.fail(node, path, "missing key `column` (a data column) or `event` (a generated input)");
+  in.is_event = static_cast<bool>(event);
+  in.name = in.is_event ? rd.get_string(event, child(path, "event"))
+                        : rd.get_string(column, child(path, "column"));
+  if (in.is_event) {
+    if (const auto n = node["shape"]) in.shape = rd.get_enum<EventShape>(n, child(path, "shape"));
+    if (!node["at"])
+      rd.fail(node, path, "an event needs `at`: a time stamp of the data or a row index (from 0)");
+    in.at = rd.get_string(node["at"], child(path, "at"));
+    if (node["future"] || node["known_steps"] || node["model"]) {
+      const auto key = node["future"] ? "future" : node["known_steps"] ? "known_steps" : "model";
+      rd.fail(node[key], child(path, key),
+              "events are generated from the config, so their future is always known; remove it");
+    }
+  } else {
+    for (const char* key : {"shape", "at"})
+      if (node[key])
+        rd.fail(node[key], child(path, key),
+                "only used with `event:` inputs; a `column:` input takes its values from the data");
+  }
+  if (const auto n = node["delay"]) in.delay = rd.get_range(n, child(path, "delay"), kMaxDelay);
+  if (const auto n = node["numerator"])
+    in.numerator = rd.get_range(n, child(path, "numerator"), kMaxNumerator);
+  if (const auto n = node["denominator"])
+    in.denominator = rd.get_range(n, child(path, "denominator"), kMaxDenominator);
+  if (const auto n = node["optional"]) in.optional = rd.get_bool(n, child(path, "optional"));
+  if (const auto n = node["future"]) in.future = rd.get_enum<FutureMode>(n, child(path, "future"));
+  if (const auto n = node["known_steps"]) {
+    in.known_steps = rd.get_int(n, child(path, "known_steps"));
+    if (in.future != FutureMode::forecast)
+      rd.fail(n, child(path, "known_steps"), "only used with `future: forecast`");
+  }
+  if (const auto n = node["model"]) {
+    const auto mpath = child(path, "model");
+    if (in.future != FutureMode::forecast)
+      rd.fail(n, mpath, "an input's own model is only used with `future: forecast`");
+    rd.check_map(n, mpath, {"ar", "ma"});
+    auto order = [&](const char* key) -> std::optional<int> {
+      if (!n[key]) return std::nullopt;
+      const int v = rd.get_int(n[key], child(mpath, key));
+      if (v > 5) rd.fail(n[key], child(mpath, key), fmt::format("{} is above the limit of 5", v));
+      return v;
+    };
+    in.own_model.p = order("ar");
+    in.own_model.q = order("ma");
+  }
+}
+
+void read_noise(const Reader& rd, const YAML::Node& node, NoiseConfig& noise) {
+  const std::string path = "noise";
+  rd.check_map(node, path, {"ar", "ma", "seasonal_ar", "seasonal_ma", "period", "constant"});
+  if (const auto n = node["ar"]) noise.ar = rd.get_range(n, "noise.ar", kMaxArma);
+  if (const auto n = node["ma"]) noise.ma = rd.get_range(n, "noise.ma", kMaxArma);
+  if (const auto n = node["seasonal_ar"])
+    noise.seasonal_ar = rd.get_range(n, "noise.seasonal_ar", kMaxSeasonalArma);
+  if (const auto n = node["seasonal_ma"])
+    noise.seasonal_ma = rd.get_range(n, "noise.seasonal_ma", kMaxSeasonalArma);
+  if (const auto n = node["period"]) noise.period = rd.get_int(n, "noise.period", 1);
+  if (const auto n = node["constant"])
+    noise.constant = rd.get_enum<ConstantMode>(n, "noise.constant");
+  if ((noise.seasonal_ar.max > 0 || noise.seasonal_ma.max > 0) && noise.period < 2)
+    rd.fail(node["period"] ? node["period"] : node, "noise.period",
+            "seasonal AR/MA terms need a period of at least 2; set `noise.period` or "
+            "`differencing.period`");
+}
+
+void read_search(const Reader& rd, const YAML::Node& node, SearchConfig& search) {
+  rd.check_map(node, "search", {"strategy", "criterion", "budget", "threads"});
+  if (const auto n = node["strategy"]) search.strategy = rd.get_enum<Strategy>(n, "search.strategy");
+  if (const auto n = node["criterion"])
+    search.criterion = rd.get_enum<Criterion>(n, "search.criterion");
+  if (const auto n = node["budget"]) search.budget = rd.get_int(n, "search.budget", 1);
+  if (const auto n = node["threads"]) search.threads = rd.get_int(n, "search.threads");
+}
+
+void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt) {
+  bt.enabled = true;
+  if (node.IsNull()) return;  // `backtest:` alone switches it on with the defaults
+  rd.check_map(node, "backtest",
+               {"first_origin", "step", "horizon", "window", "window_length", "refit", "shortlist",
+                "levels", "score"});
+  if (const auto n = node["first_origin"]) bt.first_origin = rd.get_int(n, "backtest.first_origin");
+  if (const auto n = node["step"]) bt.step = rd.get_int(n, "backtest.step", 1);
+  if (const auto n = node["horizon"]) bt.horizon = rd.get_int(n, "backtest.horizon", 1);
+  if (const auto n = node["window"]) bt.window = rd.get_enum<WindowKind>(n, "backtest.window");
+  if (const auto n = node["window_length"]) {
+    bt.window_length = rd.get_int(n, "backtest.window_length");
+    if (bt.window != WindowKind::sliding)
+      rd.fail(n, "backtest.window_length", "only used with `window: sliding`");
+  }
+  if (const auto n = node["refit"]) bt.refit = rd.get_int(n, "backtest.refit");
+  if (const auto n = node["shortlist"]) bt.shortlist = rd.get_int(n, "backtest.shortlist", 1);
+  if (const auto n = node["levels"]) bt.levels = rd.get_levels(n, "backtest.levels");
+  if (const auto n = node["score"]) {
+    const std::vector<std::string> scores{"mase", "rmse", "mae", "interval_score"};
+    bt.score = rd.get_string(n, "backtest.score");
+    if (std::find(scores.begin(), scores.end(), bt.score) == scores.end()) {
+      const auto guess = closest_match(bt.score, scores);
+      rd.fail(n, "backtest.score",
+              fmt::format("unknown value '{}'; {}choose one of: {}", bt.score,
+                          guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
+                          join(scores)));
+    }
+  }
+}
+
+void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc) {
+  rd.check_map(node, "forecast", {"horizon", "levels"});
+  if (const auto n = node["horizon"]) fc.horizon = rd.get_int(n, "forecast.horizon", 1);
+  if (const auto n = node["levels"]) fc.levels = rd.get_levels(n, "forecast.levels");
+}
+
+}  // namespace
+
+RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) {
+  const Reader rd(config_file.string());
+  YAML::Node root;
+  try {
+    root = YAML::Load(std::string(yaml_text));
+  } catch (const YAML::Exception& e) {
+    throw InputError(fmt::format("{}:{}: YAML syntax error: {}; check indentation and quoting",
+                                 config_file.string(), e.mark.is_null() ? 0 : e.mark.line + 1,
+                                 e.msg));
+  }
+  if (!root || root.IsNull())
+    throw InputError(fmt::format("{}: the config is empty; it needs at least `data` and `target`",
+                                 config_file.string()));
+  rd.check_map(root, "",
+               {"data", "target", "differencing", "inputs", "noise", "search", "backtest",
+                "forecast", "output"});
+
+  RunConfig cfg;
+  cfg.config_file = config_file;
+  const fs::path base = config_file.parent_path();
+  for (const char* key : {"data", "target"})
+    if (!root[key])
+      rd.fail(root, "", fmt::format("missing section `{}`", key));
+
+  read_data(rd, root["data"], base, cfg.data);
+  read_target(rd, root["target"], cfg.target);
+  if (const auto n = root["differencing"]) read_differencing(rd, n, cfg.differencing);
+
+  if (const auto n = root["inputs"]; n && !n.IsNull()) {
+    if (!n.IsSequence())
+      rd.fail(n, "inputs", fmt::format("expected a list of inputs (each `- column: ...` or "
+                                       "`- event: ...`), got {}",
+                                       Reader::describe(n)));
+    std::set<std::string> names;
+    for (size_t i = 0; i < n.size(); ++i) {
+      const auto path = fmt::format("inputs[{}]", i);
+      InputConfig in;
+      read_input(rd, n[i], path, in);
+      if (!names.insert(in.name).second)
+        rd.fail(n[i], path, fmt::format("input '{}' is listed twice", in.name));
+      for (const auto& t : cfg.target.columns)
+        if (!in.is_event && t == in.name)
+          rd.fail(n[i], path + ".column",
+                  fmt::format("'{}' is the target; a series cannot explain itself", in.name));
+      cfg.inputs.push_back(std::move(in));
+    }
+  }
+
+  cfg.noise.period = cfg.differencing.period;  // default, overridden by noise.period
+  if (const auto n = root["noise"]) read_noise(rd, n, cfg.noise);
+  if (const auto n = root["search"]) read_search(rd, n, cfg.search);
+  if (const auto n = root["backtest"]) read_backtest(rd, n, cfg.backtest);
+  if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);
+  if (const auto n = root["output"]) {
+    rd.check_map(n, "output", {"dir"});
+    if (n["dir"]) cfg.output.dir = rd.get_string(n["dir"], "output.dir");
+  }
+  cfg.output.dir = resolve(base, cfg.output.dir.string());
+  return cfg;
+}
+
+RunConfig load_config(const fs::path& config_file) {
+  std::error_code ec;
+  if (!fs::exists(config_file, ec))
+    throw InputError(fmt::format("config file '{}' does not exist; check the path",
+                                 config_file.string()));
+  if (fs::is_directory(config_file, ec))
+    throw InputError(fmt::format("config file '{}' is a folder; give the YAML file",
+                                 config_file.string()));
+  std::ifstream in(config_file, std::ios::binary);
+  if (!in)
+    throw InputError(fmt::format("cannot read config file '{}'; check its permissions",
+                                 config_file.string()));
+  std::ostringstream buffer;
+  buffer << in.rdbuf();
+  return parse_config(buffer.str(), config_file);
+}
+
+long long candidate_grid_size(const RunConfig& config) {
+  constexpr long long kCap = std::numeric_limits<long long>::max();
+  long long total = 1;
+  auto times = [&](long long k) {
+    if (k <= 0) return;
+    total = total > kCap / k ? kCap : total * k;
+  };
+  auto width = [](const IntRange& r) { return static_cast<long long>(r.max - r.min + 1); };
+  for (const auto& in : config.inputs)
+    times(width(in.delay) * width(in.numerator) * width(in.denominator) + (in.optional ? 1 : 0));
+  const auto& nz = config.noise;
+  times(width(nz.ar));
+  times(width(nz.ma));
+  times(width(nz.seasonal_ar));
+  times(width(nz.seasonal_ma));
+  if (nz.constant == ConstantMode::automatic) times(2);
+  return total;
+}
+
+}  // namespace lagsieve

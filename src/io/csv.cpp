@@ -1,0 +1,187 @@
+#include "io/csv.h"
+
+#include <fmt/format.h>
+
+#include <fstream>
+#include <sstream>
+#include <unordered_set>
+
+#include "core/error.h"
+
+namespace lagsieve {
+namespace {
+
+std::string_view trim(std::string_view s) {
+  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
+  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
+  return s;
+}
+
+// One pass over the text, record by record. A record ends at an unquoted line break.
+class Parser {
+ public:
+  Parser(std::string_view text, const std::string& source) : text_(text), source_(source) {
+    if (text_.starts_with("\xEF\xBB\xBF")) text_.remove_prefix(3);
+  }
+
+  // Reads the next non-blank record into `fields`; false at end of input. `start_line` receives
+  // the line the record starts on.
+  bool next(std::vector<std::string>& fields, int& start_line) {
+    while (pos_ < text_.size()) {
+      fields.clear();
+      start_line = line_;
+      bool blank = true;
+      for (;;) {
+        bool quoted = false;
+        std::string field = read_field(quoted);
+        if (quoted || !field.empty()) blank = false;
+        fields.push_back(std::move(field));
+        if (pos_ >= text_.size()) break;
+        const char c = text_[pos_];
+        if (c == ',') {
+          blank = false;
+          ++pos_;
+          continue;
+        }
+        skip_line_break();
+        break;
+      }
+      if (!blank) return true;
+    }
+    return false;
+  }
+
+ private:
+  [[noreturn]] void fail(int line, const std::string& what) const {
+    throw InputError(fmt::format("{}:{}: {}", source_, line, what));
+  }
+
+  bool at_line_break() const { return text_[pos_] == '\n' || text_[pos_] == '\r'; }
+
+  void skip_line_break() {
+    if (text_[pos_] == '\r' && pos_ + 1 < text_.size() && text_[pos_ + 1] == '\n') ++pos_;
+    ++pos_;
+    ++line_;
+  }
+
+  std::string read_field(bool& quoted) {
+    // Skip blanks before a possible opening quote.
+    size_t p = pos_;
+    while (p < text_.size() && (text_[p] == ' ' || text_[p] == '\t')) ++p;
+    if (p < text_.size() && text_[p] == '"') {
+      quoted = true;
+      pos_ = p + 1;
+      return read_quoted();
+    }
+    const size_t begin = pos_;
+    while (pos_ < text_.size() && text_[pos_] != ',' && !at_line_break()) {
+      if (text_[pos_] == '"')
+        fail(line_, "a double quote inside an unquoted cell; put the whole cell in quotes and "
+                    "write an inner quote as \"\"");
+      ++pos_;
+    }
+    return std::string(trim(text_.substr(begin, pos_ - begin)));
+  }
+
+  std::string read_quoted() {
+    const int open_line = line_;
+    std::string out;
+    for (;;) {
+      if (pos_ >= text_.size())
+        fail(open_line, "a quoted cell is never closed; add the closing double quote");
+      const char c = text_[pos_];
+      if (c == '"') {
+        if (pos_ + 1 < text_.size() && text_[pos_ + 1] == '"') {
+          out.push_back('"');
+          pos_ += 2;
+          continue;
+        }
+        ++pos_;
+        break;
+      }
+      if (c == '\r' || c == '\n') {
+        // Line breaks inside quotes belong to the cell; store them as '\n'.
+        skip_line_break();
+        out.push_back('\n');
+        continue;
+      }
+      out.push_back(c);
+      ++pos_;
+    }
+    while (pos_ < text_.size() && (text_[pos_] == ' ' || text_[pos_] == '\t')) ++pos_;
+    if (pos_ < text_.size() && text_[pos_] != ',' && !at_line_break())
+      fail(line_, "text after the closing quote of a cell; quote the whole cell or remove it");
+    return out;
+  }
+
+  std::string_view text_;
+  const std::string& source_;
+  size_t pos_ = 0;
+  int line_ = 1;
+};
+
+}  // namespace
+
+int CsvTable::column_index(std::string_view name) const {
+  for (size_t i = 0; i < header.size(); ++i)
+    if (header[i] == name) return static_cast<int>(i);
+  return -1;
+}
+
+std::string CsvTable::where(int r) const {
+  return fmt::format("{}:{}", source, r >= 0 && r < static_cast<int>(lines.size()) ? lines[r] : 0);
+}
+
+CsvTable parse_csv(std::string_view text, const std::string& source) {
+  CsvTable table;
+  table.source = source;
+  Parser parser(text, table.source);
+  int line = 0;
+  if (!parser.next(table.header, line))
+    throw InputError(fmt::format("{}: the file is empty; it needs a header row of column names "
+                                 "and at least one data row",
+                                 source));
+  std::unordered_set<std::string> seen;
+  for (size_t c = 0; c < table.header.size(); ++c) {
+    const auto& name = table.header[c];
+    if (name.empty())
+      throw InputError(fmt::format("{}:{}: column {} of the header has no name; give every "
+                                   "column a name",
+                                   source, line, c + 1));
+    if (!seen.insert(name).second)
+      throw InputError(fmt::format("{}:{}: column name '{}' appears twice in the header; column "
+                                   "names must be unique",
+                                   source, line, name));
+  }
+  std::vector<std::string> fields;
+  while (parser.next(fields, line)) {
+    if (fields.size() != table.header.size())
+      throw InputError(fmt::format(
+          "{}:{}: row has {} cell{} but the header has {} columns; every row needs one cell per "
+          "column (leave a cell empty for a missing value)",
+          source, line, fields.size(), fields.size() == 1 ? "" : "s", table.header.size()));
+    table.rows.push_back(fields);
+    table.lines.push_back(line);
+  }
+  return table;
+}
+
+CsvTable read_csv(const std::filesystem::path& file) {
+  std::error_code ec;
+  if (!std::filesystem::exists(file, ec))
+    throw InputError(fmt::format("data file '{}' does not exist; check `data.file` (paths are "
+                                 "relative to the config file)",
+                                 file.string()));
+  if (std::filesystem::is_directory(file, ec))
+    throw InputError(fmt::format("data file '{}' is a folder, not a CSV file; check `data.file`",
+                                 file.string()));
+  std::ifstream in(file, std::ios::binary);
+  if (!in)
+    throw InputError(fmt::format("cannot read data file '{}'; check its permissions",
+                                 file.string()));
+  std::ostringstream buffer;
+  buffer << in.rdbuf();
+  return parse_csv(buffer.str(), file.string());
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,164 @@
+#include "model/arma_filter.h"
+
+#include <algorithm>
+#include <cmath>
+
+namespace lagsieve {
+
+namespace {
+
+// Tolerance on the largest change of the state covariance below which the gain is frozen. The
+// likelihood changes by far less than the optimiser's tolerance.
+constexpr double kSteadyTolerance = 1e-12;
+
+int state_dim(size_t p, size_t q) { return static_cast<int>(std::max(p, q + 1)); }
+
+void load_polynomials(std::span<const double> ar, std::span<const double> ma, int m,
+                      ArmaFilterWorkspace& ws) {
+  ws.ar_full.setZero(m);
+  ws.ma_full.setZero(m);  // ma_full(0) = 1, ma_full(j) = ma_j
+  for (size_t i = 0; i < ar.size(); ++i) ws.ar_full(i) = ar[i];
+  ws.ma_full(0) = 1.0;
+  for (size_t j = 0; j < ma.size(); ++j) ws.ma_full(j + 1) = ma[j];
+}
+
+// out = T * in for the companion-type T: (T X)(i, .) = ar_i X(0, .) + X(i + 1, .).
+template <typename In, typename Out>
+void multiply_t_left(const Eigen::VectorXd& ar, const In& in, Out& out) {
+  const Eigen::Index m = in.rows();
+  for (Eigen::Index i = 0; i < m; ++i) {
+    out.row(i) = ar(i) * in.row(0);
+    if (i + 1 < m) out.row(i) += in.row(i + 1);
+  }
+}
+
+// out = X * T' : (X T')(., j) = ar_j X(., 0) + X(., j + 1).
+void multiply_t_right(const Eigen::VectorXd& ar, const Eigen::MatrixXd& in, Eigen::MatrixXd& out) {
+  const Eigen::Index m = in.cols();
+  for (Eigen::Index j = 0; j < m; ++j) {
+    out.col(j) = ar(j) * in.col(0);
+    if (j + 1 < m) out.col(j) += in.col(j + 1);
+  }
+}
+
+}  // namespace
+
+bool stationary_state_covariance(std::span<const double> ar, std::span<const double> ma,
+                                 ArmaFilterWorkspace& ws, Eigen::MatrixXd& p0) {
+  const int m = state_dim(ar.size(), ma.size());
+  load_polynomials(ar, ma, m, ws);
+  // Doubling: P_{k+1} = P_k + A_k P_k A_k', A_{k+1} = A_k^2, from P_0 = R R', A_0 = T. After k
+  // steps P holds the first 2^k terms of sum_j T^j R R' T'^j.
+  p0.noalias() = ws.ma_full * ws.ma_full.transpose();
+  ws.lyap_a.setZero(m, m);
+  for (int i = 0; i < m; ++i) {
+    ws.lyap_a(i, 0) = ws.ar_full(i);
+    if (i + 1 < m) ws.lyap_a(i, i + 1) = 1.0;
+  }
+  for (int iter = 0; iter < 60; ++iter) {
+    ws.lyap_tmp.noalias() = ws.lyap_a * p0;
+    p0.noalias() += ws.lyap_tmp * ws.lyap_a.transpose();
+    const double a_norm = ws.lyap_a.cwiseAbs().maxCoeff();
+    if (!std::isfinite(a_norm) || a_norm > 1e12) return false;
+    if (a_norm == 0.0) return true;
+    ws.lyap_tmp.noalias() = ws.lyap_a * ws.lyap_a;
+    ws.lyap_a.swap(ws.lyap_tmp);
+    if (ws.lyap_a.cwiseAbs().maxCoeff() < 1e-18 * std::max(1.0, p0.cwiseAbs().maxCoeff()))
+      return true;
+  }
+  return false;
+}
+
+ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
+                              const RowMatrix& y, ArmaFilterWorkspace& ws,
+                              std::vector<double>* innovations, std::vector<double>* f_values) {
+  ArmaFilterSummary out;
+  const Eigen::Index n = y.rows();
+  const Eigen::Index cols = y.cols();
+  const int m = state_dim(ar.size(), ma.size());
+  out.cross.setZero(cols, cols);
+  if (!stationary_state_covariance(ar, ma, ws, ws.P)) {
+    out.ok = false;
+    return out;
+  }
+  ws.states.setZero(m, cols);
+  ws.innov.resize(cols);
+  ws.TP.resize(m, m);
+  ws.Pnext.resize(m, m);
+  ws.gain.resize(m);
+  if (innovations) innovations->assign(n, 0.0);
+  if (f_values) f_values->assign(n, 0.0);
+
+  bool steady = false;
+  double f = 0.0;
+  for (Eigen::Index t = 0; t < n; ++t) {
+    if (!steady) {
+      f = ws.P(0, 0);
+      if (!(f > 0.0) || !std::isfinite(f)) {
+        out.ok = false;
+        return out;
+      }
+      // K = T P Z' / F
+      multiply_t_left(ws.ar_full, ws.P.col(0), ws.gain);
+      ws.gain /= f;
+    }
+    // Innovations of every column; then a_{t+1} = T a_t + K v_t.
+    ws.innov.noalias() = y.row(t).transpose() - ws.states.row(0).transpose();
+    const double inv_sqrt_f = 1.0 / std::sqrt(f);
+    out.sum_log_f += std::log(f);
+    // Symmetric running accumulation (cheaper than storing and multiplying a tall matrix).
+    out.cross.selfadjointView<Eigen::Lower>().rankUpdate(ws.innov, 1.0 / f);
+    if (innovations) (*innovations)[t] = ws.innov(0) * inv_sqrt_f;
+    if (f_values) (*f_values)[t] = f;
+    ws.row0 = ws.states.row(0);
+    for (Eigen::Index i = 0; i + 1 < m; ++i)
+      ws.states.row(i) = ws.ar_full(i) * ws.row0 + ws.states.row(i + 1);
+    ws.states.row(m - 1) = ws.ar_full(m - 1) * ws.row0;
+    ws.states.noalias() += ws.gain * ws.innov.transpose();
+
+    if (!steady) {
+      // P_{t+1} = T P T' + R R' - K K' F
+      multiply_t_left(ws.ar_full, ws.P, ws.TP);
+      multiply_t_right(ws.ar_full, ws.TP, ws.Pnext);
+      ws.Pnext.noalias() += ws.ma_full * ws.ma_full.transpose();
+      ws.Pnext.noalias() -= (f * ws.gain) * ws.gain.transpose();
+      const double change = (ws.Pnext - ws.P).cwiseAbs().maxCoeff();
+      ws.P.swap(ws.Pnext);
+      if (change < kSteadyTolerance) {
+        steady = true;
+        out.steady_from = static_cast<int>(t + 1);
+      }
+    }
+  }
+  out.cross.triangularView<Eigen::StrictlyUpper>() = out.cross.transpose();
+  return out;
+}
+
+ArmaEndState arma_end_state(std::span<const double> ar, std::span<const double> ma,
+                            std::span<const double> y, ArmaFilterWorkspace& ws) {
+  const int m = state_dim(ar.size(), ma.size());
+  RowMatrix col(static_cast<Eigen::Index>(y.size()), 1);
+  for (size_t t = 0; t < y.size(); ++t) col(t, 0) = y[t];
+  ArmaEndState end;
+  if (!stationary_state_covariance(ar, ma, ws, ws.P)) return end;
+  Eigen::VectorXd a = Eigen::VectorXd::Zero(m), next(m), gain(m);
+  Eigen::MatrixXd tp(m, m), pn(m, m);
+  for (size_t t = 0; t < y.size(); ++t) {
+    const double f = ws.P(0, 0);
+    multiply_t_left(ws.ar_full, ws.P.col(0), gain);
+    gain /= f;
+    const double v = y[t] - a(0);
+    multiply_t_left(ws.ar_full, a, next);
+    a = next + gain * v;
+    multiply_t_left(ws.ar_full, ws.P, tp);
+    multiply_t_right(ws.ar_full, tp, pn);
+    pn.noalias() += ws.ma_full * ws.ma_full.transpose();
+    pn.noalias() -= (f * gain) * gain.transpose();
+    ws.P.swap(pn);
+  }
+  end.state = a;
+  end.cov = ws.P;
+  return end;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,57 @@
+#pragma once
+// Exact Gaussian filtering of ARMA noise by the Kalman filter on the state-space form
+//   n_t = Z alpha_t,  alpha_{t+1} = T alpha_t + R a_{t+1},  Z = e_1,
+// T = [ar | I; 0] (m x m, m = max(p', q' + 1)), R = (1, ma_1, ..., ma_{m-1})',
+// with the stationary initial covariance (discrete Lyapunov equation solved by doubling) and
+// sigma^2 = 1 (it is concentrated out by the caller). Once the state covariance has converged
+// the filter switches to the steady-state gain (Gardner, Harvey & Phillips 1980).
+//
+// The gains depend only on the ARMA coefficients, so one pass filters several columns at once
+// (the target and every regressor of the GLS step): each column gets its own state vector.
+#include <Eigen/Core>
+#include <span>
+#include <vector>
+
+namespace lagsieve {
+
+using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
+
+// Scratch space reused across likelihood evaluations of one fit (never shared between threads).
+struct ArmaFilterWorkspace {
+  Eigen::MatrixXd P, TP, Pnext, lyap_a, lyap_tmp;
+  Eigen::VectorXd gain, ar_full, ma_full;
+  RowMatrix states;     // m x columns
+  Eigen::VectorXd innov;
+  Eigen::RowVectorXd row0;
+};
+
+struct ArmaFilterSummary {
+  Eigen::MatrixXd cross;  // sum_t v_t v_t' / F_t over the columns (cols x cols)
+  double sum_log_f = 0.0; // sum_t log F_t
+  int steady_from = -1;   // first step filtered with the steady-state gain (-1: never)
+  bool ok = true;         // false when F_t became non-positive or non-finite
+};
+
+// Stationary covariance of the state: P = T P T' + R R'. Returns false when it does not
+// converge (a non-stationary AR part).
+bool stationary_state_covariance(std::span<const double> ar, std::span<const double> ma,
+                                 ArmaFilterWorkspace& ws, Eigen::MatrixXd& p0);
+
+// Filters every column of `y` (n x cols, row t = time t) and accumulates the cross-product of
+// the standardised innovations. When `innovations` is non-null it receives v_t / sqrt(F_t) of
+// column 0 (the residuals), and `f_values` (if non-null) F_t.
+ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
+                              const RowMatrix& y, ArmaFilterWorkspace& ws,
+                              std::vector<double>* innovations = nullptr,
+                              std::vector<double>* f_values = nullptr);
+
+// Filtered state at the end of a single-column pass: the one-step prediction a_{n|n-1} of the
+// state for time n (just past the data) and its covariance; the forecaster starts from these.
+struct ArmaEndState {
+  Eigen::VectorXd state;  // a_{n}: prediction of alpha_n given data up to n - 1
+  Eigen::MatrixXd cov;    // its covariance in units of sigma^2
+};
+ArmaEndState arma_end_state(std::span<const double> ar, std::span<const double> ma,
+                            std::span<const double> y, ArmaFilterWorkspace& ws);
+
+}  // namespace lagsieve

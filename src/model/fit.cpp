@@ -1,0 +1,395 @@
+#include "model/fit.h"
+
+#include <Eigen/Dense>
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <fmt/format.h>
+#include <limits>
+#include <nlopt.hpp>
+
+#include "evaluation/distributions.h"
+#include "model/polynomial.h"
+
+namespace lagsieve {
+
+std::string_view to_string(FitStatus s) {
+  switch (s) {
+    case FitStatus::ok: return "ok";
+    case FitStatus::no_convergence: return "no_convergence";
+    case FitStatus::boundary: return "boundary";
+    case FitStatus::numerical_failure: return "numerical_failure";
+    case FitStatus::rejected: return "rejected";
+  }
+  return "unknown";
+}
+
+double aic(double loglik, int k) { return -2.0 * loglik + 2.0 * k; }
+double aicc(double loglik, int k, int n) {
+  return n - k - 1 > 0 ? aic(loglik, k) + 2.0 * k * (k + 1) / (n - k - 1)
+                       : std::numeric_limits<double>::infinity();
+}
+double bic(double loglik, int k, int n) { return -2.0 * loglik + k * std::log(double(n)); }
+
+namespace {
+
+// One polynomial's slice of the nonlinear vector and its sign convention: -1 for
+// 1 - sum a_j B^j (delta, AR), +1 for 1 + sum a_j B^j (MA).
+struct Block {
+  int offset = 0;
+  int size = 0;
+  double sign = -1.0;
+};
+
+std::vector<Block> blocks_of(const ModelSpec& spec) {
+  std::vector<Block> blocks;
+  int offset = 0;
+  auto add = [&](int size, double sign) {
+    if (size > 0) blocks.push_back({offset, size, sign});
+    offset += size;
+  };
+  for (const auto& term : spec.inputs) add(term.order.denominator, -1.0);
+  add(spec.noise.p, -1.0);
+  add(spec.noise.q, +1.0);
+  add(spec.noise.seasonal_p, -1.0);
+  add(spec.noise.seasonal_q, +1.0);
+  return blocks;
+}
+
+void to_natural(const std::vector<Block>& blocks, std::span<const double> z,
+                std::span<double> natural) {
+  for (const auto& b : blocks) {
+    auto out = natural.subspan(b.offset, b.size);
+    pacf_to_coefficients(z.subspan(b.offset, b.size), out);
+    if (b.sign > 0)
+      for (auto& v : out) v = -v;
+  }
+}
+
+bool to_unconstrained(const std::vector<Block>& blocks, std::span<const double> natural,
+                      std::span<double> z) {
+  std::vector<double> coef;
+  for (const auto& b : blocks) {
+    coef.assign(natural.begin() + b.offset, natural.begin() + b.offset + b.size);
+    if (b.sign > 0)
+      for (auto& v : coef) v = -v;
+    if (!coefficients_to_pacf(coef, z.subspan(b.offset, b.size))) return false;
+  }
+  return true;
+}
+
+constexpr double kBound = 7.0;  // |z| <= 7 keeps |partial autocorrelation| <= 0.999998
+
+struct Objective {
+  const LikelihoodProblem* problem;
+  const std::vector<Block>* blocks;
+  LikelihoodWorkspace* ws;
+  std::vector<double> natural;
+  int evaluations = 0;
+  double best = -std::numeric_limits<double>::infinity();
+  std::vector<double> best_z;
+};
+
+double objective(unsigned n, const double* z, double* /*grad*/, void* data) {
+  auto* obj = static_cast<Objective*>(data);
+  ++obj->evaluations;
+  to_natural(*obj->blocks, std::span<const double>(z, n), obj->natural);
+  const auto value = profile_loglik(*obj->problem, obj->natural, *obj->ws);
+  if (!value.ok) return 1e12;
+  if (value.loglik > obj->best) {
+    obj->best = value.loglik;
+    obj->best_z.assign(z, z + n);
+  }
+  return -value.loglik;
+}
+
+struct OptimiserRun {
+  std::vector<double> z;
+  double loglik = -std::numeric_limits<double>::infinity();
+  int evaluations = 0;
+  nlopt::result code = nlopt::FAILURE;
+};
+
+OptimiserRun optimise(const LikelihoodProblem& problem, const std::vector<Block>& blocks,
+                      std::vector<double> z0, const FitOptions& options, LikelihoodWorkspace& ws) {
+  const unsigned dim = static_cast<unsigned>(z0.size());
+  Objective obj{&problem, &blocks, &ws, std::vector<double>(dim), 0,
+                -std::numeric_limits<double>::infinity(), z0};
+  for (auto& v : z0) v = std::clamp(v, -kBound + 1e-9, kBound - 1e-9);
+  nlopt::opt opt(nlopt::LN_BOBYQA, dim);
+  opt.set_lower_bounds(std::vector<double>(dim, -kBound));
+  opt.set_upper_bounds(std::vector<double>(dim, kBound));
+  opt.set_min_objective(objective, &obj);
+  opt.set_ftol_rel(options.relative_tolerance);
+  opt.set_xtol_rel(1e-8);
+  opt.set_maxeval(options.max_evaluations > 0 ? options.max_evaluations : 300 + 150 * int(dim));
+  opt.set_initial_step(std::vector<double>(dim, 0.15));
+  OptimiserRun run;
+  double value = 0.0;
+  std::vector<double> z = z0;
+  try {
+    run.code = opt.optimize(z, value);
+  } catch (const nlopt::roundoff_limited&) {
+    run.code = nlopt::ROUNDOFF_LIMITED;
+  } catch (const std::exception&) {
+    run.code = nlopt::FAILURE;
+  }
+  run.z = obj.best_z;
+  run.loglik = obj.best;
+  run.evaluations = obj.evaluations;
+  return run;
+}
+
+double max_abs_pacf(std::span<const double> z) {
+  double m = 0.0;
+  for (double v : z) m = std::max(m, std::abs(std::tanh(v)));
+  return m;
+}
+
+// Numerical Hessian of the log-likelihood in natural coordinates of (nonlinear, linear).
+Eigen::MatrixXd numerical_hessian(const LikelihoodProblem& problem, std::span<const double> x0,
+                                  int n_nonlinear, LikelihoodWorkspace& ws) {
+  const int d = static_cast<int>(x0.size());
+  std::vector<double> x(x0.begin(), x0.end());
+  auto f = [&](const std::vector<double>& v) {
+    const auto p = unpack(problem.spec, std::span<const double>(v).first(n_nonlinear),
+                          std::span<const double>(v).subspan(n_nonlinear), 1.0);
+    return loglik_at(problem, p, ws);
+  };
+  std::vector<double> h(d);
+  for (int i = 0; i < d; ++i) h[i] = 1e-4 * std::max(std::abs(x0[i]), 0.05);
+  const double f0 = f(x);
+  Eigen::MatrixXd hess(d, d);
+  for (int i = 0; i < d; ++i) {
+    x[i] = x0[i] + h[i];
+    const double fp = f(x);
+    x[i] = x0[i] - h[i];
+    const double fm = f(x);
+    x[i] = x0[i];
+    hess(i, i) = (fp - 2.0 * f0 + fm) / (h[i] * h[i]);
+    for (int j = 0; j < i; ++j) {
+      double acc = 0.0;
+      for (int si : {1, -1})
+        for (int sj : {1, -1}) {
+          x[i] = x0[i] + si * h[i];
+          x[j] = x0[j] + sj * h[j];
+          acc += si * sj * f(x);
+        }
+      x[i] = x0[i];
+      x[j] = x0[j];
+      hess(i, j) = hess(j, i) = acc / (4.0 * h[i] * h[j]);
+    }
+  }
+  return hess;
+}
+
+void add_roots(FitDiagnostics& diag, const std::string& name, std::span<const double> a,
+               double sign) {
+  if (a.empty()) return;
+  PolynomialRoots r;
+  r.polynomial = name;
+  r.roots = polynomial_roots(a, sign);
+  r.min_modulus = min_root_modulus(a, sign);
+  diag.roots.push_back(std::move(r));
+}
+
+// Two polynomials sharing a root (within `tol`) cancel: the model is over-parameterised.
+bool near_common_root(std::span<const double> a, double sign_a, std::span<const double> b,
+                      double sign_b, double tol, double* distance) {
+  const auto ra = polynomial_roots(a, sign_a);
+  const auto rb = polynomial_roots(b, sign_b);
+  double best = std::numeric_limits<double>::infinity();
+  for (const auto& x : ra)
+    for (const auto& y : rb) best = std::min(best, std::abs(x - y));
+  *distance = best;
+  return best < tol;
+}
+
+void compute_diagnostics(const LikelihoodProblem& problem, FitResult& fit,
+                         LikelihoodWorkspace& ws) {
+  const ModelSpec& spec = problem.spec;
+  const ModelParams& p = fit.params;
+  FitDiagnostics& diag = fit.diagnostics;
+  fit.residuals = model_residuals(problem, p, ws);
+
+  // Ljung-Box at a few lags, degrees of freedom reduced by the ARMA parameter count.
+  const int n = static_cast<int>(fit.residuals.size());
+  const int arma = spec.noise.p + spec.noise.q + spec.noise.seasonal_p + spec.noise.seasonal_q;
+  double mean = 0.0;
+  for (double e : fit.residuals) mean += e;
+  mean /= n;
+  double c0 = 0.0;
+  for (double e : fit.residuals) c0 += (e - mean) * (e - mean);
+  std::vector<int> lags{6, 12, 24};
+  if (spec.noise.period > 1) lags = {spec.noise.period, 2 * spec.noise.period};
+  for (int lag : lags) {
+    if (lag >= n / 2 || lag - arma <= 0) continue;
+    double q = 0.0;
+    for (int k = 1; k <= lag; ++k) {
+      double ck = 0.0;
+      for (int t = k; t < n; ++t) ck += (fit.residuals[t] - mean) * (fit.residuals[t - k] - mean);
+      const double r = ck / c0;
+      q += r * r / (n - k);
+    }
+    q *= n * (n + 2.0);
+    diag.ljung_box.push_back({lag, lag - arma, q, chi_square_upper_tail(q, lag - arma)});
+  }
+
+  // Roots and steady-state gains.
+  const int nn = problem.n_nonlinear();
+  const int lin_offset = nn;
+  int delta_offset = 0;
+  int omega_offset = lin_offset + (spec.constant ? 1 : 0);
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    const auto& name = spec.inputs[i].name;
+    const auto& ip = p.inputs[i];
+    add_roots(diag, name + ".delta", ip.delta, -1.0);
+    double sum_omega = 0.0, sum_delta = 0.0;
+    for (double o : ip.omega) sum_omega += o;
+    for (double dl : ip.delta) sum_delta += dl;
+    InputGain g{name, sum_omega / (1.0 - sum_delta), std::numeric_limits<double>::quiet_NaN()};
+    if (fit.covariance.rows() > 0) {
+      Eigen::VectorXd grad = Eigen::VectorXd::Zero(fit.covariance.rows());
+      for (size_t j = 0; j < ip.omega.size(); ++j) grad(omega_offset + j) = 1.0 / (1.0 - sum_delta);
+      for (size_t j = 0; j < ip.delta.size(); ++j)
+        grad(delta_offset + j) = sum_omega / ((1.0 - sum_delta) * (1.0 - sum_delta));
+      const double var = grad.dot(fit.covariance * grad);
+      if (var >= 0.0) g.std_error = std::sqrt(var);
+    }
+    diag.gains.push_back(g);
+    if (!ip.delta.empty() && ip.omega.size() > 1) {
+      // omega(B) = omega_0 (1 + sum (omega_j/omega_0) B^j); compare its roots with delta's.
+      std::vector<double> scaled;
+      for (size_t j = 1; j < ip.omega.size(); ++j) scaled.push_back(ip.omega[j] / ip.omega[0]);
+      double dist = 0.0;
+      if (ip.omega[0] != 0.0 && near_common_root(ip.delta, -1.0, scaled, 1.0, 0.1, &dist))
+        diag.warnings.push_back(fmt::format(
+            "near_cancellation: {} numerator and denominator share a root (distance {:.3g}); a "
+            "lower order fits the same",
+            name, dist));
+    }
+    delta_offset += static_cast<int>(ip.delta.size());
+    omega_offset += static_cast<int>(ip.omega.size());
+  }
+  add_roots(diag, "ar", p.phi, -1.0);
+  add_roots(diag, "ma", p.theta, +1.0);
+  add_roots(diag, "seasonal_ar", p.seasonal_phi, -1.0);
+  add_roots(diag, "seasonal_ma", p.seasonal_theta, +1.0);
+  double dist = 0.0;
+  if (!p.phi.empty() && !p.theta.empty() && near_common_root(p.phi, -1.0, p.theta, 1.0, 0.1, &dist))
+    diag.warnings.push_back(fmt::format(
+        "near_cancellation: AR and MA share a root (distance {:.3g}); a lower order fits the same",
+        dist));
+}
+
+}  // namespace
+
+FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options) {
+  const auto t0 = std::chrono::steady_clock::now();
+  FitResult fit;
+  fit.spec = problem.spec;
+  fit.n_obs = problem.n_obs();
+  fit.n_params = problem.n_params();
+  fit.start = problem.start;
+  LikelihoodWorkspace ws;
+  const auto blocks = blocks_of(problem.spec);
+  const int dim = problem.n_nonlinear();
+
+  std::vector<double> natural(dim, 0.0);
+  nlopt::result code = nlopt::SUCCESS;
+  bool boundary = false;
+  if (dim > 0) {
+    std::vector<double> start = options.warm_start
+                                    ? pack_nonlinear(problem.spec, *options.warm_start)
+                                    : start_values(problem);
+    std::vector<double> z0(dim, 0.0);
+    if (!to_unconstrained(blocks, start, z0)) std::fill(z0.begin(), z0.end(), 0.0);
+    auto run = optimise(problem, blocks, z0, options, ws);
+    fit.starts = 1;
+    fit.evaluations = run.evaluations;
+    // Restart rule: a fit ending on the boundary or failing gets a second start from the
+    // neutral point (every partial autocorrelation zero), and the better optimum is kept.
+    const bool at_boundary = !run.z.empty() && max_abs_pacf(run.z) > options.boundary_pacf;
+    const bool failed = run.z.empty() || !std::isfinite(run.loglik) || run.code < 0;
+    const bool neutral_start = std::all_of(z0.begin(), z0.end(), [](double v) { return v == 0.0; });
+    if ((at_boundary || failed) && !neutral_start) {
+      auto second = optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws);
+      fit.starts = 2;
+      fit.evaluations += second.evaluations;
+      if (second.loglik > run.loglik) run = std::move(second);
+    }
+    if (run.z.empty() || !std::isfinite(run.loglik)) {
+      fit.status = FitStatus::numerical_failure;
+      fit.message = "the likelihood could not be evaluated at any point tried";
+      fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+      return fit;
+    }
+    to_natural(blocks, run.z, natural);
+    code = run.code;
+    boundary = max_abs_pacf(run.z) > options.boundary_pacf;
+  } else {
+    fit.evaluations = 1;
+  }
+
+  const auto value = profile_loglik(problem, natural, ws);
+  if (!value.ok) {
+    fit.status = FitStatus::numerical_failure;
+    fit.message = "the GLS step failed: regressors are collinear or the noise variance is zero";
+    fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    return fit;
+  }
+  fit.loglik = value.loglik;
+  fit.sigma2 = value.sigma2;
+  std::vector<double> linear(value.linear.data(), value.linear.data() + value.linear.size());
+  fit.params = unpack(problem.spec, natural, linear, value.sigma2);
+  fit.aic = aic(fit.loglik, fit.n_params);
+  fit.aicc = aicc(fit.loglik, fit.n_params, fit.n_obs);
+  fit.bic = bic(fit.loglik, fit.n_params, fit.n_obs);
+
+  if (boundary) {
+    fit.status = FitStatus::boundary;
+    fit.message = fmt::format(
+        "the optimum lies on the edge of the admissible region (a partial autocorrelation "
+        "beyond {}): a unit root or a non-invertible MA; the estimate is usable with care",
+        options.boundary_pacf);
+  } else if (code == nlopt::MAXEVAL_REACHED || code == nlopt::MAXTIME_REACHED) {
+    fit.status = FitStatus::no_convergence;
+    fit.message = fmt::format("the optimiser stopped at its budget of {} evaluations before "
+                              "converging; the best point found is reported",
+                              fit.evaluations);
+  } else {
+    fit.status = FitStatus::ok;
+    fit.message = dim > 0 ? fmt::format("converged after {} likelihood evaluations ({} start{})",
+                                        fit.evaluations, fit.starts, fit.starts > 1 ? "s" : "")
+                          : "closed form: no nonlinear parameters";
+  }
+
+  // Estimates, covariance from the numerical Hessian of the full log-likelihood.
+  const auto nl_names = nonlinear_names(problem.spec);
+  const auto l_names = linear_names(problem.spec);
+  std::vector<double> all(natural);
+  all.insert(all.end(), linear.begin(), linear.end());
+  fit.covariance.resize(0, 0);
+  std::vector<double> se(all.size(), std::numeric_limits<double>::quiet_NaN());
+  if (options.standard_errors && !all.empty()) {
+    const Eigen::MatrixXd hess = numerical_hessian(problem, all, dim, ws);
+    Eigen::LDLT<Eigen::MatrixXd> ldlt(-hess);
+    if (hess.allFinite() && ldlt.info() == Eigen::Success && ldlt.isPositive() &&
+        ldlt.vectorD().minCoeff() > 0.0) {
+      fit.covariance = ldlt.solve(Eigen::MatrixXd::Identity(all.size(), all.size()));
+      for (size_t i = 0; i < all.size(); ++i) se[i] = std::sqrt(fit.covariance(i, i));
+    } else {
+      fit.diagnostics.warnings.emplace_back(
+          "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
+          "standard errors are not available");
+    }
+  }
+  for (size_t i = 0; i < all.size(); ++i)
+    fit.estimates.push_back({i < nl_names.size() ? nl_names[i] : l_names[i - nl_names.size()],
+                             all[i], se[i]});
+  if (options.diagnostics) compute_diagnostics(problem, fit, ws);
+  fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return fit;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,101 @@
+#pragma once
+// Exact maximum-likelihood fit of one transfer-function model.
+//
+// The optimiser (NLopt BOBYQA, derivative-free) sees only the nonlinear parameters, each
+// polynomial mapped to unconstrained reals through partial autocorrelations (Jones 1980;
+// Monahan 1984), so every delta is stable, every AR stationary and every MA invertible by
+// construction. The constant and every omega are concentrated out by GLS (see likelihood.h).
+#include <Eigen/Core>
+#include <complex>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/series.h"
+#include "core/spec.h"
+#include "model/likelihood.h"
+#include "model/params.h"
+
+namespace lagsieve {
+
+// How a fit ended. ok, boundary and no_convergence carry a usable (best found) point;
+// numerical_failure does not; rejected is set by callers whose diagnostics refuse the model.
+enum class FitStatus { ok, no_convergence, boundary, numerical_failure, rejected };
+std::string_view to_string(FitStatus s);
+
+struct FitOptions {
+  int max_evaluations = 0;              // 0: 300 + 150 * (number of nonlinear parameters)
+  double relative_tolerance = 1e-10;    // stop when the log-likelihood changes less (relative)
+  double boundary_pacf = 0.995;         // |partial autocorrelation| beyond: on the boundary
+  bool standard_errors = true;          // numerical Hessian (2 d^2 likelihood evaluations)
+  bool diagnostics = true;              // residuals, Ljung-Box, roots, gains
+  std::optional<ModelParams> warm_start;  // start here instead of the regression start values
+};
+
+struct ParamEstimate {
+  std::string name;
+  double value = 0.0;
+  double std_error = 0.0;  // NaN when the Hessian is not usable
+};
+
+struct LjungBoxResult {
+  int lag = 0;
+  int df = 0;              // lag minus the number of ARMA parameters
+  double statistic = 0.0;
+  double p_value = 0.0;
+};
+
+struct InputGain {
+  std::string input;
+  double gain = 0.0;       // omega(1) / delta(1): long-run effect of a unit step
+  double std_error = 0.0;  // delta method
+};
+
+struct PolynomialRoots {
+  std::string polynomial;  // e.g. "ar", "ma", "temp.delta", "temp.omega"
+  std::vector<std::complex<double>> roots;
+  double min_modulus = 0.0;
+};
+
+struct FitDiagnostics {
+  std::vector<LjungBoxResult> ljung_box;
+  std::vector<InputGain> gains;
+  std::vector<PolynomialRoots> roots;
+  std::vector<std::string> warnings;  // fixed codes with numbers, e.g. "near_cancellation: ..."
+};
+
+struct FitResult {
+  ModelSpec spec;
+  FitStatus status = FitStatus::numerical_failure;
+  std::string message;                 // a sentence, with numbers
+  ModelParams params;
+  std::vector<ParamEstimate> estimates;  // nonlinear then linear parameters (sigma^2 not here)
+  Eigen::MatrixXd covariance;          // of `estimates`, natural coordinates
+  double loglik = 0.0;
+  double sigma2 = 0.0;
+  double aic = 0.0, aicc = 0.0, bic = 0.0;
+  int n_obs = 0;                       // observations inside the likelihood
+  int n_params = 0;                    // every estimated parameter, sigma^2 included
+  int start = 0;                       // first differenced index inside the likelihood
+  std::vector<double> residuals;       // standardised innovations, variance sigma^2
+  FitDiagnostics diagnostics;
+  int evaluations = 0;
+  int starts = 0;                      // optimiser starts used (a restart follows a boundary)
+  double seconds = 0.0;
+
+  bool usable() const { return status != FitStatus::numerical_failure; }
+};
+
+FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options = {});
+
+// Information criteria from a log-likelihood; k counts every estimated parameter.
+double aic(double loglik, int k);
+double aicc(double loglik, int k, int n);
+double bic(double loglik, int k, int n);
+
+// Regression start values for the nonlinear parameters (natural coordinates): deltas from a
+// distributed-lag regression, ARMA terms by Hannan & Rissanen (1982).
+std::vector<double> start_values(const LikelihoodProblem& problem);
+
+}  // namespace lagsieve

@@ -1,0 +1,237 @@
+#include "model/likelihood.h"
+
+#include <Eigen/Cholesky>
+#include <algorithm>
+#include <cmath>
+#include <fmt/format.h>
+#include <numbers>
+
+#include "core/error.h"
+#include "data/transform.h"
+#include "model/polynomial.h"
+
+namespace lagsieve {
+
+int LikelihoodProblem::n_nonlinear() const {
+  int k = spec.noise.p + spec.noise.q + spec.noise.seasonal_p + spec.noise.seasonal_q;
+  for (const auto& term : spec.inputs) k += term.order.denominator;
+  return k;
+}
+
+int LikelihoodProblem::n_linear() const {
+  int k = spec.constant ? 1 : 0;
+  for (const auto& term : spec.inputs) k += term.order.numerator + 1;
+  return k;
+}
+
+int minimum_start(const ModelSpec& spec) {
+  int start = 0;
+  for (const auto& term : spec.inputs)
+    start = std::max(start, term.order.delay + term.order.numerator);
+  return start;
+}
+
+LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, int start) {
+  LikelihoodProblem problem;
+  problem.spec = spec;
+  const auto transformed = apply_transform(data.target, spec.transform, data.target_name.c_str());
+  problem.w = difference(transformed, spec.differencing);
+  for (const auto& term : spec.inputs) {
+    const int index = data.input_index(term.name);
+    if (index < 0)
+      throw InputError(fmt::format("input '{}' is not in the data of series '{}'", term.name,
+                                   data.target_name));
+    problem.u.push_back(difference(data.inputs[index], spec.differencing));
+  }
+  problem.start = start < 0 ? minimum_start(spec) : start;
+  const int needed = problem.n_params() + 3;
+  if (problem.n_obs() < needed)
+    throw InputError(fmt::format(
+        "series '{}': only {} observations remain after differencing ({} lost) and the "
+        "largest delay + numerator lag ({}); the model has {} parameters and needs at least {}. "
+        "Use smaller orders or delays, or more data",
+        data.target_name, std::max(problem.n_obs(), 0), spec.differencing.lost(), problem.start,
+        problem.n_params(), needed));
+  for (size_t i = 0; i < problem.u.size(); ++i) {
+    const auto& u = problem.u[i];
+    const auto [lo, hi] = std::minmax_element(u.begin() + problem.start, u.end());
+    if (*lo == *hi)
+      throw InputError(fmt::format(
+          "input '{}' is constant over the estimation sample after differencing, so its effect "
+          "cannot be estimated; leave it out or check the column",
+          spec.inputs[i].name));
+  }
+  return problem;
+}
+
+std::vector<std::string> nonlinear_names(const ModelSpec& spec) {
+  std::vector<std::string> names;
+  for (const auto& term : spec.inputs)
+    for (int j = 1; j <= term.order.denominator; ++j)
+      names.push_back(fmt::format("{}.delta{}", term.name, j));
+  for (int j = 1; j <= spec.noise.p; ++j) names.push_back(fmt::format("ar{}", j));
+  for (int j = 1; j <= spec.noise.q; ++j) names.push_back(fmt::format("ma{}", j));
+  for (int j = 1; j <= spec.noise.seasonal_p; ++j) names.push_back(fmt::format("sar{}", j));
+  for (int j = 1; j <= spec.noise.seasonal_q; ++j) names.push_back(fmt::format("sma{}", j));
+  return names;
+}
+
+std::vector<std::string> linear_names(const ModelSpec& spec) {
+  std::vector<std::string> names;
+  if (spec.constant) names.emplace_back("constant");
+  for (const auto& term : spec.inputs)
+    for (int j = 0; j <= term.order.numerator; ++j)
+      names.push_back(fmt::format("{}.omega{}", term.name, j));
+  return names;
+}
+
+std::vector<double> pack_nonlinear(const ModelSpec& spec, const ModelParams& p) {
+  std::vector<double> v;
+  for (size_t i = 0; i < spec.inputs.size(); ++i)
+    v.insert(v.end(), p.inputs[i].delta.begin(), p.inputs[i].delta.end());
+  v.insert(v.end(), p.phi.begin(), p.phi.end());
+  v.insert(v.end(), p.theta.begin(), p.theta.end());
+  v.insert(v.end(), p.seasonal_phi.begin(), p.seasonal_phi.end());
+  v.insert(v.end(), p.seasonal_theta.begin(), p.seasonal_theta.end());
+  return v;
+}
+
+std::vector<double> pack_linear(const ModelSpec& spec, const ModelParams& p) {
+  std::vector<double> v;
+  if (spec.constant) v.push_back(p.constant);
+  for (size_t i = 0; i < spec.inputs.size(); ++i)
+    v.insert(v.end(), p.inputs[i].omega.begin(), p.inputs[i].omega.end());
+  return v;
+}
+
+ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
+                   std::span<const double> linear, double sigma2) {
+  ModelParams p = zero_params(spec);
+  size_t k = 0;
+  for (auto& input : p.inputs)
+    for (auto& d : input.delta) d = nonlinear[k++];
+  for (auto& v : p.phi) v = nonlinear[k++];
+  for (auto& v : p.theta) v = nonlinear[k++];
+  for (auto& v : p.seasonal_phi) v = nonlinear[k++];
+  for (auto& v : p.seasonal_theta) v = nonlinear[k++];
+  size_t l = 0;
+  if (spec.constant) p.constant = linear[l++];
+  for (auto& input : p.inputs)
+    for (auto& o : input.omega) o = linear[l++];
+  p.sigma2 = sigma2;
+  return p;
+}
+
+namespace {
+
+// Fills ws.columns: column 0 the target, then the constant and one column per omega. Returns
+// the ARMA polynomials (expanded) through `ar`/`ma`.
+void build_columns(const LikelihoodProblem& problem, std::span<const double> nonlinear,
+                   LikelihoodWorkspace& ws, std::vector<double>& ar, std::vector<double>& ma) {
+  const ModelSpec& spec = problem.spec;
+  const int n = problem.n_obs();
+  const int start = problem.start;
+  const int total = static_cast<int>(problem.w.size());
+  ws.columns.resize(n, 1 + problem.n_linear());
+  for (int t = 0; t < n; ++t) ws.columns(t, 0) = problem.w[start + t];
+  int col = 1;
+  if (spec.constant) ws.columns.col(col++).setOnes();
+  size_t k = 0;
+  ws.filtered.resize(total);
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    const auto& order = spec.inputs[i].order;
+    const auto& u = problem.u[i];
+    // y = u / delta(B) from zero pre-sample values.
+    for (int t = 0; t < total; ++t) {
+      double v = u[t];
+      for (int j = 0; j < order.denominator; ++j)
+        if (t - 1 - j >= 0) v += nonlinear[k + j] * ws.filtered[t - 1 - j];
+      ws.filtered[t] = v;
+    }
+    k += order.denominator;
+    for (int j = 0; j <= order.numerator; ++j, ++col)
+      for (int t = 0; t < n; ++t) ws.columns(t, col) = ws.filtered[start + t - order.delay - j];
+  }
+  const auto noise = nonlinear.subspan(k);
+  const auto& ns = spec.noise;
+  ar = expand_ar(noise.subspan(0, ns.p), noise.subspan(ns.p + ns.q, ns.seasonal_p), ns.period);
+  ma = expand_ma(noise.subspan(ns.p, ns.q), noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q),
+                 ns.period);
+}
+
+double gaussian_loglik(int n, double ssr, double sum_log_f) {
+  const double sigma2 = ssr / n;
+  return -0.5 * (n * std::log(2.0 * std::numbers::pi * sigma2) + n + sum_log_f);
+}
+
+}  // namespace
+
+ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const double> nonlinear,
+                            LikelihoodWorkspace& ws) {
+  ProfileValue out;
+  std::vector<double> ar, ma;
+  build_columns(problem, nonlinear, ws, ar, ma);
+  const auto summary = arma_filter(ar, ma, ws.columns, ws.filter);
+  if (!summary.ok) return out;
+  const Eigen::Index k = ws.columns.cols() - 1;
+  const int n = problem.n_obs();
+  const Eigen::MatrixXd& m = summary.cross;
+  double ssr = m(0, 0);
+  if (k > 0) {
+    out.linear_information = m.bottomRightCorner(k, k);
+    Eigen::LDLT<Eigen::MatrixXd> ldlt(out.linear_information);
+    if (ldlt.info() != Eigen::Success || !ldlt.isPositive()) return out;
+    out.linear = ldlt.solve(m.col(0).tail(k));
+    // A near-singular design (collinear regressors) shows up as a tiny pivot.
+    const auto d = ldlt.vectorD();
+    if (d.minCoeff() <= 1e-12 * d.maxCoeff()) return out;
+    ssr -= m.col(0).tail(k).dot(out.linear);
+  } else {
+    out.linear.resize(0);
+  }
+  if (!(ssr > 0.0) || !std::isfinite(ssr)) return out;
+  out.sigma2 = ssr / n;
+  out.loglik = gaussian_loglik(n, ssr, summary.sum_log_f);
+  out.ok = std::isfinite(out.loglik);
+  return out;
+}
+
+double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, LikelihoodWorkspace& ws,
+                 double* sigma2_out) {
+  const auto nonlinear = pack_nonlinear(problem.spec, p);
+  const auto linear = pack_linear(problem.spec, p);
+  std::vector<double> ar, ma;
+  build_columns(problem, nonlinear, ws, ar, ma);
+  // Residual column y - X beta, filtered alone.
+  RowMatrix resid = ws.columns.col(0);
+  for (size_t j = 0; j < linear.size(); ++j) resid.col(0) -= linear[j] * ws.columns.col(j + 1);
+  const auto summary = arma_filter(ar, ma, resid, ws.filter);
+  if (!summary.ok) return -std::numeric_limits<double>::infinity();
+  const double ssr = summary.cross(0, 0);
+  if (sigma2_out) *sigma2_out = ssr / problem.n_obs();
+  return gaussian_loglik(problem.n_obs(), ssr, summary.sum_log_f);
+}
+
+std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelParams& p) {
+  std::vector<double> noise(problem.w.begin(), problem.w.end());
+  for (auto& v : noise) v -= p.constant;
+  for (size_t i = 0; i < problem.spec.inputs.size(); ++i) {
+    const auto x = transfer_response(problem.u[i], problem.spec.inputs[i].order, p.inputs[i]);
+    for (size_t t = 0; t < noise.size(); ++t) noise[t] -= x[t];
+  }
+  return noise;
+}
+
+std::vector<double> model_residuals(const LikelihoodProblem& problem, const ModelParams& p,
+                                    LikelihoodWorkspace& ws) {
+  const auto noise = model_noise(problem, p);
+  RowMatrix col(problem.n_obs(), 1);
+  for (int t = 0; t < problem.n_obs(); ++t) col(t, 0) = noise[problem.start + t];
+  const auto ar = expand_ar(p.phi, p.seasonal_phi, problem.spec.noise.period);
+  const auto ma = expand_ma(p.theta, p.seasonal_theta, problem.spec.noise.period);
+  std::vector<double> innovations;
+  arma_filter(ar, ma, col, ws.filter, &innovations);
+  return innovations;
+}
+
+}  // namespace lagsieve

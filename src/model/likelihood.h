@@ -1,0 +1,85 @@
+#pragma once
+// The exact Gaussian log-likelihood of a transfer-function model.
+//
+// For fixed nonlinear parameters (every delta, phi, theta, Phi, Theta) the model is a linear
+// regression with ARMA errors: w_t = c + sum_i sum_j omega_{i,j} y_{i,t-b_i-j} + n_t, where
+// y_i = u_i / delta_i(B) is filtered from zero pre-sample values (the start-up rule). The ARMA
+// filter whitens the target and every regressor column in one pass; the constant and every
+// omega are then concentrated out by generalised least squares and sigma^2 by its ML estimate,
+// so the optimiser searches only the nonlinear parameters (variable projection).
+#include <Eigen/Core>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "core/series.h"
+#include "core/spec.h"
+#include "model/arma_filter.h"
+#include "model/params.h"
+
+namespace lagsieve {
+
+// The data of one fit, already transformed and differenced, and the sample inside the
+// likelihood. Built once, then shared read-only by every evaluation (and thread).
+struct LikelihoodProblem {
+  ModelSpec spec;
+  std::vector<double> w;               // differenced, transformed target (N values)
+  std::vector<std::vector<double>> u;  // differenced inputs of spec.inputs, in spec order
+  int start = 0;                       // first index of w inside the likelihood
+  int n_obs() const { return static_cast<int>(w.size()) - start; }
+  int n_nonlinear() const;             // deltas, then phi, theta, Phi, Theta
+  int n_linear() const;                // constant (if any), then the omegas of each input
+  int n_params() const { return n_nonlinear() + n_linear() + 1; }  // + sigma^2
+};
+
+// Smallest start making every lag of `spec` available: max over inputs of b + s.
+int minimum_start(const ModelSpec& spec);
+
+// Builds the problem from loaded data: transform, difference, pick the inputs of `spec`.
+// `start` < 0 means minimum_start(spec). Throws InputError when the sample is too short.
+LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, int start = -1);
+
+// Names of the nonlinear and linear parameters, in the order of the vectors below.
+std::vector<std::string> nonlinear_names(const ModelSpec& spec);
+std::vector<std::string> linear_names(const ModelSpec& spec);
+
+// Packing between ModelParams and (nonlinear, linear) vectors in natural coordinates.
+std::vector<double> pack_nonlinear(const ModelSpec& spec, const ModelParams& p);
+std::vector<double> pack_linear(const ModelSpec& spec, const ModelParams& p);
+ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
+                   std::span<const double> linear, double sigma2);
+
+struct LikelihoodWorkspace {
+  ArmaFilterWorkspace filter;
+  RowMatrix columns;                   // n x (1 + n_linear): target, then regressors
+  std::vector<double> filtered;        // scratch for 1/delta(B)
+};
+
+// Profile log-likelihood: linear parameters by GLS, sigma^2 by ML. Invalid parameters
+// (non-stationary, non-invertible handled by the caller's transform; here: a failed filter or a
+// singular GLS) give ok = false.
+struct ProfileValue {
+  bool ok = false;
+  double loglik = 0.0;
+  double sigma2 = 0.0;
+  Eigen::VectorXd linear;              // GLS estimates
+  Eigen::MatrixXd linear_information;  // X' Sigma^-1 X in units of sigma^2 (for diagnostics)
+};
+ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const double> nonlinear,
+                            LikelihoodWorkspace& ws);
+
+// Log-likelihood at fully given parameters (linear ones included); sigma^2 is concentrated out
+// as R's arima does, so sigma2 in `p` is ignored and `sigma2_out` receives its ML value.
+double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, LikelihoodWorkspace& ws,
+                 double* sigma2_out = nullptr);
+
+// Noise of the model at given parameters: n_t = w_t - c - sum_i x_{i,t}, over the whole
+// differenced sample (index 0..N-1; values before `start` use the zero start-up).
+std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelParams& p);
+
+// Standardised innovations (residuals, variance sigma^2) of the model over the likelihood
+// sample.
+std::vector<double> model_residuals(const LikelihoodProblem& problem, const ModelParams& p,
+                                    LikelihoodWorkspace& ws);
+
+}  // namespace lagsieve

@@ -1,0 +1,17 @@
+#include "model/params.h"
+
+namespace lagsieve {
+
+ModelParams zero_params(const ModelSpec& spec) {
+  ModelParams p;
+  for (const auto& term : spec.inputs)
+    p.inputs.push_back({std::vector<double>(term.order.numerator + 1, 0.0),
+                        std::vector<double>(term.order.denominator, 0.0)});
+  p.phi.assign(spec.noise.p, 0.0);
+  p.theta.assign(spec.noise.q, 0.0);
+  p.seasonal_phi.assign(spec.noise.seasonal_p, 0.0);
+  p.seasonal_theta.assign(spec.noise.seasonal_q, 0.0);
+  return p;
+}
+
+}  // namespace lagsieve

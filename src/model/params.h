@@ -1,0 +1,28 @@
+#pragma once
+// Parameter values of one model in natural coordinates (the signs of core/spec.h).
+#include <string>
+#include <vector>
+
+#include "core/spec.h"
+
+namespace lagsieve {
+
+struct InputParams {
+  std::vector<double> omega;  // omega_0..omega_s
+  std::vector<double> delta;  // delta_1..delta_r
+};
+
+struct ModelParams {
+  double constant = 0.0;
+  std::vector<InputParams> inputs;  // same order as ModelSpec::inputs
+  std::vector<double> phi;          // phi_1..phi_p
+  std::vector<double> theta;        // theta_1..theta_q
+  std::vector<double> seasonal_phi;    // Phi_1..Phi_P
+  std::vector<double> seasonal_theta;  // Theta_1..Theta_Q
+  double sigma2 = 1.0;
+};
+
+// Zero-valued parameters of the right shape for `spec`.
+ModelParams zero_params(const ModelSpec& spec);
+
+}  // namespace lagsieve

@@ -1,0 +1,566 @@
+#include "screen/screen.h"
+
+#include <fmt/format.h>
+
+#include <Eigen/Dense>
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <nlopt.hpp>
+
+#include "core/error.h"
+#include "data/transform.h"
+#include "model/polynomial.h"
+
+namespace lagsieve {
+
+namespace {
+
+constexpr double kInf = std::numeric_limits<double>::infinity();
+constexpr int kMinObservations = 10;
+
+// z with P(|Z| > z) = two_sided_tail for a standard normal Z, by bisection on erfc (monotone,
+// and 60 halvings of [0, 40] reach double precision; speed is irrelevant here).
+double normal_two_sided_quantile(double two_sided_tail) {
+  double lo = 0.0, hi = 40.0;
+  for (int i = 0; i < 200 && hi - lo > 1e-15; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    if (std::erfc(mid / std::sqrt(2.0)) > two_sided_tail) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+double mean_of(const std::vector<double>& x) {
+  double s = 0.0;
+  for (double v : x) s += v;
+  return x.empty() ? 0.0 : s / static_cast<double>(x.size());
+}
+
+// Standard deviation with divisor n (the normalisation of the correlations).
+double sd_of(const std::vector<double>& x) {
+  const double m = mean_of(x);
+  double s = 0.0;
+  for (double v : x) s += (v - m) * (v - m);
+  return x.empty() ? 0.0 : std::sqrt(s / static_cast<double>(x.size()));
+}
+
+bool is_constant(const std::vector<double>& x) {
+  const double m = mean_of(x);
+  const double scale = std::max(1.0, std::abs(m));
+  return sd_of(x) <= 1e-12 * scale;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Shape fit: omega(B) B^b / delta(B) to v_b..v_L by least squares.
+
+struct ShapeProblem {
+  std::vector<double> v;  // v_b..v_L (m values)
+  int s = 0;
+  int r = 0;
+};
+
+// Concentrated SSE for a given delta; fills omega when asked.
+double concentrated_sse(const ShapeProblem& pb, const std::vector<double>& delta,
+                        std::vector<double>* omega) {
+  const int m = static_cast<int>(pb.v.size());
+  // h = impulse response of 1 / delta(B).
+  std::vector<double> h(m, 0.0);
+  for (int k = 0; k < m; ++k) {
+    double x = k == 0 ? 1.0 : 0.0;
+    for (int i = 0; i < static_cast<int>(delta.size()) && i < k; ++i) x += delta[i] * h[k - 1 - i];
+    h[k] = x;
+  }
+  Eigen::MatrixXd X = Eigen::MatrixXd::Zero(m, pb.s + 1);
+  for (int k = 0; k < m; ++k)
+    for (int j = 0; j <= pb.s && j <= k; ++j) X(k, j) = h[k - j];
+  const Eigen::Map<const Eigen::VectorXd> y(pb.v.data(), m);
+  const Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(X);
+  const Eigen::VectorXd beta = qr.solve(y);
+  if (omega != nullptr) omega->assign(beta.data(), beta.data() + beta.size());
+  const double sse = (y - X * beta).squaredNorm();
+  return std::isfinite(sse) ? sse : kInf;
+}
+
+double sse_of_unconstrained(const ShapeProblem& pb, const std::vector<double>& z,
+                            std::vector<double>* omega) {
+  std::vector<double> delta(z.size());
+  pacf_to_coefficients(z, delta);
+  return concentrated_sse(pb, delta, omega);
+}
+
+ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
+  ShapeFit fit;
+  fit.numerator = s;
+  fit.denominator = r;
+  const int m = static_cast<int>(v_tail.size());
+  const int k = r + s + 1;
+  if (m < k + 1) {
+    fit.sse = kInf;
+    fit.bic = kInf;
+    return fit;
+  }
+  ShapeProblem pb{v_tail, s, r};
+  std::vector<double> best_z(r, 0.0);
+  double best = sse_of_unconstrained(pb, best_z, nullptr);
+  if (r > 0) {
+    // Coarse grid over the partial autocorrelations of delta (-0.95..0.95), then a polish.
+    std::vector<double> grid;
+    for (int i = -19; i <= 19; i += 2) grid.push_back(std::atanh(0.05 * i));
+    std::vector<double> z(r);
+    const int gsize = static_cast<int>(grid.size());
+    const int cells = r == 1 ? gsize : gsize * gsize;
+    for (int c = 0; c < cells; ++c) {
+      z[0] = grid[c % gsize];
+      if (r == 2) z[1] = grid[c / gsize];
+      const double e = sse_of_unconstrained(pb, z, nullptr);
+      if (e < best) {
+        best = e;
+        best_z = z;
+      }
+    }
+    nlopt::opt opt(nlopt::LN_NELDERMEAD, static_cast<unsigned>(r));
+    auto objective = [](const std::vector<double>& x, std::vector<double>&, void* data) {
+      const auto* p = static_cast<const ShapeProblem*>(data);
+      const double e = sse_of_unconstrained(*p, x, nullptr);
+      return std::isfinite(e) ? e : 1e300;
+    };
+    opt.set_min_objective(objective, &pb);
+    opt.set_lower_bounds(-6.0);
+    opt.set_upper_bounds(6.0);
+    opt.set_xtol_abs(1e-9);
+    opt.set_maxeval(400);
+    opt.set_initial_step(0.1);
+    std::vector<double> x = best_z;
+    double value = best;
+    try {
+      opt.optimize(x, value);
+      if (value < best) {
+        best = value;
+        best_z = x;
+      }
+    } catch (const std::exception&) {
+      // A failed polish keeps the grid optimum, which is good enough for a suggestion.
+    }
+  }
+  fit.params.delta.assign(r, 0.0);
+  pacf_to_coefficients(best_z, fit.params.delta);
+  fit.sse = concentrated_sse(pb, fit.params.delta, &fit.params.omega);
+  double scale = 0.0;
+  for (double x : v_tail) scale += x * x;
+  const double sse = std::max(fit.sse, 1e-12 * scale + 1e-300);
+  fit.bic = m * std::log(sse / m) + k * std::log(static_cast<double>(m));
+  return fit;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Noise orders from ACF/PACF cut-offs.
+
+struct Cutoff {
+  int order = 0;   // last significant lag within 1..cap
+  bool cuts = false;
+  int significant = 0;  // significant lags in 1..K
+};
+
+Cutoff cutoff_of(const std::vector<double>& f, int first_index, int cap, int K, double band) {
+  // f[k - 1 + first_index] is the value at lag k (first_index 1 for an ACF with lag 0 stored).
+  auto at = [&](int k) { return f[static_cast<size_t>(k - 1 + first_index)]; };
+  Cutoff c;
+  for (int k = 1; k <= K; ++k)
+    if (std::abs(at(k)) > band) {
+      ++c.significant;
+      if (k <= cap) c.order = k;
+    }
+  int later = 0;
+  for (int k = c.order + 1; k <= K; ++k)
+    if (std::abs(at(k)) > band) ++later;
+  c.cuts = later <= 1 && (c.order > 0 || c.significant <= 1);
+  return c;
+}
+
+NoiseSuggestion suggest_noise(const std::vector<double>& e, const ScreenOptions& opt) {
+  NoiseSuggestion ns;
+  ns.n = static_cast<int>(e.size());
+  if (ns.n < 8 || is_constant(e)) {
+    ns.reason = "residual too short or constant: no noise terms suggested";
+    return ns;
+  }
+  const int K = std::max(1, std::min(opt.noise_lags, ns.n / 4));
+  ns.band = opt.band_z / std::sqrt(static_cast<double>(ns.n));
+  ns.acf = acf(e, K);
+  ns.pacf = pacf_from_acf(ns.acf);
+  const int cap = std::min(opt.max_noise_order, K);
+  const Cutoff a = cutoff_of(ns.acf, 1, cap, K, ns.band);
+  const Cutoff p = cutoff_of(ns.pacf, 0, cap, K, ns.band);
+  if (a.order == 0 && p.order == 0 && a.significant <= 1 && p.significant <= 1) {
+    ns.reason = "no significant autocorrelation: white noise";
+    return ns;
+  }
+  auto tail_sum = [&](const std::vector<double>& f, int first_index, int from) {
+    double s = 0.0;
+    for (int k = from; k < from + 3 && k <= K; ++k) s += std::abs(f[k - 1 + first_index]);
+    return s;
+  };
+  const bool ar_cut = p.cuts && p.order > 0;
+  const bool ma_cut = a.cuts && a.order > 0;
+  if (ar_cut && (!ma_cut || p.order < a.order)) {
+    ns.p = p.order;
+    ns.reason = fmt::format("PACF cuts off after lag {}", p.order);
+  } else if (ma_cut && (!ar_cut || a.order < p.order)) {
+    ns.q = a.order;
+    ns.reason = fmt::format("ACF cuts off after lag {}", a.order);
+  } else if (ar_cut && ma_cut) {
+    // Same order: the function that is smaller just after the cut is the one that cuts off.
+    const int c = p.order;
+    if (tail_sum(ns.pacf, 0, c + 1) <= tail_sum(ns.acf, 1, c + 1)) {
+      ns.p = c;
+      ns.reason = fmt::format("PACF and ACF both end at lag {}; the ACF tails off more", c);
+    } else {
+      ns.q = c;
+      ns.reason = fmt::format("ACF and PACF both end at lag {}; the PACF tails off more", c);
+    }
+  } else {
+    ns.p = std::min(1, opt.max_noise_order);
+    ns.q = std::min(1, opt.max_noise_order);
+    ns.reason = "neither ACF nor PACF cuts off: mixed ARMA";
+  }
+  return ns;
+}
+
+// ---------------------------------------------------------------------------------------------
+
+bool input_is_event(const RunConfig& config, const std::string& name) {
+  for (const auto& in : config.inputs)
+    if (in.name == name) return in.is_event;
+  return false;
+}
+
+InputScreen screen_input(const std::string& name, bool is_event, const std::vector<double>& u,
+                         const std::vector<double>& w, int L, int ar_cap,
+                         const ScreenOptions& opt, std::vector<ScreenWarning>& warnings) {
+  InputScreen s;
+  s.name = name;
+  s.is_event = is_event;
+  s.max_lag = L;
+  const int n = static_cast<int>(u.size());
+  auto fill_empty = [&](int len) {
+    s.n = len;
+    s.cross_correlation.assign(2 * L + 1, 0.0);
+    s.impulse.assign(L + 1, 0.0);
+    s.impulse_se.assign(L + 1, 0.0);
+    s.impulse_fitted.assign(L + 1, 0.0);
+  };
+  if (is_constant(u)) {
+    fill_empty(n);
+    s.notes.push_back("constant after differencing: nothing to screen (leave it out)");
+    warnings.push_back({ScreenWarningKind::constant_input, {name},
+                        fmt::format("input '{}' is constant after differencing", name)});
+    return s;
+  }
+
+  std::vector<double> alpha, beta;
+  if (is_event) {
+    alpha = u;
+    beta = w;
+  } else {
+    s.prewhitened = true;
+    s.prewhitening = opt.ar_order ? fit_ar(u, *opt.ar_order) : fit_ar_by_aic(u, ar_cap);
+    alpha = ar_filter(u, s.prewhitening.phi, s.prewhitening.mean);
+    beta = ar_filter(w, s.prewhitening.phi, mean_of(w));
+  }
+  s.n = static_cast<int>(alpha.size());
+  if (is_constant(alpha) || is_constant(beta)) {
+    fill_empty(s.n);
+    s.notes.push_back("prewhitened series is constant: nothing to screen");
+    return s;
+  }
+  const double sqn = std::sqrt(static_cast<double>(s.n));
+  s.cross_correlation = ccf(alpha, beta, L);
+  s.band = opt.band_z / sqn;
+  s.family_band = normal_two_sided_quantile(opt.family_level / (L + 1)) / sqn;
+  s.feedback_band = L > 0 ? normal_two_sided_quantile(opt.family_level / L) / sqn : kInf;
+  s.sd_input = sd_of(alpha);
+  s.sd_target = sd_of(beta);
+  const double ratio = s.sd_target / s.sd_input;
+  s.impulse.resize(L + 1);
+  for (int k = 0; k <= L; ++k) s.impulse[k] = s.correlation_at(k) * ratio;
+
+  // Relevance and delay.
+  int first_strong = -1, peak = 0;
+  for (int k = 0; k <= L; ++k) {
+    if (std::abs(s.correlation_at(k)) > std::abs(s.correlation_at(peak))) peak = k;
+    if (first_strong < 0 && std::abs(s.correlation_at(k)) > s.family_band) first_strong = k;
+  }
+  s.relevant = first_strong >= 0;
+  s.impulse_fitted.assign(L + 1, 0.0);
+  if (s.relevant) {
+    int b = first_strong;
+    while (b > 0 && std::abs(s.correlation_at(b - 1)) > s.band) --b;
+    s.suggested_delay = b;
+    const std::vector<double> tail(s.impulse.begin() + b, s.impulse.end());
+    int best = -1;
+    for (int r = 0; r <= opt.max_shape_order; ++r)
+      for (int q = 0; q <= opt.max_shape_order; ++q) {
+        s.shapes.push_back(fit_shape(tail, r, q));
+        const auto& f = s.shapes.back();
+        if (std::isfinite(f.bic) && (best < 0 || f.bic < s.shapes[best].bic))
+          best = static_cast<int>(s.shapes.size()) - 1;
+      }
+    if (best >= 0) {
+      s.suggested_numerator = s.shapes[best].numerator;
+      s.suggested_denominator = s.shapes[best].denominator;
+      s.suggested_params = s.shapes[best].params;
+    } else {
+      s.suggested_params.omega = {s.impulse[b]};  // too few lags for any fit: a single weight
+    }
+    const InputOrder order{s.suggested_delay, s.suggested_numerator, s.suggested_denominator};
+    s.impulse_fitted = impulse_response(order, s.suggested_params, L + 1);
+    s.notes.push_back(fmt::format(
+        "first cross-correlation beyond the family band at lag {} (r = {:.3f}); suggested b = {}, "
+        "s = {}, r = {}",
+        first_strong, s.correlation_at(first_strong), s.suggested_delay, s.suggested_numerator,
+        s.suggested_denominator));
+  } else {
+    s.suggested_delay = peak;
+    s.suggested_params.omega = {0.0};
+    s.notes.push_back("no significant cross-correlation at lags 0..L (suggest leaving it out)");
+  }
+
+  double explained = 0.0;
+  for (double v : s.impulse_fitted) explained += v * v;
+  const double se2 = std::max(s.sd_target * s.sd_target - s.sd_input * s.sd_input * explained,
+                              0.01 * s.sd_target * s.sd_target);
+  s.impulse_se.assign(L + 1, std::sqrt(se2) / (s.sd_input * sqn));
+
+  for (int k = -L; k < 0; ++k)
+    if (std::abs(s.correlation_at(k)) > s.feedback_band) s.feedback_lags.push_back(k);
+  if (!s.feedback_lags.empty()) {
+    std::string lags;
+    for (int k : s.feedback_lags) lags += (lags.empty() ? "" : ", ") + std::to_string(k);
+    warnings.push_back(
+        {ScreenWarningKind::feedback, {name},
+         fmt::format("input '{}' correlates with the PAST of the target (lags {}): the input may "
+                     "respond to the target, so a one-way transfer function is doubtful",
+                     name, lags)});
+    s.notes.push_back(fmt::format("significant cross-correlation at negative lags {}", lags));
+  }
+  return s;
+}
+
+}  // namespace
+
+void ScreenOptions::validate() const {
+  auto fail = [](const std::string& what) { throw InputError("screen options: " + what); };
+  if (max_lag < 1) fail(fmt::format("max_lag = {} must be at least 1", max_lag));
+  if (ar_max_order < 0) fail(fmt::format("ar_max_order = {} must be >= 0", ar_max_order));
+  if (ar_order && *ar_order < 0) fail(fmt::format("ar_order = {} must be >= 0", *ar_order));
+  if (!(band_z > 0.0)) fail(fmt::format("band_z = {} must be positive", band_z));
+  if (!(family_level > 0.0 && family_level < 1.0))
+    fail(fmt::format("family_level = {} must lie in (0, 1)", family_level));
+  if (max_shape_order < 0 || max_shape_order > 2)
+    fail(fmt::format("max_shape_order = {} must lie in 0..2", max_shape_order));
+  if (max_noise_order < 0) fail(fmt::format("max_noise_order = {} must be >= 0", max_noise_order));
+  if (noise_lags < 1) fail(fmt::format("noise_lags = {} must be at least 1", noise_lags));
+  if (!(collinear > 0.0 && collinear <= 1.0))
+    fail(fmt::format("collinear = {} must lie in (0, 1]", collinear));
+}
+
+std::string_view to_string(ScreenWarningKind kind) {
+  switch (kind) {
+    case ScreenWarningKind::correlated_inputs: return "correlated_inputs";
+    case ScreenWarningKind::feedback: return "feedback";
+    case ScreenWarningKind::few_observations: return "few_observations";
+    case ScreenWarningKind::lags_capped: return "lags_capped";
+    case ScreenWarningKind::constant_input: return "constant_input";
+  }
+  return "unknown";
+}
+
+ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
+                           const ScreenOptions& options) {
+  options.validate();
+  ScreenResult res;
+  res.target_name = data.target_name;
+  res.rows = data.rows();
+  res.transform = config.target.transform;
+  res.differencing = config.differencing;
+  res.options = options;
+  if (data.inputs.size() != data.input_names.size())
+    throw InputError("screen: the data have " + std::to_string(data.inputs.size()) +
+                     " input columns but " + std::to_string(data.input_names.size()) + " names");
+
+  const auto z = apply_transform(data.target, config.target.transform, "target");
+  const auto w = difference(z, config.differencing);
+  const int n = static_cast<int>(w.size());
+  if (n < kMinObservations)
+    throw InputError(fmt::format(
+        "screen: target '{}' has {} observations after differencing (of {} rows); screening "
+        "needs at least {}: supply more data or reduce `differencing`",
+        data.target_name, n, data.rows(), kMinObservations));
+  res.n = n;
+  if (n < options.min_observations)
+    res.warnings.push_back(
+        {ScreenWarningKind::few_observations, {},
+         fmt::format("only {} observations after differencing (fewer than {}): correlations and "
+                     "suggestions are unreliable",
+                     n, options.min_observations)});
+
+  const int L = std::min(options.max_lag, n / 4);
+  res.max_lag_used = std::max(L, 1);
+  if (L < options.max_lag)
+    res.warnings.push_back(
+        {ScreenWarningKind::lags_capped, {},
+         fmt::format("{} lags asked but only {} observations after differencing: lags capped at "
+                     "n/4 = {}",
+                     options.max_lag, n, res.max_lag_used)});
+  const int ar_cap = std::min(options.ar_max_order, n / 5);
+  if (options.ar_order && 5 * *options.ar_order > n)
+    throw InputError(fmt::format(
+        "screen: ar_order = {} is too large for {} observations after differencing (at most {})",
+        *options.ar_order, n, n / 5));
+
+  std::vector<std::vector<double>> us;
+  for (size_t i = 0; i < data.inputs.size(); ++i) {
+    if (data.inputs[i].size() != data.target.size())
+      throw InputError(fmt::format("screen: input '{}' has {} rows, the target {}",
+                                   data.input_names[i], data.inputs[i].size(),
+                                   data.target.size()));
+    us.push_back(difference(data.inputs[i], config.differencing));
+    const bool event = input_is_event(config, data.input_names[i]);
+    res.inputs.push_back(screen_input(data.input_names[i], event, us.back(), w,
+                                      res.max_lag_used, ar_cap, options, res.warnings));
+  }
+
+  // Inputs strongly correlated with each other: their separate screens cannot tell them apart.
+  const size_t m = us.size();
+  res.input_correlation.assign(m, std::vector<double>(m, 0.0));
+  for (size_t i = 0; i < m; ++i) {
+    res.input_correlation[i][i] = 1.0;
+    for (size_t j = 0; j < i; ++j) {
+      double c = 0.0;
+      if (!is_constant(us[i]) && !is_constant(us[j])) c = ccf(us[i], us[j], 0)[0];
+      res.input_correlation[i][j] = res.input_correlation[j][i] = c;
+      if (std::abs(c) > options.collinear)
+        res.warnings.push_back(
+            {ScreenWarningKind::correlated_inputs,
+             {data.input_names[j], data.input_names[i]},
+             fmt::format("inputs '{}' and '{}' are strongly correlated (r = {:.3f} after "
+                         "differencing): their effects are hard to separate; consider keeping one",
+                         data.input_names[j], data.input_names[i], c)});
+    }
+  }
+
+  // Noise: what the suggested transfer-function parts leave of the differenced target.
+  std::vector<double> e(w.begin(), w.end());
+  const double wbar = mean_of(w);
+  for (auto& v : e) v -= wbar;
+  for (size_t i = 0; i < m; ++i) {
+    const auto& s = res.inputs[i];
+    if (!s.relevant) continue;
+    std::vector<double> uc = us[i];
+    const double ubar = mean_of(uc);
+    for (auto& v : uc) v -= ubar;
+    const InputOrder order{s.suggested_delay, s.suggested_numerator, s.suggested_denominator};
+    const auto x = transfer_response(uc, order, s.suggested_params);
+    for (int t = 0; t < n; ++t) e[t] -= x[t];
+  }
+  const int drop = std::min(res.max_lag_used, n / 4);
+  e.erase(e.begin(), e.begin() + drop);
+  res.noise = suggest_noise(e, options);
+  return res;
+}
+
+nlohmann::json to_json(const ScreenResult& r) {
+  using nlohmann::json;
+  json out;
+  out["target"] = r.target_name;
+  out["rows"] = r.rows;
+  out["n_differenced"] = r.n;
+  out["differencing"] = {{"regular", r.differencing.regular},
+                         {"seasonal", r.differencing.seasonal},
+                         {"period", r.differencing.period}};
+  const char* kind = r.transform.kind == TransformKind::none  ? "none"
+                     : r.transform.kind == TransformKind::log ? "log"
+                                                              : "boxcox";
+  out["transform"] = {{"kind", kind}, {"lambda", r.transform.lambda}};
+  const auto& o = r.options;
+  out["options"] = {{"max_lag", o.max_lag},
+                    {"max_lag_used", r.max_lag_used},
+                    {"ar_max_order", o.ar_max_order},
+                    {"ar_order", o.ar_order ? json(*o.ar_order) : json(nullptr)},
+                    {"band_z", o.band_z},
+                    {"family_level", o.family_level},
+                    {"max_shape_order", o.max_shape_order},
+                    {"max_noise_order", o.max_noise_order},
+                    {"noise_lags", o.noise_lags},
+                    {"collinear", o.collinear},
+                    {"min_observations", o.min_observations},
+                    {"prewhitening_fit", "conditional least squares, order by AIC"},
+                    {"shape_criterion", "BIC on the impulse-response estimates"}};
+  json inputs = json::array();
+  for (const auto& s : r.inputs) {
+    json lags = json::array();
+    for (int k = -s.max_lag; k <= s.max_lag; ++k) lags.push_back(k);
+    json shapes = json::array();
+    for (const auto& f : s.shapes)
+      shapes.push_back({{"numerator", f.numerator},
+                        {"denominator", f.denominator},
+                        {"sse", std::isfinite(f.sse) ? json(f.sse) : json(nullptr)},
+                        {"bic", std::isfinite(f.bic) ? json(f.bic) : json(nullptr)},
+                        {"omega", f.params.omega},
+                        {"delta", f.params.delta}});
+    json aic = json::array();
+    for (double a : s.prewhitening.aic) aic.push_back(std::isfinite(a) ? json(a) : json(nullptr));
+    inputs.push_back(
+        {{"name", s.name},
+         {"event", s.is_event},
+         {"prewhitened", s.prewhitened},
+         {"prewhitening", {{"order", s.prewhitening.order},
+                           {"mean", s.prewhitening.mean},
+                           {"phi", s.prewhitening.phi},
+                           {"sigma2", s.prewhitening.sigma2},
+                           {"aic", aic}}},
+         {"n", s.n},
+         {"max_lag", s.max_lag},
+         {"lags", lags},
+         {"cross_correlation", s.cross_correlation},
+         {"band", s.band},
+         {"family_band", s.family_band},
+         {"feedback_band", std::isfinite(s.feedback_band) ? json(s.feedback_band) : json(nullptr)},
+         {"sd_prewhitened_input", s.sd_input},
+         {"sd_prewhitened_target", s.sd_target},
+         {"impulse", s.impulse},
+         {"impulse_se", s.impulse_se},
+         {"impulse_fitted", s.impulse_fitted},
+         {"relevant", s.relevant},
+         {"suggested_delay", s.suggested_delay},
+         {"suggested_numerator", s.suggested_numerator},
+         {"suggested_denominator", s.suggested_denominator},
+         {"suggested_omega", s.suggested_params.omega},
+         {"suggested_delta", s.suggested_params.delta},
+         {"shapes", shapes},
+         {"feedback_lags", s.feedback_lags},
+         {"notes", s.notes}});
+  }
+  out["inputs"] = inputs;
+  json names = json::array();
+  for (const auto& s : r.inputs) names.push_back(s.name);
+  out["input_correlation"] = {{"names", names}, {"matrix", r.input_correlation}};
+  out["noise"] = {{"p", r.noise.p},
+                  {"q", r.noise.q},
+                  {"n", r.noise.n},
+                  {"band", r.noise.band},
+                  {"acf", r.noise.acf},
+                  {"pacf", r.noise.pacf},
+                  {"reason", r.noise.reason}};
+  json warnings = json::array();
+  for (const auto& wv : r.warnings)
+    warnings.push_back({{"kind", std::string(to_string(wv.kind))},
+                        {"inputs", wv.inputs},
+                        {"message", wv.message}});
+  out["warnings"] = warnings;
+  return out;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,27 @@
+#!/bin/sh
+# Regenerates every reference fixture. Run from the repository root:
+#   sh tests/reference/make_all.sh
+# Needs: apt-get install -y r-base-core python3-statsmodels  (Debian's /usr/bin/python3).
+set -e
+R=/usr/bin/Rscript
+PY=/usr/bin/python3
+ref=tests/reference
+$R $ref/data/make_data.R
+$R $ref/likelihood_fixed/make_likelihood_fixed.R
+$PY $ref/likelihood_fixed/make_likelihood_fixed.py
+$R $ref/ml_optimum/make_ml_optimum.R
+$PY $ref/ml_optimum/make_ml_optimum.py
+$R $ref/series_m/make_series_m.R
+$R $ref/forecast_airline/make_forecast_airline.R
+$PY $ref/forecast_airline/make_forecast_airline.py
+$R $ref/forecast_regression/make_forecast_regression.R
+$PY $ref/forecast_regression/make_forecast_regression.py
+$R $ref/psi_weights/make_psi_weights.R
+$PY $ref/psi_weights/make_psi_weights.py
+$R $ref/correlation/make_correlation.R
+$PY $ref/correlation/make_correlation.py
+$R $ref/dm_test/make_dm_test.R
+$PY $ref/dm_test/make_dm_test.py
+$R $ref/ljung_box/make_ljung_box.R
+$PY $ref/ljung_box/make_ljung_box.py
+echo "all fixtures regenerated"

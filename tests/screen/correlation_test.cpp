@@ -1,0 +1,88 @@
+// Sample correlations against R's stats::acf, pacf, ccf on the differenced Series M pair, and the
+// prewhitening least-squares AR against R's lm; fixture: tests/reference/screen/
+// correlation_bjsales.json, written by make_correlation.R beside it.
+#include <gtest/gtest.h>
+
+#include <vector>
+
+#include "core/error.h"
+#include "data/transform.h"
+#include "screen/correlation.h"
+#include "screen_test_util.h"
+
+namespace lagsieve {
+namespace {
+
+constexpr double kTol = 1e-10;
+
+struct Pair {
+  std::vector<double> dsales, dlead;
+};
+
+Pair differenced_series_m() {
+  const auto d = test::read_series_m();
+  const Differencing diff{1, 0, 1};
+  return {difference(d.target, diff), difference(d.inputs[0], diff)};
+}
+
+void expect_near_all(const std::vector<double>& got, const nlohmann::json& want, const char* what) {
+  ASSERT_EQ(got.size(), want.size()) << what;
+  for (size_t i = 0; i < got.size(); ++i)
+    EXPECT_NEAR(got[i], want[i].get<double>(), kTol) << what << " index " << i;
+}
+
+TEST(Correlation, AcfMatchesR) {
+  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto p = differenced_series_m();
+  ASSERT_EQ(static_cast<int>(p.dsales.size()), fx["n"].get<int>());
+  const int L = fx["max_lag"];
+  expect_near_all(acf(p.dsales, L), fx["acf_sales"], "acf sales");
+  expect_near_all(acf(p.dlead, L), fx["acf_lead"], "acf lead");
+}
+
+TEST(Correlation, PacfMatchesR) {
+  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto p = differenced_series_m();
+  const int L = fx["max_lag"];
+  expect_near_all(pacf(p.dsales, L), fx["pacf_sales"], "pacf sales");
+  expect_near_all(pacf(p.dlead, L), fx["pacf_lead"], "pacf lead");
+}
+
+TEST(Correlation, CcfMatchesRWithInputFirst) {
+  // Our ccf(x = lead, y = sales)[k + L] = R's ccf(sales, lead) at lag k: positive k, lead first.
+  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto p = differenced_series_m();
+  const int L = fx["max_lag"];
+  expect_near_all(ccf(p.dlead, p.dsales, L), fx["ccf_lead_sales"], "ccf lead->sales");
+}
+
+TEST(Correlation, LeastSquaresArMatchesR) {
+  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto p = differenced_series_m();
+  const auto fit = fit_ar(p.dlead, 3);
+  expect_near_all(fit.phi, fx["ar3_lead"], "AR(3) coefficients");
+  EXPECT_NEAR(fit.sigma2, fx["ar3_lead_sigma2"].get<double>(), kTol);
+}
+
+TEST(Correlation, AicOrderChoiceMatchesR) {
+  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto p = differenced_series_m();
+  const auto fit = fit_ar_by_aic(p.dlead, 10);
+  expect_near_all(fit.aic, fx["aic_lead"], "AIC by order");
+  EXPECT_EQ(fit.order, fx["aic_order_lead"].get<int>());
+}
+
+TEST(Correlation, ConstantSeriesIsRejected) {
+  const std::vector<double> c(10, 2.0);
+  EXPECT_THROW(acf(c, 3), NumericalError);
+  EXPECT_THROW(ccf(c, c, 3), NumericalError);
+}
+
+TEST(Correlation, LagsAreCappedAtNMinusOne) {
+  const std::vector<double> x{1.0, 3.0, 2.0, 5.0};
+  EXPECT_EQ(acf(x, 10).size(), 4u);
+  EXPECT_EQ(ccf(x, x, 10).size(), 7u);
+}
+
+}  // namespace
+}  // namespace lagsieve
