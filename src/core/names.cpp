@@ -117,7 +117,8 @@ std::string closest_match(std::string_view word, const std::vector<std::string>&
     std::transform(lower_c.begin(), lower_c.end(), lower_c.begin(),
                    [](unsigned char ch) { return static_cast<char>(std::tolower(ch)); });
     const size_t d = lower_word == lower_c ? 0 : edit_distance(word, c);
-    if (d <= limit && (best.empty() || d < best_distance)) {
+    // A suggestion must keep part of the word: "x" is not a typo of "t".
+    if (d <= limit && d < word.size() && (best.empty() || d < best_distance)) {
       best = c;
       best_distance = d;
     }

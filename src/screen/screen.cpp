@@ -7,11 +7,9 @@
 #include <cmath>
 #include <limits>
 #include <nlohmann/json.hpp>
-#include <nlopt.hpp>
 
 #include "core/error.h"
 #include "data/transform.h"
-#include "model/polynomial.h"
 
 namespace lagsieve {
 
@@ -52,6 +50,53 @@ bool is_constant(const std::vector<double>& x) {
   return sd_of(x) <= 1e-12 * scale;
 }
 
+// The screen sits below the model layer, so it carries its own three small lag-polynomial
+// helpers (same conventions as core/spec.h).
+
+// Impulse-response weights v_0..v_{count-1} of omega(B) B^b / delta(B).
+std::vector<double> shape_weights(int b, const std::vector<double>& omega,
+                                  const std::vector<double>& delta, int count) {
+  std::vector<double> v(std::max(count, 0), 0.0);
+  for (int k = 0; k < count; ++k) {
+    const int j = k - b;
+    double x = (j >= 0 && j < static_cast<int>(omega.size())) ? omega[j] : 0.0;
+    for (int i = 0; i < static_cast<int>(delta.size()) && i < k; ++i) x += delta[i] * v[k - 1 - i];
+    v[k] = x;
+  }
+  return v;
+}
+
+// x_t = [omega(B) B^b / delta(B)] u_t with zero pre-sample values of u and x.
+std::vector<double> shape_output(const std::vector<double>& u, int b,
+                                 const std::vector<double>& omega,
+                                 const std::vector<double>& delta) {
+  const int n = static_cast<int>(u.size());
+  std::vector<double> x(n, 0.0);
+  for (int t = 0; t < n; ++t) {
+    double v = 0.0;
+    for (int j = 0; j < static_cast<int>(omega.size()); ++j)
+      if (t - b - j >= 0) v += omega[j] * u[t - b - j];
+    for (int i = 0; i < static_cast<int>(delta.size()); ++i)
+      if (t - 1 - i >= 0) v += delta[i] * x[t - 1 - i];
+    x[t] = v;
+  }
+  return x;
+}
+
+// Unconstrained z -> partial autocorrelations tanh(z) -> coefficients of a stable
+// 1 - a_1 B - ... - a_r B^r (the Durbin-Levinson step), so every delta tried is stable.
+std::vector<double> stable_coefficients(const std::vector<double>& z) {
+  std::vector<double> a, prev;
+  for (size_t k = 0; k < z.size(); ++k) {
+    const double rho = std::tanh(z[k]);
+    prev = a;
+    a.assign(k + 1, 0.0);
+    for (size_t j = 0; j < k; ++j) a[j] = prev[j] - rho * prev[k - 1 - j];
+    a[k] = rho;
+  }
+  return a;
+}
+
 // ---------------------------------------------------------------------------------------------
 // Shape fit: omega(B) B^b / delta(B) to v_b..v_L by least squares.
 
@@ -72,22 +117,53 @@ double concentrated_sse(const ShapeProblem& pb, const std::vector<double>& delta
     for (int i = 0; i < static_cast<int>(delta.size()) && i < k; ++i) x += delta[i] * h[k - 1 - i];
     h[k] = x;
   }
-  Eigen::MatrixXd X = Eigen::MatrixXd::Zero(m, pb.s + 1);
-  for (int k = 0; k < m; ++k)
-    for (int j = 0; j <= pb.s && j <= k; ++j) X(k, j) = h[k - j];
-  const Eigen::Map<const Eigen::VectorXd> y(pb.v.data(), m);
-  const Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(X);
-  const Eigen::VectorXd beta = qr.solve(y);
-  if (omega != nullptr) omega->assign(beta.data(), beta.data() + beta.size());
-  const double sse = (y - X * beta).squaredNorm();
+  // Columns X_j(k) = h_{k-j} (j = 0..s) form a lower-triangular Toeplitz block with a unit
+  // diagonal, so X'X is positive definite whenever m > s: the normal equations are safe, and
+  // with at most three columns they are solved by hand (Cholesky) without any heap work in
+  // this inner loop.
+  const int c = pb.s + 1;
+  double xtx[3][3] = {}, xty[3] = {}, yty = 0.0;
+  for (int k = 0; k < m; ++k) {
+    yty += pb.v[k] * pb.v[k];
+    for (int i = 0; i < c && i <= k; ++i) {
+      xty[i] += h[k - i] * pb.v[k];
+      for (int j = 0; j <= i; ++j) xtx[i][j] += h[k - i] * h[k - j];
+    }
+  }
+  double l[3][3] = {};
+  for (int i = 0; i < c; ++i)
+    for (int j = 0; j <= i; ++j) {
+      double v = xtx[i][j];
+      for (int q = 0; q < j; ++q) v -= l[i][q] * l[j][q];
+      if (i == j) {
+        if (!(v > 0.0)) return kInf;
+        l[i][i] = std::sqrt(v);
+      } else {
+        l[i][j] = v / l[j][j];
+      }
+    }
+  double z[3] = {}, beta[3] = {};
+  for (int i = 0; i < c; ++i) {
+    double v = xty[i];
+    for (int q = 0; q < i; ++q) v -= l[i][q] * z[q];
+    z[i] = v / l[i][i];
+  }
+  for (int i = c - 1; i >= 0; --i) {
+    double v = z[i];
+    for (int q = i + 1; q < c; ++q) v -= l[q][i] * beta[q];
+    beta[i] = v / l[i][i];
+  }
+  if (omega != nullptr) omega->assign(beta, beta + c);
+  // SSE = y'y - beta' X'y at the least-squares solution; rounding below zero is clamped.
+  double fitted = 0.0;
+  for (int i = 0; i < c; ++i) fitted += beta[i] * xty[i];
+  const double sse = std::max(yty - fitted, 0.0);
   return std::isfinite(sse) ? sse : kInf;
 }
 
 double sse_of_unconstrained(const ShapeProblem& pb, const std::vector<double>& z,
                             std::vector<double>* omega) {
-  std::vector<double> delta(z.size());
-  pacf_to_coefficients(z, delta);
-  return concentrated_sse(pb, delta, omega);
+  return concentrated_sse(pb, stable_coefficients(z), omega);
 }
 
 ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
@@ -120,33 +196,27 @@ ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
         best_z = z;
       }
     }
-    nlopt::opt opt(nlopt::LN_NELDERMEAD, static_cast<unsigned>(r));
-    auto objective = [](const std::vector<double>& x, std::vector<double>&, void* data) {
-      const auto* p = static_cast<const ShapeProblem*>(data);
-      const double e = sse_of_unconstrained(*p, x, nullptr);
-      return std::isfinite(e) ? e : 1e300;
-    };
-    opt.set_min_objective(objective, &pb);
-    opt.set_lower_bounds(-6.0);
-    opt.set_upper_bounds(6.0);
-    opt.set_xtol_abs(1e-9);
-    opt.set_maxeval(400);
-    opt.set_initial_step(0.1);
-    std::vector<double> x = best_z;
-    double value = best;
-    try {
-      opt.optimize(x, value);
-      if (value < best) {
-        best = value;
-        best_z = x;
+    // Polish by compass search (one or two dimensions: no need for a general optimiser).
+    for (double step = 0.05; step > 1e-9; step *= 0.5) {
+      bool moved = true;
+      while (moved) {
+        moved = false;
+        for (int d = 0; d < r; ++d)
+          for (double sign : {-1.0, 1.0}) {
+            z = best_z;
+            z[d] = std::clamp(z[d] + sign * step, -6.0, 6.0);
+            const double e = sse_of_unconstrained(pb, z, nullptr);
+            if (e < best) {
+              best = e;
+              best_z = z;
+              moved = true;
+            }
+          }
       }
-    } catch (const std::exception&) {
-      // A failed polish keeps the grid optimum, which is good enough for a suggestion.
     }
   }
-  fit.params.delta.assign(r, 0.0);
-  pacf_to_coefficients(best_z, fit.params.delta);
-  fit.sse = concentrated_sse(pb, fit.params.delta, &fit.params.omega);
+  fit.delta = stable_coefficients(best_z);
+  fit.sse = concentrated_sse(pb, fit.delta, &fit.omega);
   double scale = 0.0;
   for (double x : v_tail) scale += x * x;
   const double sse = std::max(fit.sse, 1e-12 * scale + 1e-300);
@@ -310,12 +380,12 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
     if (best >= 0) {
       s.suggested_numerator = s.shapes[best].numerator;
       s.suggested_denominator = s.shapes[best].denominator;
-      s.suggested_params = s.shapes[best].params;
+      s.suggested_omega = s.shapes[best].omega;
+      s.suggested_delta = s.shapes[best].delta;
     } else {
-      s.suggested_params.omega = {s.impulse[b]};  // too few lags for any fit: a single weight
+      s.suggested_omega = {s.impulse[b]};  // too few lags for any fit: a single weight
     }
-    const InputOrder order{s.suggested_delay, s.suggested_numerator, s.suggested_denominator};
-    s.impulse_fitted = impulse_response(order, s.suggested_params, L + 1);
+    s.impulse_fitted = shape_weights(b, s.suggested_omega, s.suggested_delta, L + 1);
     s.notes.push_back(fmt::format(
         "first cross-correlation beyond the family band at lag {} (r = {:.3f}); suggested b = {}, "
         "s = {}, r = {}",
@@ -323,7 +393,7 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
         s.suggested_denominator));
   } else {
     s.suggested_delay = peak;
-    s.suggested_params.omega = {0.0};
+    s.suggested_omega = {0.0};
     s.notes.push_back("no significant cross-correlation at lags 0..L (suggest leaving it out)");
   }
 
@@ -461,8 +531,7 @@ ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
     std::vector<double> uc = us[i];
     const double ubar = mean_of(uc);
     for (auto& v : uc) v -= ubar;
-    const InputOrder order{s.suggested_delay, s.suggested_numerator, s.suggested_denominator};
-    const auto x = transfer_response(uc, order, s.suggested_params);
+    const auto x = shape_output(uc, s.suggested_delay, s.suggested_omega, s.suggested_delta);
     for (int t = 0; t < n; ++t) e[t] -= x[t];
   }
   const int drop = std::min(res.max_lag_used, n / 4);
@@ -508,8 +577,8 @@ nlohmann::json to_json(const ScreenResult& r) {
                         {"denominator", f.denominator},
                         {"sse", std::isfinite(f.sse) ? json(f.sse) : json(nullptr)},
                         {"bic", std::isfinite(f.bic) ? json(f.bic) : json(nullptr)},
-                        {"omega", f.params.omega},
-                        {"delta", f.params.delta}});
+                        {"omega", f.omega},
+                        {"delta", f.delta}});
     json aic = json::array();
     for (double a : s.prewhitening.aic) aic.push_back(std::isfinite(a) ? json(a) : json(nullptr));
     inputs.push_back(
@@ -537,8 +606,8 @@ nlohmann::json to_json(const ScreenResult& r) {
          {"suggested_delay", s.suggested_delay},
          {"suggested_numerator", s.suggested_numerator},
          {"suggested_denominator", s.suggested_denominator},
-         {"suggested_omega", s.suggested_params.omega},
-         {"suggested_delta", s.suggested_params.delta},
+         {"suggested_omega", s.suggested_omega},
+         {"suggested_delta", s.suggested_delta},
          {"shapes", shapes},
          {"feedback_lags", s.feedback_lags},
          {"notes", s.notes}});

@@ -38,7 +38,7 @@
 // least squares to v_b..v_L (omega concentrated out for each delta; delta kept stable through the
 // partial-autocorrelation map; a grid then a Nelder-Mead polish), and the shape with the smallest
 // BIC_v = m log(SSE / m) + (r + s + 1) log m (m = L - b + 1 points) is suggested. Its omega, delta
-// are the starting values in `suggested_params`.
+// are the starting values in `suggested_omega`, `suggested_delta` (signs of core/spec.h).
 //
 // Noise (p, q): the residual e_t = w_t - sum over relevant inputs of the fitted transfer-function
 // output (zero pre-sample start, the first L values dropped) is examined by its ACF and PACF over
@@ -60,7 +60,6 @@
 #include "core/config.h"
 #include "core/series.h"
 #include "core/spec.h"
-#include "model/params.h"
 #include "screen/correlation.h"
 
 namespace lagsieve {
@@ -87,7 +86,8 @@ struct ShapeFit {
   int denominator = 0;  // r
   double sse = 0.0;
   double bic = 0.0;     // BIC_v (see above); +inf when there are too few points
-  InputParams params;   // omega_0..omega_s, delta_1..delta_r
+  std::vector<double> omega;  // omega_0..omega_s
+  std::vector<double> delta;  // delta_1..delta_r (delta(B) = 1 - delta_1 B - ...)
 };
 
 struct InputScreen {
@@ -110,7 +110,8 @@ struct InputScreen {
   int suggested_delay = 0;         // b (irrelevant input: the lag of the largest |r(k)|, k >= 0)
   int suggested_numerator = 0;     // s
   int suggested_denominator = 0;   // r
-  InputParams suggested_params;    // omega, delta of the suggested shape: starting values
+  std::vector<double> suggested_omega;  // omega_0..omega_s of the suggested shape: start values
+  std::vector<double> suggested_delta;  // delta_1..delta_r of the suggested shape
   std::vector<ShapeFit> shapes;    // every (r, s) tried, s fastest
   std::vector<int> feedback_lags;  // negative lags crossing the feedback band
   std::vector<std::string> notes;  // one-line findings for this input

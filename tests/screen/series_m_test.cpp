@@ -33,10 +33,21 @@ TEST(ScreenSeriesM, LeadingIndicatorHasDelayThree) {
   std::printf("Series M: AR(%d) prewhitening, n = %d, b = %d, s = %d, r = %d, noise (%d, %d)\n",
               lead.prewhitening.order, lead.n, lead.suggested_delay, lead.suggested_numerator,
               lead.suggested_denominator, res.noise.p, res.noise.q);
+  for (double w : lead.suggested_omega) std::printf("  omega %.4f\n", w);
+  for (double d : lead.suggested_delta) std::printf("  delta %.4f\n", d);
   EXPECT_TRUE(lead.relevant);
   EXPECT_EQ(lead.suggested_delay, 3);  // Box, Jenkins, Reinsel & Ljung (2015), Series M
   // Nothing before the delay crosses even the per-lag band, so b is not fragile here.
   for (int k = 0; k < 3; ++k) EXPECT_LT(std::abs(lead.correlation_at(k)), lead.band) << k;
+  // The published model's shape and noise are recovered as well: omega_0 B^3 / (1 - delta_1 B)
+  // and an MA(1) noise on the differences.
+  EXPECT_EQ(lead.suggested_numerator, 0);
+  EXPECT_EQ(lead.suggested_denominator, 1);
+  EXPECT_EQ(res.noise.p, 0);
+  EXPECT_EQ(res.noise.q, 1);
+  ASSERT_EQ(lead.suggested_delta.size(), 1u);
+  EXPECT_GT(lead.suggested_delta[0], 0.0);  // a decaying, not oscillating, response
+  EXPECT_LT(lead.suggested_delta[0], 1.0);
   EXPECT_TRUE(lead.feedback_lags.empty());
   EXPECT_EQ(res.n, 149);
   EXPECT_EQ(res.max_lag_used, 20);

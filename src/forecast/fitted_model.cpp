@@ -1,0 +1,130 @@
+#include "forecast/fitted_model.h"
+
+#include <cstdint>
+#include <fmt/format.h>
+#include <fstream>
+#include <limits>
+#include <sstream>
+
+#include "core/error.h"
+#include "data/time_index.h"
+#include "data/transform.h"
+#include "model/likelihood.h"
+
+namespace lagsieve {
+
+std::string data_fingerprint(const SeriesData& data, int rows,
+                             const std::vector<std::string>& input_names) {
+  std::uint64_t hash = 1469598103934665603ULL;
+  auto feed = [&hash](const std::string& text) {
+    for (unsigned char c : text) {
+      hash ^= c;
+      hash *= 1099511628211ULL;
+    }
+  };
+  auto feed_column = [&](const std::vector<double>& column) {
+    for (int t = 0; t < rows && t < static_cast<int>(column.size()); ++t)
+      feed(fmt::format("{:.17g};", column[t]));
+    feed("|");
+  };
+  feed_column(data.target);
+  for (const auto& name : input_names) {
+    const int index = data.input_index(name);
+    if (index >= 0) feed_column(data.inputs[index]);
+  }
+  return fmt::format("fnv1a64:{:016x}", hash);
+}
+
+InputModel fit_input_model(const std::string& name, const std::vector<double>& input,
+                           const Differencing& diff, std::optional<int> p, std::optional<int> q) {
+  LikelihoodProblem problem;
+  problem.w = difference(input, diff);
+  problem.spec.constant = true;
+  problem.start = 0;
+  FitOptions options;
+  options.standard_errors = false;
+  options.diagnostics = false;
+  InputModel best;
+  best.input = name;
+  best.aic = std::numeric_limits<double>::infinity();
+  const bool given = p.has_value() && q.has_value();
+  for (int ip = p.value_or(0); ip <= p.value_or(2); ++ip)
+    for (int iq = q.value_or(0); iq <= q.value_or(2); ++iq) {
+      problem.spec.noise = {ip, iq, 0, 0, 1};
+      if (problem.n_obs() < problem.n_params() + 10) continue;
+      const auto fit = fit_model(problem, options);
+      if (!fit.usable() || !(fit.aic < best.aic)) continue;
+      best.p = ip;
+      best.q = iq;
+      best.mean = fit.params.constant;
+      best.phi = fit.params.phi;
+      best.theta = fit.params.theta;
+      best.sigma2 = fit.sigma2;
+      best.aic = fit.aic;
+    }
+  if (!std::isfinite(best.aic))
+    throw InputError(fmt::format("input '{}': its own ARMA model could not be fitted (too few "
+                                 "observations or a constant series)",
+                                 name));
+  best.chosen_by_aic = !given;
+  return best;
+}
+
+FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
+                              const SeriesData& data) {
+  FittedModel model;
+  model.spec = fit.spec;
+  model.params = fit.params;
+  for (const auto& e : fit.estimates) model.param_names.push_back(e.name);
+  model.covariance = fit.covariance;
+  model.loglik = fit.loglik;
+  model.aic = fit.aic;
+  model.aicc = fit.aicc;
+  model.bic = fit.bic;
+  model.n_obs = fit.n_obs;
+  model.n_params = fit.n_params;
+  model.start = fit.start;
+  model.fit_status = std::string(to_string(fit.status));
+  for (const auto& term : fit.spec.inputs) {
+    InputUse use;
+    use.name = term.name;
+    for (const auto& ic : config.inputs) {
+      if (ic.name != term.name) continue;
+      use.is_event = ic.is_event;
+      use.shape = ic.shape;
+      use.at = ic.at;
+      use.future = ic.is_event ? FutureMode::known : ic.future;
+      use.known_steps = ic.known_steps;
+      if (!ic.is_event && ic.future == FutureMode::forecast) {
+        const int index = data.input_index(term.name);
+        model.input_models.push_back(fit_input_model(term.name, data.inputs[index],
+                                                     fit.spec.differencing, ic.own_model.p,
+                                                     ic.own_model.q));
+      }
+    }
+    model.inputs.push_back(use);
+  }
+  auto& tr = model.training;
+  tr.source_file = data.source_file;
+  tr.target_column = data.target_name;
+  tr.rows = data.rows();
+  if (!data.time.empty()) {
+    tr.first_time = data.time.front();
+    tr.last_time = data.time.back();
+  }
+  tr.frequency = infer_frequency(data.time);
+  // Every input column of the data (not just the model's), so any revision is noticed.
+  std::vector<std::string> all_columns;
+  for (const auto& ic : config.inputs)
+    if (!ic.is_event) all_columns.push_back(ic.name);
+  tr.fingerprint = data_fingerprint(data, data.rows(), all_columns);
+  tr.config_file = config.config_file.string();
+  if (std::ifstream in(config.config_file); in) {
+    std::stringstream text;
+    text << in.rdbuf();
+    tr.config_text = text.str();
+  }
+  return model;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,58 @@
+#pragma once
+// k-step forecasts of a transfer-function model with intervals.
+//
+// Forecast errors come from three independent sources: the noise innovations (with the
+// uncertainty of the filtered state at the origin), and, for every input whose future is
+// forecast, its own innovations passed through the input's impulse response. The covariance of
+// the differenced errors is built as a matrix over the horizon, then integrated back through the
+// differencing: Cov(y) = L Cov(w) L'. For a long history this equals the classical
+//   V(k) = sigma^2 sum_{j<k} psi_j^2 + sum_i sigma_i^2 sum_{j<k} (sum_{l<=j} v_{i,l} psibar_{i,j-l})^2
+// (Box, Jenkins, Reinsel & Ljung, transfer-function forecasting), and it is exact for short ones.
+#include <string>
+#include <vector>
+
+#include "core/series.h"
+#include "forecast/fitted_model.h"
+
+namespace lagsieve {
+
+// Future values of one input on its original scale. Empty: the input's own model forecasts it.
+// Fewer values than the horizon: known for those steps, forecast after (needs an own model).
+struct InputFuture {
+  std::string name;
+  std::vector<double> values;
+};
+
+struct ForecastOptions {
+  int horizon = 12;
+  std::vector<double> levels{0.8, 0.95};
+  // Every input treated as known over the whole horizon (values must be supplied): the oracle
+  // forecasts of the backtest.
+  bool oracle_inputs = false;
+};
+
+struct ForecastResult {
+  int origin = 0;                        // rows of history used (forecasts are for rows origin..)
+  std::vector<std::string> time;         // stamps of the forecast rows ("" without a time column)
+  std::vector<double> level;             // forecast on the transformed scale (integrated)
+  std::vector<double> se;                // its standard error, all sources
+  std::vector<double> se_known_inputs;   // the same with every input's future taken as known
+  std::vector<double> median;            // back-transformed point forecast
+  std::vector<double> mean;              // bias-adjusted back-transformed mean (= median for none)
+  std::vector<double> levels;
+  std::vector<std::vector<double>> lower, upper;  // [level][h], original scale
+  std::vector<std::vector<double>> lower_known, upper_known;  // intervals with inputs known
+  std::vector<std::string> input_treatment;  // per input: "known", "forecast", "known 3, then forecast"
+};
+
+// Forecasts rows history.rows() .. history.rows() + horizon - 1. `history` holds the target and
+// every input of the model (events are regenerated); the model is re-filtered, not re-fitted.
+ForecastResult forecast(const FittedModel& model, const SeriesData& history,
+                        const std::vector<InputFuture>& futures, const ForecastOptions& options);
+
+// Covariance over the horizon of the errors of an ARMA forecast (units of sigma^2): noise with
+// expanded AR `ar`, MA `ma`, state covariance `p_origin` at the origin.
+Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar, const std::vector<double>& ma,
+                                         const Eigen::MatrixXd& p_origin, int horizon);
+
+}  // namespace lagsieve
