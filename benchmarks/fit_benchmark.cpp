@@ -10,6 +10,7 @@
 #include <cstring>
 #include <fstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "model/fit.h"
@@ -60,7 +61,7 @@ const LikelihoodProblem& benchmark_problem() {
 
 void report_fit(benchmark::State& state, const FitResult& fit) {
   // Rates are value * iterations / time; inverted they give time per unit of the value.
-  constexpr auto kPer = benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert;
+  const auto kPer = benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert;
   state.counters["evaluations"] = fit.evaluations;  // optimiser evaluations (no Hessian)
   state.counters["ms_per_fit"] = benchmark::Counter(1e-3, kPer);
   // Fit time spread over the optimiser's evaluations (includes the Hessian where it is on).
@@ -75,7 +76,7 @@ void BM_Fit(benchmark::State& state) {
   FitResult fit;
   for (auto _ : state) {
     fit = fit_model(problem);
-    benchmark::DoNotOptimize(fit.loglik);
+    benchmark::DoNotOptimize(std::as_const(fit).loglik);
   }
   report_fit(state, fit);
 }
@@ -90,7 +91,7 @@ void BM_FitWithoutStandardErrors(benchmark::State& state) {
   FitResult fit;
   for (auto _ : state) {
     fit = fit_model(problem, options);
-    benchmark::DoNotOptimize(fit.loglik);
+    benchmark::DoNotOptimize(std::as_const(fit).loglik);
   }
   report_fit(state, fit);
 }
@@ -103,7 +104,7 @@ void BM_ProfileLoglik(benchmark::State& state) {
   LikelihoodWorkspace ws;
   for (auto _ : state) {
     const auto value = profile_loglik(problem, nonlinear, ws);
-    benchmark::DoNotOptimize(value.loglik);
+    benchmark::DoNotOptimize(std::as_const(value).loglik);
   }
   state.counters["us_per_evaluation"] = benchmark::Counter(
       1e-6, benchmark::Counter::kIsIterationInvariantRate | benchmark::Counter::kInvert);

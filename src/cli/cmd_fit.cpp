@@ -1,22 +1,58 @@
-// Placeholder for `lagsieve fit`; replaced by the engineer who owns this command.
+// `lagsieve fit CONFIG`: exact maximum-likelihood fit of the one model a config describes.
 #include <fmt/format.h>
 
+#include <cmath>
 #include <memory>
 #include <string>
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/print.h"
+#include "core/error.h"
+#include "forecast/model_file.h"
+#include "model/fit.h"
+#include "model/spec_from_config.h"
 
 namespace lagsieve::cli {
+namespace {
+
+struct FitArgs {
+  std::string config;
+  std::string series;
+  std::string save;
+  bool json = false;
+};
+
+int run_fit(const FitArgs& args) {
+  const LoadedRun run = load_run(args.config);
+  const SeriesData& data = pick_series(run, args.series);
+  const ModelSpec spec = single_spec(run.config);
+  const auto problem = make_problem(data, spec);
+  const FitResult fit = fit_model(problem);
+  if (!args.save.empty() && fit.usable())
+    save_model(args.save, make_fitted_model(fit, run.config, data));
+  if (args.json) {
+    auto j = fit_to_json(fit);
+    j["series"] = data.target_name;
+    fmt::print("{}\n", j.dump(2));
+  } else {
+    print_fit(fit, data);
+    if (!args.save.empty() && fit.usable()) fmt::print("\nmodel file written: {}\n", args.save);
+  }
+  return fit.usable() ? kExitOk : kExitInternal;
+}
+
+}  // namespace
 
 void register_fit(CLI::App& app) {
-  auto* cmd = app.add_subcommand("fit", "(not implemented yet)");
-  auto path = std::make_shared<std::string>();
-  cmd->add_option("CONFIG", *path, "Run configuration (YAML)")->required();
-  cmd->callback([] {
-    fmt::print(stderr, "lagsieve: fit: not implemented yet\n");
-    finish(kExitInternal);
-  });
+  auto* cmd = app.add_subcommand(
+      "fit", "Fit the one model a config describes (every range a single value) by exact ML");
+  auto args = std::make_shared<FitArgs>();
+  cmd->add_option("CONFIG", args->config, "Run configuration (YAML)")->required();
+  cmd->add_option("--series", args->series, "Target column to fit (default: the first)");
+  cmd->add_option("--save", args->save, "Write the fitted model file (JSON) here");
+  cmd->add_flag("--json", args->json, "Print one JSON object instead of the summary");
+  cmd->callback([args] { finish(run_command([&] { return run_fit(*args); })); });
 }
 
 }  // namespace lagsieve::cli

@@ -1,22 +1,181 @@
-// Placeholder for `lagsieve screen`; replaced by the engineer who owns this command.
+// `lagsieve screen CONFIG`: the identification screen (prewhitened cross-correlations, impulse
+// responses, suggested b, r, s per input and p, q for the noise) for every target of a config.
+// The rules behind the suggestions are documented in screen/screen.h.
 #include <fmt/format.h>
 
+#include <algorithm>
+#include <cmath>
 #include <memory>
+#include <optional>
 #include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/print.h"
+#include "core/names.h"
+#include "screen/screen.h"
 
 namespace lagsieve::cli {
+namespace {
+
+struct ScreenArgs {
+  std::string config;
+  std::string series;
+  bool json = false;
+  bool negative = false;
+  int lags = ScreenOptions{}.max_lag;
+  int ar_max = ScreenOptions{}.ar_max_order;
+  int ar = -1;
+};
+
+// A horizontal bar of a correlation in [-1, 1]: '|' the zero line, '#' the value, ':' the per-lag
+// band and '!' the family band where the bar does not reach them.
+std::string correlation_bar(double r, double band, double family, int half) {
+  std::string bar(static_cast<size_t>(2 * half + 1), ' ');
+  auto cell = [&](double v) { return half + static_cast<int>(std::lround(v * half)); };
+  for (double mark : {band, -band})
+    if (std::abs(mark) <= 1.0) bar[static_cast<size_t>(cell(mark))] = ':';
+  for (double mark : {family, -family})
+    if (std::abs(mark) <= 1.0) bar[static_cast<size_t>(cell(mark))] = '!';
+  const int end = cell(std::clamp(r, -1.0, 1.0));
+  for (int i = std::min(end, half); i <= std::max(end, half); ++i)
+    if (i != half) bar[static_cast<size_t>(i)] = '#';
+  bar[static_cast<size_t>(half)] = '|';
+  return bar;
+}
+
+std::string join_numbers(const std::vector<double>& v) {
+  std::string out;
+  for (double x : v) {
+    if (!out.empty()) out += ", ";
+    out += fmt::format("{:.4g}", x);
+  }
+  return out;
+}
+
+void print_input(const InputScreen& s, bool negative) {
+  constexpr int kHalf = 20;
+  std::string how = s.is_event ? "event, not prewhitened" : "column";
+  if (s.prewhitened) how = fmt::format("column, prewhitened by AR({})", s.prewhitening.order);
+  fmt::print("\n{}  [{}; n = {}]\n", s.name, how, s.n);
+  if (s.relevant)
+    fmt::print("  suggestion: b = {}, s = {}, r = {}   omega = ({}){}\n", s.suggested_delay,
+               s.suggested_numerator, s.suggested_denominator, join_numbers(s.suggested_omega),
+               s.suggested_delta.empty() ? ""
+                                         : fmt::format(", delta = ({})",
+                                                       join_numbers(s.suggested_delta)));
+  else
+    fmt::print("  suggestion: leave it out (no significant cross-correlation at lags 0..{})\n",
+               s.max_lag);
+  if (s.cross_correlation.empty() || s.band == 0.0) {
+    for (const auto& note : s.notes) fmt::print("  note: {}\n", note);
+    return;
+  }
+  // Axis labels over the bar: -1 at the left edge, 0 over the zero line, +1 at the right edge.
+  std::string axis(static_cast<size_t>(2 * kHalf + 1), ' ');
+  axis.replace(0, 2, "-1");
+  axis[static_cast<size_t>(kHalf)] = '0';
+  axis.replace(static_cast<size_t>(2 * kHalf - 1), 2, "+1");
+  fmt::print("  {:>5} {:>9} {}  {:>9} {:>8} {:>9}\n", "lag", "r(k)", axis, "v_k", "se", "shape");
+  const int from = negative ? -s.max_lag : 0;
+  for (int k = from; k <= s.max_lag; ++k) {
+    const double r = s.correlation_at(k);
+    const char* flag = std::abs(r) > s.family_band ? "!!" : std::abs(r) > s.band ? "! " : "  ";
+    std::string tail;
+    if (k >= 0)
+      tail = fmt::format("{:>9.4f} {:>8.4f} {:>9.4f}", s.impulse[k], s.impulse_se[k],
+                         s.impulse_fitted[k]);
+    fmt::print("  {:>5} {:>7.3f}{} {}  {}\n", k, r, flag,
+               correlation_bar(r, s.band, s.family_band, kHalf), tail);
+  }
+  fmt::print("  bands: per lag +-{:.3f} (':' / '!'), family-wise over lags 0..{} +-{:.3f} "
+             "('!' / '!!')\n",
+             s.band, s.max_lag, s.family_band);
+  if (!negative) {
+    int worst = -1;
+    for (int k = -s.max_lag; k <= -1; ++k)
+      if (std::abs(s.correlation_at(k)) > std::abs(s.correlation_at(worst))) worst = k;
+    fmt::print("  negative lags: largest |r| {:.3f} at lag {}{}\n",
+               std::abs(s.correlation_at(worst)), worst,
+               s.feedback_lags.empty() ? " (within the feedback band)"
+                                       : " (beyond the feedback band: see warnings)");
+  }
+}
+
+void print_screen(const ScreenResult& r, bool negative) {
+  fmt::print("screen of {}: {} rows, {} after differencing (d={}, D={}, period {}), transform {}; "
+             "lags 0..{}\n",
+             r.target_name, r.rows, r.n, r.differencing.regular, r.differencing.seasonal,
+             r.differencing.period, to_string(r.transform.kind), r.max_lag_used);
+  for (const auto& s : r.inputs) print_input(s, negative);
+  fmt::print("\nnoise: suggested p = {}, q = {}  ({}; residual n = {})\n", r.noise.p, r.noise.q,
+             r.noise.reason, r.noise.n);
+  if (!r.noise.acf.empty()) {
+    std::string acf, pacf;
+    for (size_t k = 1; k < r.noise.acf.size(); ++k) acf += fmt::format(" {:6.2f}", r.noise.acf[k]);
+    for (double v : r.noise.pacf) pacf += fmt::format(" {:6.2f}", v);
+    fmt::print("  ACF  lags 1..{}:{}\n  PACF lags 1..{}:{}\n  band +-{:.3f}\n", r.noise.pacf.size(),
+               acf, r.noise.pacf.size(), pacf, r.noise.band);
+  }
+  if (r.warnings.empty()) {
+    fmt::print("\nwarnings: none\n");
+  } else {
+    fmt::print("\nwarnings:\n");
+    for (size_t i = 0; i < r.warnings.size(); ++i)
+      fmt::print("  [{}] {}: {}\n", i + 1, to_string(r.warnings[i].kind), r.warnings[i].message);
+  }
+}
+
+int run_screen(const ScreenArgs& args) {
+  const LoadedRun run = load_run(args.config);
+  ScreenOptions opt;
+  opt.max_lag = args.lags;
+  opt.ar_max_order = args.ar_max;
+  if (args.ar >= 0) opt.ar_order = args.ar;
+  std::vector<const SeriesData*> targets;
+  if (!args.series.empty()) targets.push_back(&pick_series(run, args.series));
+  else
+    for (const auto& s : run.series) targets.push_back(&s);
+
+  nlohmann::json all = nlohmann::json::array();
+  for (size_t i = 0; i < targets.size(); ++i) {
+    const ScreenResult res = screen_series(*targets[i], run.config, opt);
+    if (args.json) {
+      all.push_back(to_json(res));
+    } else {
+      if (i > 0) fmt::print("\n{}\n\n", std::string(72, '='));
+      print_screen(res, args.negative);
+    }
+  }
+  if (args.json) fmt::print("{}\n", (all.size() == 1 ? all[0] : all).dump(2));
+  return kExitOk;
+}
+
+}  // namespace
 
 void register_screen(CLI::App& app) {
-  auto* cmd = app.add_subcommand("screen", "(not implemented yet)");
-  auto path = std::make_shared<std::string>();
-  cmd->add_option("CONFIG", *path, "Run configuration (YAML)")->required();
-  cmd->callback([] {
-    fmt::print(stderr, "lagsieve: screen: not implemented yet\n");
-    finish(kExitInternal);
-  });
+  auto* cmd = app.add_subcommand(
+      "screen",
+      "Identification screen: prewhitened cross-correlations and impulse responses per input, "
+      "with suggested delay and orders, noise orders and warnings");
+  auto args = std::make_shared<ScreenArgs>();
+  cmd->add_option("CONFIG", args->config, "Run configuration (YAML)")->required();
+  cmd->add_option("--series", args->series, "Screen only this target column (default: all)");
+  cmd->add_option("--lags", args->lags, "Largest lag L (capped at n/4)")
+      ->capture_default_str()
+      ->check(CLI::PositiveNumber);
+  cmd->add_option("--ar-max", args->ar_max, "Largest prewhitening AR order tried by AIC")
+      ->capture_default_str()
+      ->check(CLI::NonNegativeNumber);
+  cmd->add_option("--ar", args->ar, "Fixed prewhitening AR order instead of AIC")
+      ->check(CLI::NonNegativeNumber);
+  cmd->add_flag("--negative", args->negative, "Show the negative lags in the table too");
+  cmd->add_flag("--json", args->json,
+                "Print everything as JSON (one object per target; an array for several)");
+  cmd->callback([args] { finish(run_command([&] { return run_screen(*args); })); });
 }
 
 }  // namespace lagsieve::cli

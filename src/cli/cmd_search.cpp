@@ -1,22 +1,30 @@
-// Placeholder for `lagsieve search`; replaced by the engineer who owns this command.
+// `lagsieve search CONFIG`: the main job. Fits every candidate the config allows on one common
+// sample, ranks them, writes the leaderboard and the leader's model file.
 #include <fmt/format.h>
+#include <unistd.h>
 
+#include <chrono>
+#include <filesystem>
 #include <memory>
 #include <string>
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/search_run.h"
 
 namespace lagsieve::cli {
 
 void register_search(CLI::App& app) {
-  auto* cmd = app.add_subcommand("search", "(not implemented yet)");
-  auto path = std::make_shared<std::string>();
-  cmd->add_option("CONFIG", *path, "Run configuration (YAML)")->required();
-  cmd->callback([] {
-    fmt::print(stderr, "lagsieve: search: not implemented yet\n");
-    finish(kExitInternal);
-  });
+  auto* cmd = app.add_subcommand(
+      "search", "Search inputs, delays, orders and noise models; rank, backtest, write a run folder");
+  auto args = std::make_shared<SearchArgs>();
+  cmd->add_option("CONFIG", args->config, "Run configuration (YAML)")->required();
+  cmd->add_option("--out", args->out, "Output folder (default: output.dir of the config)");
+  cmd->add_flag("--resume", args->resume, "Skip the candidates the folder's journal already holds");
+  cmd->add_flag("--quiet", args->quiet, "No progress on stderr");
+  cmd->add_option("--threads", args->threads, "Worker threads (default: search.threads; 0 = all cores)");
+  cmd->add_flag("--no-backtest", args->no_backtest, "Skip the backtest even if the config has one");
+  cmd->callback([args] { finish(run_command([&] { return run_search_command(*args); })); });
 }
 
 }  // namespace lagsieve::cli

@@ -22,6 +22,7 @@ enum class TransformKind { none, log, boxcox };
 struct TargetTransform {
   TransformKind kind = TransformKind::none;
   double lambda = 1.0;  // Box-Cox only
+  bool operator==(const TargetTransform&) const = default;
 };
 
 struct Differencing {
@@ -29,6 +30,7 @@ struct Differencing {
   int seasonal = 0;  // D
   int period = 1;    // S of the seasonal difference
   int lost() const { return regular + seasonal * period; }  // observations consumed
+  bool operator==(const Differencing&) const = default;
 };
 
 // Dynamic shape of one input: b, s, r.

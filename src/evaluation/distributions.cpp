@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <limits>
 
 namespace lagsieve {
@@ -60,7 +61,7 @@ double log_beta(double a, double b) {
     return std::lgamma(small) - (big - 0.5) * std::log1p(small / big) -
            small * std::log(big + small) + small + corr;
   }
-  return 0.5 * std::log(2.0 * M_PI) - big * std::log1p(small / big) -
+  return 0.5 * std::log(2.0 * std::numbers::pi) - big * std::log1p(small / big) -
          small * std::log1p(big / small) + 0.5 * std::log((a + b) / (a * b)) + corr +
          stirling_remainder(small);
 }

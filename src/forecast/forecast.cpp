@@ -106,7 +106,14 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     const InputUse& use = model.inputs[i];
     std::vector<double> original;
     int known = 0;
-    if (use.is_event) {
+    const InputFuture* supplied = nullptr;
+    for (const auto& f : futures)
+      if (f.name == term.name) supplied = &f;
+    // An event is regenerated from its definition, unless the caller supplies its column and its
+    // future (the backtest does, so origins before the event need no time stamps after them).
+    const bool event_given = use.is_event && history.input_index(term.name) >= 0 && supplied &&
+                             static_cast<int>(supplied->values.size()) >= horizon;
+    if (use.is_event && !event_given) {
       InputConfig ic;
       ic.name = use.name;
       ic.is_event = true;
@@ -122,15 +129,13 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
         throw InputError(fmt::format("the history has no column '{}', an input of the model",
                                      term.name));
       original = history.inputs[index];
-      const InputFuture* future = nullptr;
-      for (const auto& f : futures)
-        if (f.name == term.name) future = &f;
-      const int supplied = future ? static_cast<int>(future->values.size()) : 0;
-      known = std::min(supplied, horizon);
+      const InputFuture* future = supplied;
+      const int given = future ? static_cast<int>(future->values.size()) : 0;
+      known = std::min(given, horizon);
       if (options.oracle_inputs && known < horizon)
         throw InputError(fmt::format("input '{}': oracle forecasts need its values for all {} "
                                      "steps, {} given",
-                                     term.name, horizon, supplied));
+                                     term.name, horizon, given));
       if (known > 0) original.insert(original.end(), future->values.begin(),
                                      future->values.begin() + known);
       if (known < horizon && !model.input_model(term.name))
@@ -230,6 +235,29 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     out.upper_known.push_back(std::move(hi_k));
   }
   return out;
+}
+
+}  // namespace lagsieve
+
+namespace lagsieve {
+
+nlohmann::json forecast_to_json(const ForecastResult& r) {
+  nlohmann::json s = {{"origin_rows", r.origin},
+                      {"time", r.time},
+                      {"median", r.median},
+                      {"mean", r.mean},
+                      {"se_transformed", r.se},
+                      {"se_transformed_inputs_known", r.se_known_inputs},
+                      {"input_treatment", r.input_treatment},
+                      {"levels", r.levels}};
+  for (size_t l = 0; l < r.levels.size(); ++l) {
+    const std::string key = fmt::format("{:g}", r.levels[l]);
+    s["lower"][key] = r.lower[l];
+    s["upper"][key] = r.upper[l];
+    s["lower_inputs_known"][key] = r.lower_known[l];
+    s["upper_inputs_known"][key] = r.upper_known[l];
+  }
+  return s;
 }
 
 }  // namespace lagsieve

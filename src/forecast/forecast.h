@@ -8,6 +8,7 @@
 // differencing: Cov(y) = L Cov(w) L'. For a long history this equals the classical
 //   V(k) = sigma^2 sum_{j<k} psi_j^2 + sum_i sigma_i^2 sum_{j<k} (sum_{l<=j} v_{i,l} psibar_{i,j-l})^2
 // (Box, Jenkins, Reinsel & Ljung, transfer-function forecasting), and it is exact for short ones.
+#include <nlohmann/json.hpp>
 #include <string>
 #include <vector>
 
@@ -49,6 +50,10 @@ struct ForecastResult {
 // every input of the model (events are regenerated); the model is re-filtered, not re-fitted.
 ForecastResult forecast(const FittedModel& model, const SeriesData& history,
                         const std::vector<InputFuture>& futures, const ForecastOptions& options);
+
+// The forecast as JSON: time, median, mean, bounds per level (inputs as treated and inputs
+// known), standard errors on the transformed scale, how each input was treated.
+nlohmann::json forecast_to_json(const ForecastResult& f);
 
 // Covariance over the horizon of the errors of an ARMA forecast (units of sigma^2): noise with
 // expanded AR `ar`, MA `ma`, state covariance `p_origin` at the origin.

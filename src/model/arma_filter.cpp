@@ -41,6 +41,37 @@ void multiply_t_right(const Eigen::VectorXd& ar, const Eigen::MatrixXd& in, Eige
   }
 }
 
+// State recursion of every column with the gains already computed: a_{t+1} = T a_t + K_t v_t,
+// v_t = y_t - a_t(0), storing v_t / sqrt(F_t). Steps from `transient` on use the steady gain
+// (the last row of `gains`). M > 0 fixes the state dimension at compile time so the state lives
+// in registers (the common small models); M = 0 handles any m through `buffer`.
+template <int M>
+void filter_columns(const RowMatrix& y, int m, const double* ar, const RowMatrix& gains,
+                    const Eigen::VectorXd& inv_sqrt_f, Eigen::Index transient,
+                    Eigen::MatrixXd& scaled, double* buffer) {
+  const Eigen::Index n = y.rows();
+  const Eigen::Index cols = y.cols();
+  const int dim = M > 0 ? M : m;
+  double local[M > 0 ? M : 1];
+  double* a = M > 0 ? local : buffer;
+  for (Eigen::Index c = 0; c < cols; ++c) {
+    for (int i = 0; i < dim; ++i) a[i] = 0.0;
+    const double* yc = y.data() + c;
+    double* wc = scaled.col(c).data();
+    auto step = [&](Eigen::Index t, const double* k, double scale) {
+      const double v = yc[t * cols] - a[0];
+      wc[t] = v * scale;
+      const double a0 = a[0];
+      for (int i = 0; i + 1 < dim; ++i) a[i] = ar[i] * a0 + a[i + 1] + k[i] * v;
+      a[dim - 1] = ar[dim - 1] * a0 + k[dim - 1] * v;
+    };
+    for (Eigen::Index t = 0; t < transient; ++t) step(t, gains.data() + t * m, inv_sqrt_f(t));
+    const double* k = gains.data() + (transient - 1) * m;
+    const double scale = inv_sqrt_f(transient - 1);
+    for (Eigen::Index t = transient; t < n; ++t) step(t, k, scale);
+  }
+}
+
 }  // namespace
 
 bool stationary_state_covariance(std::span<const double> ar, std::span<const double> ma,
@@ -81,56 +112,71 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
     out.ok = false;
     return out;
   }
-  ws.states.setZero(m, cols);
-  ws.innov.resize(cols);
   ws.TP.resize(m, m);
   ws.Pnext.resize(m, m);
   ws.gain.resize(m);
   if (innovations) innovations->assign(n, 0.0);
   if (f_values) f_values->assign(n, 0.0);
+  if (n == 0) return out;
 
-  bool steady = false;
+  // 1. The gains depend only on the ARMA coefficients: run the covariance recursion once,
+  // until it has converged (then the gain is frozen) or the data end.
+  ws.gains.resize(n, m);
+  ws.inv_sqrt_f.resize(n);
+  Eigen::Index transient = n;
   double f = 0.0;
   for (Eigen::Index t = 0; t < n; ++t) {
-    if (!steady) {
-      f = ws.P(0, 0);
-      if (!(f > 0.0) || !std::isfinite(f)) {
-        out.ok = false;
-        return out;
-      }
-      // K = T P Z' / F
-      multiply_t_left(ws.ar_full, ws.P.col(0), ws.gain);
-      ws.gain /= f;
+    f = ws.P(0, 0);
+    if (!(f > 0.0) || !std::isfinite(f)) {
+      out.ok = false;
+      return out;
     }
-    // Innovations of every column; then a_{t+1} = T a_t + K v_t.
-    ws.innov.noalias() = y.row(t).transpose() - ws.states.row(0).transpose();
-    const double inv_sqrt_f = 1.0 / std::sqrt(f);
+    // K = T P Z' / F
+    multiply_t_left(ws.ar_full, ws.P.col(0), ws.gain);
+    ws.gain /= f;
+    ws.gains.row(t) = ws.gain.transpose();
+    ws.inv_sqrt_f(t) = 1.0 / std::sqrt(f);
     out.sum_log_f += std::log(f);
-    // Symmetric running accumulation (cheaper than storing and multiplying a tall matrix).
-    out.cross.selfadjointView<Eigen::Lower>().rankUpdate(ws.innov, 1.0 / f);
-    if (innovations) (*innovations)[t] = ws.innov(0) * inv_sqrt_f;
     if (f_values) (*f_values)[t] = f;
-    ws.row0 = ws.states.row(0);
-    for (Eigen::Index i = 0; i + 1 < m; ++i)
-      ws.states.row(i) = ws.ar_full(i) * ws.row0 + ws.states.row(i + 1);
-    ws.states.row(m - 1) = ws.ar_full(m - 1) * ws.row0;
-    ws.states.noalias() += ws.gain * ws.innov.transpose();
-
-    if (!steady) {
-      // P_{t+1} = T P T' + R R' - K K' F
-      multiply_t_left(ws.ar_full, ws.P, ws.TP);
-      multiply_t_right(ws.ar_full, ws.TP, ws.Pnext);
-      ws.Pnext.noalias() += ws.ma_full * ws.ma_full.transpose();
-      ws.Pnext.noalias() -= (f * ws.gain) * ws.gain.transpose();
-      const double change = (ws.Pnext - ws.P).cwiseAbs().maxCoeff();
-      ws.P.swap(ws.Pnext);
-      if (change < kSteadyTolerance) {
-        steady = true;
-        out.steady_from = static_cast<int>(t + 1);
-      }
+    // P_{t+1} = T P T' + R R' - K K' F
+    multiply_t_left(ws.ar_full, ws.P, ws.TP);
+    multiply_t_right(ws.ar_full, ws.TP, ws.Pnext);
+    ws.Pnext.noalias() += ws.ma_full * ws.ma_full.transpose();
+    ws.Pnext.noalias() -= (f * ws.gain) * ws.gain.transpose();
+    const double change = (ws.Pnext - ws.P).cwiseAbs().maxCoeff();
+    ws.P.swap(ws.Pnext);
+    if (change < kSteadyTolerance) {
+      transient = t + 1;
+      out.steady_from = static_cast<int>(transient);
+      break;
     }
   }
-  out.cross.triangularView<Eigen::StrictlyUpper>() = out.cross.transpose();
+  // Every later step has the same F.
+  out.sum_log_f += static_cast<double>(n - transient) * std::log(f);
+  if (f_values)
+    for (Eigen::Index t = transient; t < n; ++t) (*f_values)[t] = f;
+
+  // 2. Each column through the state recursion (one column at a time keeps its state in
+  // registers; this loop is where a fit spends most of its time), then the weighted
+  // cross-products of the standardised innovations as dot products of contiguous columns
+  // (cheaper than a blocked product at these sizes).
+  ws.scaled.resize(n, cols);
+  const double* ar_coef = ws.ar_full.data();
+  switch (m) {
+    case 1: filter_columns<1>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
+    case 2: filter_columns<2>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
+    case 3: filter_columns<3>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
+    case 4: filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
+    default:
+      ws.states.resize(m, 1);
+      filter_columns<0>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled,
+                        ws.states.data());
+  }
+  if (innovations)
+    for (Eigen::Index t = 0; t < n; ++t) (*innovations)[t] = ws.scaled(t, 0);
+  for (Eigen::Index a = 0; a < cols; ++a)
+    for (Eigen::Index b = 0; b <= a; ++b)
+      out.cross(a, b) = out.cross(b, a) = ws.scaled.col(a).dot(ws.scaled.col(b));
   return out;
 }
 

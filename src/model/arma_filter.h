@@ -21,6 +21,9 @@ struct ArmaFilterWorkspace {
   Eigen::MatrixXd P, TP, Pnext, lyap_a, lyap_tmp;
   Eigen::VectorXd gain, ar_full, ma_full;
   RowMatrix states;     // m x columns
+  RowMatrix gains;      // Kalman gain K_t of each step before the steady state (steps x m)
+  Eigen::VectorXd inv_sqrt_f;  // 1 / sqrt(F_t) of the same steps
+  Eigen::MatrixXd scaled;  // n x columns: standardised innovations v_t / sqrt(F_t)
   Eigen::VectorXd innov;
   Eigen::RowVectorXd row0;
 };

@@ -124,6 +124,45 @@ ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
 
 namespace {
 
+// y = u / delta(B) from zero pre-sample values (the start-up rule), into `out`.
+void filter_denominator(const std::vector<double>& u, std::span<const double> delta,
+                        std::vector<double>& out) {
+  const int total = static_cast<int>(u.size());
+  const int r = static_cast<int>(delta.size());
+  out.resize(total);
+  if (total == 0) return;
+  if (r == 0) {  // the common short cases without the inner loop (same arithmetic)
+    std::copy(u.begin(), u.end(), out.begin());
+    return;
+  }
+  if (r == 1) {
+    const double d = delta[0];
+    double prev = u[0];
+    out[0] = prev;
+    for (int t = 1; t < total; ++t) out[t] = prev = u[t] + d * prev;
+    return;
+  }
+  for (int t = 0; t < std::min(r, total); ++t) {  // the start-up: lags before 0 are zero
+    double v = u[t];
+    for (int j = 0; j < r; ++j)
+      if (t - 1 - j >= 0) v += delta[j] * out[t - 1 - j];
+    out[t] = v;
+  }
+  for (int t = r; t < total; ++t) {
+    double v = u[t];
+    for (int j = 0; j < r; ++j) v += delta[j] * out[t - 1 - j];
+    out[t] = v;
+  }
+}
+
+// Expanded AR and MA polynomials of the noise part of the nonlinear vector.
+void noise_polynomials(const NoiseOrder& ns, std::span<const double> noise, std::vector<double>& ar,
+                       std::vector<double>& ma) {
+  ar = expand_ar(noise.subspan(0, ns.p), noise.subspan(ns.p + ns.q, ns.seasonal_p), ns.period);
+  ma = expand_ma(noise.subspan(ns.p, ns.q), noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q),
+                 ns.period);
+}
+
 // Fills ws.columns: column 0 the target, then the constant and one column per omega. Returns
 // the ARMA polynomials (expanded) through `ar`/`ma`.
 void build_columns(const LikelihoodProblem& problem, std::span<const double> nonlinear,
@@ -131,32 +170,19 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
   const ModelSpec& spec = problem.spec;
   const int n = problem.n_obs();
   const int start = problem.start;
-  const int total = static_cast<int>(problem.w.size());
   ws.columns.resize(n, 1 + problem.n_linear());
   for (int t = 0; t < n; ++t) ws.columns(t, 0) = problem.w[start + t];
   int col = 1;
   if (spec.constant) ws.columns.col(col++).setOnes();
   size_t k = 0;
-  ws.filtered.resize(total);
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
-    const auto& u = problem.u[i];
-    // y = u / delta(B) from zero pre-sample values.
-    for (int t = 0; t < total; ++t) {
-      double v = u[t];
-      for (int j = 0; j < order.denominator; ++j)
-        if (t - 1 - j >= 0) v += nonlinear[k + j] * ws.filtered[t - 1 - j];
-      ws.filtered[t] = v;
-    }
+    filter_denominator(problem.u[i], nonlinear.subspan(k, order.denominator), ws.filtered);
     k += order.denominator;
     for (int j = 0; j <= order.numerator; ++j, ++col)
       for (int t = 0; t < n; ++t) ws.columns(t, col) = ws.filtered[start + t - order.delay - j];
   }
-  const auto noise = nonlinear.subspan(k);
-  const auto& ns = spec.noise;
-  ar = expand_ar(noise.subspan(0, ns.p), noise.subspan(ns.p + ns.q, ns.seasonal_p), ns.period);
-  ma = expand_ma(noise.subspan(ns.p, ns.q), noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q),
-                 ns.period);
+  noise_polynomials(spec.noise, nonlinear.subspan(k), ar, ma);
 }
 
 double gaussian_loglik(int n, double ssr, double sum_log_f) {
@@ -200,11 +226,32 @@ double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, Likelih
                  double* sigma2_out) {
   const auto nonlinear = pack_nonlinear(problem.spec, p);
   const auto linear = pack_linear(problem.spec, p);
+  // Residual column w - X beta, built directly (the regressor columns are not needed): the same
+  // operations in the same order as subtracting each column of build_columns in turn.
+  const ModelSpec& spec = problem.spec;
+  const int n = problem.n_obs();
+  const int start = problem.start;
+  RowMatrix& resid = ws.columns;
+  resid.resize(n, 1);
+  for (int t = 0; t < n; ++t) resid(t, 0) = problem.w[start + t];
+  size_t l = 0, k = 0;
+  if (spec.constant) {
+    const double c = linear[l++];
+    for (int t = 0; t < n; ++t) resid(t, 0) -= c * 1.0;
+  }
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    const auto& order = spec.inputs[i].order;
+    filter_denominator(problem.u[i], std::span<const double>(nonlinear).subspan(k, order.denominator),
+                       ws.filtered);
+    k += order.denominator;
+    for (int j = 0; j <= order.numerator; ++j) {
+      const double omega = linear[l++];
+      const double* x = ws.filtered.data() + start - order.delay - j;
+      for (int t = 0; t < n; ++t) resid(t, 0) -= omega * x[t];
+    }
+  }
   std::vector<double> ar, ma;
-  build_columns(problem, nonlinear, ws, ar, ma);
-  // Residual column y - X beta, filtered alone.
-  RowMatrix resid = ws.columns.col(0);
-  for (size_t j = 0; j < linear.size(); ++j) resid.col(0) -= linear[j] * ws.columns.col(j + 1);
+  noise_polynomials(spec.noise, std::span<const double>(nonlinear).subspan(k), ar, ma);
   const auto summary = arma_filter(ar, ma, resid, ws.filter);
   if (!summary.ok) return -std::numeric_limits<double>::infinity();
   const double ssr = summary.cross(0, 0);

@@ -142,7 +142,8 @@ std::string horizon_chart_svg(const HorizonChart& chart);
 
 // Empirical against nominal interval coverage: the diagonal is perfect calibration; points below
 // it are over-confident intervals. With counts, a grey bar at each nominal level shows the
-// range p +- 1.96 sqrt(p (1 - p) / n) that sampling alone explains.
+// range p +- 1.96 sqrt(p (1 - p) / n) that sampling alone explains (n from the first series
+// with a count: models backtested together share their origins).
 struct CoverageSeries {
   std::string name;
   std::vector<double> empirical;  // one per nominal level, as shares 0..1

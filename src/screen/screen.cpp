@@ -6,9 +6,11 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <span>
 #include <nlohmann/json.hpp>
 
 #include "core/error.h"
+#include "core/names.h"
 #include "data/transform.h"
 
 namespace lagsieve {
@@ -18,11 +20,11 @@ namespace {
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr int kMinObservations = 10;
 
-// z with P(|Z| > z) = two_sided_tail for a standard normal Z, by bisection on erfc (monotone,
-// and 60 halvings of [0, 40] reach double precision; speed is irrelevant here).
+// z with P(|Z| > z) = two_sided_tail for a standard normal Z, by bisection on erfc (monotone;
+// 60 halvings of [0, 40] reach double precision).
 double normal_two_sided_quantile(double two_sided_tail) {
   double lo = 0.0, hi = 40.0;
-  for (int i = 0; i < 200 && hi - lo > 1e-15; ++i) {
+  for (int i = 0; i < 60; ++i) {
     const double mid = 0.5 * (lo + hi);
     if (std::erfc(mid / std::sqrt(2.0)) > two_sided_tail) lo = mid;
     else hi = mid;
@@ -85,16 +87,16 @@ std::vector<double> shape_output(const std::vector<double>& u, int b,
 
 // Unconstrained z -> partial autocorrelations tanh(z) -> coefficients of a stable
 // 1 - a_1 B - ... - a_r B^r (the Durbin-Levinson step), so every delta tried is stable.
-std::vector<double> stable_coefficients(const std::vector<double>& z) {
-  std::vector<double> a, prev;
+// r <= kMaxShapeOrder; writes a_1..a_r into `a`.
+constexpr int kMaxShapeOrder = 2;
+void stable_coefficients(std::span<const double> z, std::span<double> a) {
+  double prev[kMaxShapeOrder] = {};
   for (size_t k = 0; k < z.size(); ++k) {
     const double rho = std::tanh(z[k]);
-    prev = a;
-    a.assign(k + 1, 0.0);
+    for (size_t j = 0; j < k; ++j) prev[j] = a[j];
     for (size_t j = 0; j < k; ++j) a[j] = prev[j] - rho * prev[k - 1 - j];
     a[k] = rho;
   }
-  return a;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -104,14 +106,15 @@ struct ShapeProblem {
   std::vector<double> v;  // v_b..v_L (m values)
   int s = 0;
   int r = 0;
+  std::vector<double> h;  // workspace: impulse response of 1 / delta(B), m values
 };
 
 // Concentrated SSE for a given delta; fills omega when asked.
-double concentrated_sse(const ShapeProblem& pb, const std::vector<double>& delta,
+double concentrated_sse(ShapeProblem& pb, std::span<const double> delta,
                         std::vector<double>* omega) {
   const int m = static_cast<int>(pb.v.size());
-  // h = impulse response of 1 / delta(B).
-  std::vector<double> h(m, 0.0);
+  auto& h = pb.h;
+  h.resize(m);
   for (int k = 0; k < m; ++k) {
     double x = k == 0 ? 1.0 : 0.0;
     for (int i = 0; i < static_cast<int>(delta.size()) && i < k; ++i) x += delta[i] * h[k - 1 - i];
@@ -161,9 +164,11 @@ double concentrated_sse(const ShapeProblem& pb, const std::vector<double>& delta
   return std::isfinite(sse) ? sse : kInf;
 }
 
-double sse_of_unconstrained(const ShapeProblem& pb, const std::vector<double>& z,
+double sse_of_unconstrained(ShapeProblem& pb, const std::vector<double>& z,
                             std::vector<double>* omega) {
-  return concentrated_sse(pb, stable_coefficients(z), omega);
+  double delta[kMaxShapeOrder] = {};
+  stable_coefficients(z, std::span<double>(delta, z.size()));
+  return concentrated_sse(pb, std::span<const double>(delta, z.size()), omega);
 }
 
 ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
@@ -177,7 +182,7 @@ ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
     fit.bic = kInf;
     return fit;
   }
-  ShapeProblem pb{v_tail, s, r};
+  ShapeProblem pb{v_tail, s, r, {}};
   std::vector<double> best_z(r, 0.0);
   double best = sse_of_unconstrained(pb, best_z, nullptr);
   if (r > 0) {
@@ -197,9 +202,11 @@ ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
       }
     }
     // Polish by compass search (one or two dimensions: no need for a general optimiser).
-    for (double step = 0.05; step > 1e-9; step *= 0.5) {
+    // Flat valleys (nearly cancelling delta and omega) would let it creep forever: at most 20
+    // moves per step length, and z to 1e-6 is far finer than a suggestion needs.
+    for (double step = 0.05; step > 1e-6; step *= 0.5) {
       bool moved = true;
-      while (moved) {
+      for (int moves = 0; moved && moves < 20; ++moves) {
         moved = false;
         for (int d = 0; d < r; ++d)
           for (double sign : {-1.0, 1.0}) {
@@ -215,7 +222,8 @@ ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
       }
     }
   }
-  fit.delta = stable_coefficients(best_z);
+  fit.delta.assign(r, 0.0);
+  stable_coefficients(best_z, fit.delta);
   fit.sse = concentrated_sse(pb, fit.delta, &fit.omega);
   double scale = 0.0;
   for (double x : v_tail) scale += x * x;
@@ -407,7 +415,10 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
     if (std::abs(s.correlation_at(k)) > s.feedback_band) s.feedback_lags.push_back(k);
   if (!s.feedback_lags.empty()) {
     std::string lags;
-    for (int k : s.feedback_lags) lags += (lags.empty() ? "" : ", ") + std::to_string(k);
+    for (int k : s.feedback_lags) {
+      if (!lags.empty()) lags += ", ";
+      lags += std::to_string(k);
+    }
     warnings.push_back(
         {ScreenWarningKind::feedback, {name},
          fmt::format("input '{}' correlates with the PAST of the target (lags {}): the input may "
@@ -549,10 +560,8 @@ nlohmann::json to_json(const ScreenResult& r) {
   out["differencing"] = {{"regular", r.differencing.regular},
                          {"seasonal", r.differencing.seasonal},
                          {"period", r.differencing.period}};
-  const char* kind = r.transform.kind == TransformKind::none  ? "none"
-                     : r.transform.kind == TransformKind::log ? "log"
-                                                              : "boxcox";
-  out["transform"] = {{"kind", kind}, {"lambda", r.transform.lambda}};
+  out["transform"] = {{"kind", std::string(to_string(r.transform.kind))},
+                      {"lambda", r.transform.lambda}};
   const auto& o = r.options;
   out["options"] = {{"max_lag", o.max_lag},
                     {"max_lag_used", r.max_lag_used},

@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <string>
@@ -102,7 +103,7 @@ TEST(DieboldMariano, HandWorkedCaseWithClosedFormT3) {
   EXPECT_NEAR(r.statistic, std::sqrt(0.6), 1e-14);
   const double t = std::sqrt(0.6);
   const double s3 = std::sqrt(3.0);
-  const double upper = 0.5 - (t / (s3 * (1.0 + t * t / 3.0)) + std::atan(t / s3)) / M_PI;
+  const double upper = 0.5 - (t / (s3 * (1.0 + t * t / 3.0)) + std::atan(t / s3)) / std::numbers::pi;
   EXPECT_NEAR(r.p_value, 2.0 * upper, 1e-14);
   // Swapping the series flips the sign, not the p-value.
   const DieboldMarianoResult s = diebold_mariano(b, a);

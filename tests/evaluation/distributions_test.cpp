@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <fstream>
 #include <limits>
 #include <nlohmann/json.hpp>
@@ -100,7 +101,7 @@ TEST(Distributions, EdgeCases) {
   // Closed forms: chi-square with 2 df has upper tail exp(-x/2); t with 1 df is Cauchy,
   // cdf 1/2 + atan(x)/pi.
   EXPECT_NEAR(chi_square_upper_tail(7.3, 2.0), std::exp(-3.65), 1e-16);
-  EXPECT_NEAR(student_t_cdf(2.5, 1.0), 0.5 + std::atan(2.5) / M_PI, 1e-15);
+  EXPECT_NEAR(student_t_cdf(2.5, 1.0), 0.5 + std::atan(2.5) / std::numbers::pi, 1e-15);
 }
 
 }  // namespace

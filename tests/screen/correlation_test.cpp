@@ -32,7 +32,7 @@ void expect_near_all(const std::vector<double>& got, const nlohmann::json& want,
 }
 
 TEST(Correlation, AcfMatchesR) {
-  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto fx = testing::load_fixture("screen/correlation_bjsales.json");
   const auto p = differenced_series_m();
   ASSERT_EQ(static_cast<int>(p.dsales.size()), fx["n"].get<int>());
   const int L = fx["max_lag"];
@@ -41,7 +41,7 @@ TEST(Correlation, AcfMatchesR) {
 }
 
 TEST(Correlation, PacfMatchesR) {
-  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto fx = testing::load_fixture("screen/correlation_bjsales.json");
   const auto p = differenced_series_m();
   const int L = fx["max_lag"];
   expect_near_all(pacf(p.dsales, L), fx["pacf_sales"], "pacf sales");
@@ -50,14 +50,14 @@ TEST(Correlation, PacfMatchesR) {
 
 TEST(Correlation, CcfMatchesRWithInputFirst) {
   // Our ccf(x = lead, y = sales)[k + L] = R's ccf(sales, lead) at lag k: positive k, lead first.
-  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto fx = testing::load_fixture("screen/correlation_bjsales.json");
   const auto p = differenced_series_m();
   const int L = fx["max_lag"];
   expect_near_all(ccf(p.dlead, p.dsales, L), fx["ccf_lead_sales"], "ccf lead->sales");
 }
 
 TEST(Correlation, LeastSquaresArMatchesR) {
-  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto fx = testing::load_fixture("screen/correlation_bjsales.json");
   const auto p = differenced_series_m();
   const auto fit = fit_ar(p.dlead, 3);
   expect_near_all(fit.phi, fx["ar3_lead"], "AR(3) coefficients");
@@ -65,7 +65,7 @@ TEST(Correlation, LeastSquaresArMatchesR) {
 }
 
 TEST(Correlation, AicOrderChoiceMatchesR) {
-  const auto fx = test::read_json("screen/correlation_bjsales.json");
+  const auto fx = testing::load_fixture("screen/correlation_bjsales.json");
   const auto p = differenced_series_m();
   const auto fit = fit_ar_by_aic(p.dlead, 10);
   expect_near_all(fit.aic, fx["aic_lead"], "AIC by order");

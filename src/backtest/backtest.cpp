@@ -1,0 +1,444 @@
+#include "backtest/backtest.h"
+
+#include <tbb/info.h>
+#include <tbb/parallel_for.h>
+#include <tbb/task_arena.h>
+
+#include <algorithm>
+#include <cmath>
+#include <fmt/format.h>
+
+#include "core/error.h"
+#include "core/names.h"
+#include "evaluation/distributions.h"
+#include "forecast/forecast.h"
+#include "model/likelihood.h"
+#include "model/spec_from_config.h"
+
+namespace lagsieve {
+
+namespace {
+
+SeriesData slice(const SeriesData& data, int from, int to) {
+  SeriesData s;
+  s.target_name = data.target_name;
+  s.source_file = data.source_file;
+  s.input_names = data.input_names;
+  s.target.assign(data.target.begin() + from, data.target.begin() + to);
+  if (!data.time.empty()) s.time.assign(data.time.begin() + from, data.time.begin() + to);
+  for (const auto& u : data.inputs) s.inputs.emplace_back(u.begin() + from, u.begin() + to);
+  return s;
+}
+
+std::vector<double> future_values(const SeriesData& data, const std::string& name, int from, int count) {
+  const int index = data.input_index(name);
+  if (index < 0) return {};
+  const auto& u = data.inputs[index];
+  return {u.begin() + from, u.begin() + from + count};
+}
+
+// Fits the candidate's spec on one window; warm-started from `previous` when given.
+std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesData& window, int start,
+                                      const std::optional<FittedModel>& previous) {
+  const auto problem = make_problem(window, c.spec, start);
+  FitOptions options;
+  options.standard_errors = false;
+  options.diagnostics = false;
+  if (previous) options.warm_start = previous->params;
+  const FitResult fit = fit_model(problem, options);
+  if (!fit.usable()) return std::nullopt;
+  FittedModel m;
+  m.spec = c.spec;
+  m.params = fit.params;
+  m.inputs = c.inputs;
+  m.start = fit.start;
+  for (size_t i = 0; i < c.inputs.size(); ++i) {
+    const auto& use = c.inputs[i];
+    if (use.is_event || use.future != FutureMode::forecast) continue;
+    const int index = window.input_index(use.name);
+    const auto& orders = i < c.input_orders.size() ? c.input_orders[i] : InputModelConfig{};
+    m.input_models.push_back(fit_input_model(use.name, window.inputs[index], c.spec.differencing,
+                                             orders.p, orders.q));
+  }
+  return m;
+}
+
+void add_records(ForecastRecords& out, int origin, const ForecastResult& f, const SeriesData& data,
+                 double scale) {
+  for (size_t h = 0; h < f.median.size(); ++h) {
+    ForecastRecord r;
+    r.origin = origin;
+    r.horizon = static_cast<int>(h) + 1;
+    r.forecast = f.median[h];
+    r.actual = data.target[origin + h];
+    for (size_t l = 0; l < f.levels.size(); ++l) {
+      r.lower.push_back(f.lower[l][h]);
+      r.upper.push_back(f.upper[l][h]);
+    }
+    r.scale = scale;
+    out.records.push_back(std::move(r));
+  }
+}
+
+// Seasonal naive: y_{T+h} = y_{T+h-m(k+1)}, k = floor((h-1)/m); Gaussian intervals with
+// sd sigma sqrt(k+1), sigma from the window's seasonal differences.
+void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int from, int horizon,
+                    int season, const std::vector<double>& levels, double scale) {
+  const auto& y = data.target;
+  double ss = 0.0;
+  int count = 0;
+  for (int t = from + season; t < origin; ++t) {
+    ss += (y[t] - y[t - season]) * (y[t] - y[t - season]);
+    ++count;
+  }
+  const double sigma = count > 0 ? std::sqrt(ss / count) : 0.0;
+  ForecastResult f;
+  f.levels = levels;
+  f.lower.assign(levels.size(), {});
+  f.upper.assign(levels.size(), {});
+  for (int h = 1; h <= horizon; ++h) {
+    const int k = (h - 1) / season;
+    const double point = y[origin + h - 1 - season * (k + 1)];
+    f.median.push_back(point);
+    for (size_t l = 0; l < levels.size(); ++l) {
+      const double half = normal_quantile(0.5 + levels[l] / 2.0) * sigma * std::sqrt(k + 1.0);
+      f.lower[l].push_back(point - half);
+      f.upper[l].push_back(point + half);
+    }
+  }
+  add_records(out.production, origin, f, data, scale);
+  add_records(out.oracle, origin, f, data, scale);
+}
+
+ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
+                           const BacktestOptions& o, const std::vector<int>& origins) {
+  ModelBacktest out;
+  out.name = c.name;
+  out.benchmark = c.benchmark;
+  out.production.levels = o.levels;
+  out.oracle.levels = o.levels;
+  std::optional<FittedModel> current = c.fixed;
+  std::optional<FittedModel> last_fit;
+  for (size_t k = 0; k < origins.size(); ++k) {
+    const int origin = origins[k];
+    const int from = o.window == WindowKind::sliding ? std::max(0, origin - o.window_length) : 0;
+    const int horizon = std::min(o.horizon, data.rows() - origin);
+    const SeriesData window = slice(data, from, origin);
+    const double scale = mase_scale(window.target, o.season);
+    if (c.kind == BacktestCandidate::Kind::seasonal_naive) {
+      seasonal_naive(out, data, origin, from, horizon, o.season, o.levels, scale);
+      continue;
+    }
+    try {
+      const bool refit_now = !c.fixed && (o.refit > 0 ? k % static_cast<size_t>(o.refit) == 0 : k == 0);
+      if (refit_now) {
+        auto fitted = fit_window(c, window, o.start, last_fit);
+        if (fitted) {
+          current = std::move(fitted);
+          last_fit = current;
+        }
+      }
+      if (!current) {
+        ++out.failed_origins;
+        continue;
+      }
+      ForecastOptions fo;
+      fo.horizon = horizon;
+      fo.levels = o.levels;
+      std::vector<InputFuture> production, oracle;
+      for (const auto& use : current->inputs) {
+        const auto actual = future_values(data, use.name, origin, horizon);
+        oracle.push_back({use.name, actual});
+        if (use.is_event || use.future == FutureMode::known)
+          production.push_back({use.name, actual});
+        else if (use.known_steps > 0)
+          production.push_back({use.name, std::vector<double>(actual.begin(),
+                                                              actual.begin() + std::min(use.known_steps, horizon))});
+      }
+      add_records(out.production, origin, forecast(*current, window, production, fo), data, scale);
+      fo.oracle_inputs = true;
+      add_records(out.oracle, origin, forecast(*current, window, oracle, fo), data, scale);
+    } catch (const std::exception& e) {
+      ++out.failed_origins;
+      out.note = e.what();
+    }
+  }
+  if (!out.production.records.empty()) {
+    out.production_accuracy = accuracy_table(out.production);
+    out.oracle_accuracy = accuracy_table(out.oracle);
+    out.score = backtest_score(out.production_accuracy, o.score);
+  } else {
+    out.score = std::numeric_limits<double>::quiet_NaN();
+  }
+  return out;
+}
+
+std::string num(double v) { return std::isfinite(v) ? fmt::format("{:.10g}", v) : ""; }
+
+std::string level_name(double level) { return fmt::format("{:g}", 100.0 * level); }
+
+}  // namespace
+
+BacktestOptions backtest_options(const RunConfig& config, int rows) {
+  const auto& b = config.backtest;
+  const std::string where = config.config_file.filename().string() + ": backtest.";
+  BacktestOptions o;
+  o.first_origin = b.first_origin > 0 ? b.first_origin : (2 * rows) / 3;
+  o.step = b.step;
+  o.horizon = b.horizon;
+  o.window = b.window;
+  o.window_length = b.window_length > 0 ? b.window_length : o.first_origin;
+  o.refit = b.refit;
+  o.levels = b.levels;
+  o.season = config.differencing.seasonal > 0 ? config.differencing.period
+             : config.noise.period > 1       ? config.noise.period
+                                             : 1;
+  if (o.horizon < 1) throw InputError(where + "horizon must be at least 1");
+  if (o.step < 1) throw InputError(where + "step must be at least 1");
+  if (o.first_origin >= rows)
+    throw InputError(fmt::format("{}first_origin {} is at or beyond the last row ({} rows); choose "
+                                 "an origin inside the data",
+                                 where, o.first_origin, rows));
+  if (o.first_origin < 3 * o.season + 10)
+    throw InputError(fmt::format("{}first_origin {} leaves too little data to fit before it", where,
+                                 o.first_origin));
+  static const std::pair<const char*, AccuracyMeasure> scores[] = {
+      {"mase", AccuracyMeasure::mase}, {"rmse", AccuracyMeasure::rmse},
+      {"mae", AccuracyMeasure::mae}, {"interval_score", AccuracyMeasure::interval_score}};
+  bool found = false;
+  for (const auto& [name, measure] : scores)
+    if (b.score == name) {
+      o.score = measure;
+      found = true;
+    }
+  if (!found)
+    throw InputError(fmt::format("{}score '{}' is not one of mase, rmse, mae, interval_score", where, b.score));
+  return o;
+}
+
+BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& candidates,
+                            const BacktestOptions& options) {
+  BacktestResult result;
+  result.levels = options.levels;
+  for (int origin = options.first_origin; origin < data.rows(); origin += options.step) {
+    result.origins.push_back(origin);
+    result.origin_times.push_back(data.time.empty() ? std::to_string(origin) : data.time[origin]);
+  }
+  result.models.resize(candidates.size());
+  const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
+  tbb::task_arena arena(threads);
+  arena.execute([&] {
+    tbb::parallel_for(size_t{0}, candidates.size(), [&](size_t i) {
+      result.models[i] = backtest_one(data, candidates[i], options, result.origins);
+    });
+  });
+  double best = std::numeric_limits<double>::infinity();
+  for (size_t i = 0; i < result.models.size(); ++i)
+    if (!result.models[i].benchmark && std::isfinite(result.models[i].score) &&
+        result.models[i].score < best) {
+      best = result.models[i].score;
+      result.leader = static_cast<int>(i);
+    }
+  result.comparisons = compare_to_leader(result);
+  return result;
+}
+
+std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
+  std::vector<ComparisonRow> rows;
+  if (result.leader < 0) return rows;
+  const auto& lead = result.models[result.leader];
+  for (size_t i = 0; i < result.models.size(); ++i) {
+    if (static_cast<int>(i) == result.leader) continue;
+    const auto& other = result.models[i];
+    if (other.production.records.empty()) continue;
+    int max_h = 0;
+    for (const auto& r : lead.production.records) max_h = std::max(max_h, r.horizon);
+    for (int h = 1; h <= max_h; ++h) {
+      const auto losses = paired_losses(lead.production, other.production, h, LossKind::squared);
+      if (losses.loss_a.size() < 3) continue;
+      DieboldMarianoOptions dmo;
+      dmo.horizon = h;
+      rows.push_back({lead.name, other.name, h, "squared", diebold_mariano(losses.loss_a, losses.loss_b, dmo)});
+    }
+  }
+  return rows;
+}
+
+namespace {
+
+// Per origin: the mean over horizons of |error| / scale (the quantity MASE averages).
+std::vector<double> scaled_error_by_origin(const ForecastRecords& records, const std::vector<int>& origins) {
+  std::vector<double> out;
+  for (int origin : origins) {
+    double sum = 0.0;
+    int n = 0;
+    for (const auto& r : records.records)
+      if (r.origin == origin) {
+        sum += std::abs(r.actual - r.forecast) / r.scale;
+        ++n;
+      }
+    out.push_back(n > 0 ? sum / n : std::nan(""));
+  }
+  return out;
+}
+
+}  // namespace
+
+std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& leader,
+                                       const ModelBacktest& leader_result,
+                                       const BacktestOptions& options) {
+  std::vector<BacktestCandidate> without;
+  for (size_t i = 0; i < leader.spec.inputs.size(); ++i) {
+    BacktestCandidate c = leader;
+    c.fixed.reset();
+    c.spec.inputs.erase(c.spec.inputs.begin() + i);
+    c.inputs.erase(c.inputs.begin() + i);
+    if (i < c.input_orders.size()) c.input_orders.erase(c.input_orders.begin() + i);
+    c.name = fmt::format("{} without {}", leader.name, leader.spec.inputs[i].name);
+    without.push_back(std::move(c));
+  }
+  const auto result = run_backtest(data, without, options);
+  std::vector<InputValueRow> rows;
+  const auto with = scaled_error_by_origin(leader_result.production, result.origins);
+  for (size_t i = 0; i < without.size(); ++i) {
+    InputValueRow row;
+    row.input = leader.spec.inputs[i].name;
+    row.score_with = leader_result.score;
+    row.score_without = result.models[i].score;
+    const auto alt = scaled_error_by_origin(result.models[i].production, result.origins);
+    std::vector<double> a, b;
+    for (size_t k = 0; k < with.size(); ++k)
+      if (std::isfinite(with[k]) && std::isfinite(alt[k])) {
+        a.push_back(with[k]);
+        b.push_back(alt[k]);
+      }
+    DieboldMarianoOptions dmo;
+    dmo.horizon = std::max(1, std::min(options.horizon, static_cast<int>(a.size()) / 3));
+    if (a.size() >= 3) row.test = diebold_mariano(a, b, dmo);
+    rows.push_back(row);
+  }
+  return rows;
+}
+
+BacktestCandidate candidate_from_spec(const std::string& name, const ModelSpec& spec,
+                                      const RunConfig& config) {
+  BacktestCandidate c;
+  c.name = name;
+  c.spec = spec;
+  for (const auto& term : spec.inputs)
+    for (const auto& ic : config.inputs)
+      if (ic.name == term.name) {
+        InputUse use;
+        use.name = ic.name;
+        use.is_event = ic.is_event;
+        use.shape = ic.shape;
+        use.at = ic.at;
+        use.future = ic.is_event ? FutureMode::known : ic.future;
+        use.known_steps = ic.known_steps;
+        c.inputs.push_back(use);
+        c.input_orders.push_back(ic.own_model);
+      }
+  return c;
+}
+
+BacktestCandidate candidate_from_model(const std::string& name, const FittedModel& model) {
+  BacktestCandidate c;
+  c.name = name;
+  c.spec = model.spec;
+  c.inputs = model.inputs;
+  for (const auto& use : model.inputs) {
+    InputModelConfig orders;
+    if (const auto* im = model.input_model(use.name)) {
+      orders.p = im->p;
+      orders.q = im->q;
+    }
+    c.input_orders.push_back(orders);
+  }
+  c.fixed = model;
+  return c;
+}
+
+BacktestCandidate seasonal_naive_candidate(int season) {
+  BacktestCandidate c;
+  c.name = season > 1 ? fmt::format("seasonal naive (period {})", season) : "naive (last value)";
+  c.kind = BacktestCandidate::Kind::seasonal_naive;
+  c.benchmark = true;
+  return c;
+}
+
+std::string backtest_csv(const BacktestResult& r) {
+  std::string out = "model,mode,origin,origin_time,horizon,time,forecast,actual";
+  for (double l : r.levels) out += fmt::format(",lower_{0},upper_{0}", level_name(l));
+  out += "\n";
+  for (const auto& m : r.models)
+    for (const auto* mode : {"production", "oracle"}) {
+      const auto& recs = std::string(mode) == "production" ? m.production : m.oracle;
+      for (const auto& rec : recs.records) {
+        size_t k = 0;
+        while (k < r.origins.size() && r.origins[k] != rec.origin) ++k;
+        const std::string otime = k < r.origin_times.size() ? r.origin_times[k] : "";
+        out += fmt::format("\"{}\",{},{},{},{},{},{},{}", m.name, mode, rec.origin, otime, rec.horizon,
+                           rec.origin + rec.horizon - 1, num(rec.forecast), num(rec.actual));
+        for (size_t l = 0; l < rec.lower.size(); ++l) out += fmt::format(",{},{}", num(rec.lower[l]), num(rec.upper[l]));
+        out += "\n";
+      }
+    }
+  return out;
+}
+
+std::string accuracy_csv(const BacktestResult& r) {
+  std::string out = "model,mode,horizon,count,mae,rmse,mase";
+  for (double l : r.levels) out += fmt::format(",coverage_{}", level_name(l));
+  for (double l : r.levels) out += fmt::format(",interval_score_{}", level_name(l));
+  out += ",score\n";
+  for (const auto& m : r.models)
+    for (const auto* mode : {"production", "oracle"}) {
+      const bool prod = std::string(mode) == "production";
+      const auto& table = prod ? m.production_accuracy : m.oracle_accuracy;
+      auto emit = [&](const AccuracyRow& row) {
+        out += fmt::format("\"{}\",{},{},{},{},{},{}", m.name, mode, row.horizon, row.count, num(row.mae),
+                           num(row.rmse), num(row.mase));
+        for (double c : row.coverage) out += "," + num(c);
+        for (double s : row.interval_score) out += "," + num(s);
+        out += "," + (row.horizon == 0 && prod ? num(m.score) : std::string()) + "\n";
+      };
+      if (table.by_horizon.empty()) continue;
+      emit(table.overall);
+      for (const auto& row : table.by_horizon) emit(row);
+    }
+  return out;
+}
+
+std::string comparisons_csv(const BacktestResult& r) {
+  std::string out = "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n";
+  for (const auto& c : r.comparisons)
+    out += fmt::format("\"{}\",\"{}\",{},{},{},{},{},{},{}\n", c.leader, c.challenger, c.horizon, c.loss,
+                       c.test.n, num(c.test.mean_difference), num(c.test.statistic), num(c.test.p_value),
+                       c.test.status == DieboldMarianoStatus::ok ? "ok"
+                       : c.test.status == DieboldMarianoStatus::variance_fallback ? "variance_fallback"
+                                                                                 : "degenerate");
+  return out;
+}
+
+std::string input_value_csv(const BacktestResult& r) {
+  std::string out = "input,score_with,score_without,difference,statistic,p_value\n";
+  for (const auto& v : r.input_value)
+    out += fmt::format("\"{}\",{},{},{},{},{}\n", v.input, num(v.score_with), num(v.score_without),
+                       num(v.score_without - v.score_with), num(v.test.statistic), num(v.test.p_value));
+  return out;
+}
+
+nlohmann::json accuracy_json(const ModelBacktest& m, const BacktestOptions& o) {
+  nlohmann::json j;
+  j["score"] = m.score;
+  j["horizon"] = o.horizon;
+  j["levels"] = o.levels;
+  j["origins"] = static_cast<int>(m.production.records.size());
+  j["by_horizon"] = nlohmann::json::array();
+  for (const auto& row : m.production_accuracy.by_horizon)
+    j["by_horizon"].push_back({{"horizon", row.horizon}, {"count", row.count}, {"mae", row.mae},
+                               {"rmse", row.rmse}, {"mase", row.mase}, {"coverage", row.coverage}});
+  return j;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,110 @@
+#pragma once
+// Rolling-origin backtest (Tashman 2000): forecasts 1..K from a sequence of origins, each from
+// the data before it, inputs treated as in production and, side by side, with their real future
+// (oracle). Refit at every origin, every m-th origin, or never (re-filter the first fit).
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/config.h"
+#include "core/series.h"
+#include "evaluation/diebold_mariano.h"
+#include "evaluation/metrics.h"
+#include "forecast/fitted_model.h"
+
+namespace lagsieve {
+
+struct BacktestOptions {
+  int first_origin = 0;                 // row of the first origin (forecasts start there)
+  int step = 1;
+  int horizon = 1;                      // K
+  WindowKind window = WindowKind::expanding;
+  int window_length = 0;                // sliding: rows in the window (0 = first_origin)
+  int refit = 1;                        // every m-th origin; 0 = never (re-filter the first fit)
+  std::vector<double> levels{0.8, 0.95};
+  AccuracyMeasure score = AccuracyMeasure::mase;  // overall score: mean over horizons 1..K
+  int season = 1;                       // period of the MASE scale and of the naive benchmark
+  int start = -1;                       // first differenced index of every fit (-1: the spec's)
+  int threads = 0;                      // 0: all cores
+};
+
+// Validated options from the config (InputError naming the backtest key otherwise).
+BacktestOptions backtest_options(const RunConfig& config, int rows);
+
+// One model to backtest: a spec fitted at the origins, a fixed model (model files), or the
+// seasonal naive benchmark.
+struct BacktestCandidate {
+  enum class Kind { model, seasonal_naive };
+  std::string name;
+  Kind kind = Kind::model;
+  bool benchmark = false;
+  ModelSpec spec;
+  std::vector<InputUse> inputs;         // production treatment of each spec input
+  std::vector<InputModelConfig> input_orders;  // own-model orders of inputs forecast (per input)
+  std::optional<FittedModel> fixed;     // a deployed model: its parameters are the first fit
+};
+
+struct ModelBacktest {
+  std::string name;
+  bool benchmark = false;
+  ForecastRecords production;           // inputs as in production
+  ForecastRecords oracle;               // inputs' real future
+  AccuracyTable production_accuracy;
+  AccuracyTable oracle_accuracy;
+  double score = 0.0;                   // production, mean over horizons of the chosen measure
+  int failed_origins = 0;               // origins where the fit or forecast failed
+  std::string note;
+};
+
+struct ComparisonRow {
+  std::string leader, challenger;
+  int horizon = 0;
+  std::string loss = "squared";
+  DieboldMarianoResult test;
+};
+
+struct InputValueRow {
+  std::string input;
+  double score_with = 0.0;
+  double score_without = 0.0;
+  DieboldMarianoResult test;            // per-origin mean scaled absolute error, leader vs without
+};
+
+struct BacktestResult {
+  std::vector<int> origins;
+  std::vector<std::string> origin_times;
+  std::vector<ModelBacktest> models;    // candidate order
+  int leader = -1;                      // best score among non-benchmark models
+  std::vector<ComparisonRow> comparisons;
+  std::vector<InputValueRow> input_value;
+  std::vector<double> levels;
+};
+
+// Backtests every candidate (parallel over candidates; origins in order so refits warm-start
+// from the previous origin's parameters). Results do not depend on the thread count.
+BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& candidates,
+                            const BacktestOptions& options);
+
+// Diebold-Mariano tests of the leader against every other model, per horizon (squared loss).
+std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result);
+
+// For the leader: the backtest with each of its inputs left out (the rest re-fitted).
+std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& leader,
+                                       const ModelBacktest& leader_result,
+                                       const BacktestOptions& options);
+
+// A candidate from a spec and the config's input settings.
+BacktestCandidate candidate_from_spec(const std::string& name, const ModelSpec& spec,
+                                      const RunConfig& config);
+BacktestCandidate candidate_from_model(const std::string& name, const FittedModel& model);
+BacktestCandidate seasonal_naive_candidate(int season);
+
+// The output files (run_folder.h): CSV text.
+std::string backtest_csv(const BacktestResult& r);
+std::string accuracy_csv(const BacktestResult& r);
+std::string comparisons_csv(const BacktestResult& r);
+std::string input_value_csv(const BacktestResult& r);
+// Accuracy of one model as JSON (stored in its model file for re-validation).
+nlohmann::json accuracy_json(const ModelBacktest& m, const BacktestOptions& options);
+
+}  // namespace lagsieve

@@ -1,0 +1,62 @@
+#include "cli/print.h"
+
+#include <fmt/format.h>
+
+#include <cmath>
+
+#include "core/error.h"
+#include "model/spec_from_config.h"
+
+namespace lagsieve::cli {
+
+const SeriesData& pick_series(const LoadedRun& run, const std::string& name) {
+  if (name.empty()) return run.series.front();
+  std::string names;
+  for (const auto& s : run.series) {
+    if (s.target_name == name) return s;
+    names += (names.empty() ? "" : ", ") + s.target_name;
+  }
+  throw InputError(fmt::format("--series {}: not a target of this config (targets: {})", name, names));
+}
+
+namespace {
+
+std::string num(double v, int digits = 4) {
+  if (!std::isfinite(v)) return "—";
+  return fmt::format("{:.{}g}", v, digits);
+}
+
+}  // namespace
+
+void print_fit(const FitResult& fit, const SeriesData& data) {
+  fmt::print("{} · {}\n", data.target_name, model_label(fit.spec));
+  fmt::print("{} rows; {} differenced observations inside the likelihood (from index {})\n",
+             data.rows(), fit.n_obs, fit.start);
+  fmt::print("status: {} — {}\n\n", to_string(fit.status), fit.message);
+  fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", "parameter", "estimate", "std. error", "ratio");
+  for (const auto& e : fit.estimates)
+    fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", e.name, num(e.value, 6), num(e.std_error, 3),
+               std::isfinite(e.std_error) && e.std_error > 0 ? fmt::format("{:.1f}", e.value / e.std_error) : "—");
+  fmt::print("  {:<28} {:>12}\n\n", "sigma^2 (innovations)", num(fit.sigma2, 6));
+  fmt::print("log-likelihood {}   k = {} (sigma^2 counted)   AIC {}   AICc {}   BIC {}\n",
+             num(fit.loglik, 8), fit.n_params, num(fit.aic, 8), num(fit.aicc, 8), num(fit.bic, 8));
+  if (!fit.diagnostics.gains.empty()) {
+    fmt::print("\nlong-run gain of each input (response to a lasting unit change):\n");
+    for (const auto& g : fit.diagnostics.gains)
+      fmt::print("  {:<20} {:>10} ± {}\n", g.input, num(g.gain, 5), num(g.std_error, 3));
+  }
+  if (!fit.diagnostics.ljung_box.empty()) {
+    fmt::print("\nresidual whiteness (Ljung-Box; small p = autocorrelation left):\n");
+    for (const auto& lb : fit.diagnostics.ljung_box)
+      fmt::print("  up to lag {:>3}: Q = {:>8}  df {:>3}  p = {}\n", lb.lag, num(lb.statistic, 5),
+                 lb.df, num(lb.p_value, 3));
+  }
+  if (!fit.diagnostics.roots.empty()) {
+    fmt::print("\nsmallest root modulus (must exceed 1; near 1 = near a unit root):\n");
+    for (const auto& r : fit.diagnostics.roots)
+      fmt::print("  {:<20} {}\n", r.polynomial, num(r.min_modulus, 4));
+  }
+  for (const auto& w : fit.diagnostics.warnings) fmt::print("\nwarning: {}\n", w);
+}
+
+}  // namespace lagsieve::cli

@@ -1,0 +1,32 @@
+#pragma once
+// The search run behind `lagsieve search` (also the challenger search of `revalidate`).
+#include <filesystem>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "cli/common.h"
+#include "forecast/fitted_model.h"
+#include "search/search.h"
+
+namespace lagsieve::cli {
+
+struct SearchArgs {
+  std::string config;
+  std::string out;
+  bool resume = false;
+  bool quiet = false;
+  std::optional<int> threads;
+  bool no_backtest = false;
+};
+
+// Progress line on stderr, only when stderr is a terminal and not --quiet.
+std::function<void(int, int)> progress_printer(bool quiet, const std::string& what);
+
+// forecast.json: the leader's forecast from the end of the data plus the recent history.
+void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+                           const SeriesData& data, const RunConfig& config);
+
+int run_search_command(const SearchArgs& args);
+
+}  // namespace lagsieve::cli

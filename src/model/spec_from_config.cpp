@@ -1,0 +1,62 @@
+#include "model/spec_from_config.h"
+
+#include <fmt/format.h>
+
+#include "core/error.h"
+
+namespace lagsieve {
+
+namespace {
+
+int single(const IntRange& range, const std::string& key) {
+  if (range.min != range.max)
+    throw InputError(fmt::format(
+        "{} is a range [{}, {}]; `fit` estimates one model, so give a single number (or run "
+        "`lagsieve search` to compare the range)",
+        key, range.min, range.max));
+  return range.min;
+}
+
+}  // namespace
+
+ModelSpec single_spec(const RunConfig& config) {
+  ModelSpec spec;
+  for (size_t i = 0; i < config.inputs.size(); ++i) {
+    const auto& in = config.inputs[i];
+    const std::string key = fmt::format("{}: inputs[{}]", config.config_file.filename().string(), i);
+    spec.inputs.push_back({in.name,
+                           {single(in.delay, key + ".delay"), single(in.numerator, key + ".numerator"),
+                            single(in.denominator, key + ".denominator")}});
+  }
+  const std::string noise = config.config_file.filename().string() + ": noise";
+  spec.noise.p = single(config.noise.ar, noise + ".ar");
+  spec.noise.q = single(config.noise.ma, noise + ".ma");
+  spec.noise.seasonal_p = single(config.noise.seasonal_ar, noise + ".seasonal_ar");
+  spec.noise.seasonal_q = single(config.noise.seasonal_ma, noise + ".seasonal_ma");
+  spec.noise.period = config.noise.period;
+  spec.constant = config.noise.constant != ConstantMode::no;
+  spec.differencing = config.differencing;
+  spec.transform = config.target.transform;
+  return spec;
+}
+
+std::string model_label(const ModelSpec& spec) {
+  std::string label;
+  for (const auto& term : spec.inputs) {
+    if (!label.empty()) label += " + ";
+    const auto& o = term.order;
+    label += fmt::format("{}[b{}", term.name, o.delay);
+    if (o.numerator > 0) label += fmt::format(" s{}", o.numerator);
+    if (o.denominator > 0) label += fmt::format(" r{}", o.denominator);
+    label += "]";
+  }
+  if (label.empty()) label = "no inputs";
+  const auto& n = spec.noise;
+  label += fmt::format(" ~ ({},{})", n.p, n.q);
+  if (n.seasonal_p + n.seasonal_q > 0)
+    label += fmt::format("({},{}){}", n.seasonal_p, n.seasonal_q, n.period);
+  if (spec.constant) label += " +c";
+  return label;
+}
+
+}  // namespace lagsieve

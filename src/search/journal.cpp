@@ -1,0 +1,95 @@
+#include "search/journal.h"
+
+#include <fcntl.h>
+#include <unistd.h>
+
+#include <cerrno>
+#include <cstring>
+#include <fmt/format.h>
+#include <fstream>
+
+#include "core/error.h"
+
+namespace lagsieve {
+
+namespace {
+
+constexpr const char* kJournalFormat = "lagsieve-search-journal";
+
+void write_all(int fd, const std::string& text, const std::filesystem::path& path) {
+  size_t done = 0;
+  while (done < text.size()) {
+    const ssize_t n = ::write(fd, text.data() + done, text.size() - done);
+    if (n < 0) {
+      if (errno == EINTR) continue;
+      throw InputError(fmt::format("{}: cannot write the journal ({})", path.string(), std::strerror(errno)));
+    }
+    done += static_cast<size_t>(n);
+  }
+}
+
+}  // namespace
+
+Journal::Journal(std::filesystem::path path, const std::string& run_fingerprint, bool resume)
+    : path_(std::move(path)) {
+  std::filesystem::create_directories(path_.parent_path().empty() ? "." : path_.parent_path());
+  bool keep = false;
+  if (resume && std::filesystem::exists(path_)) {
+    std::ifstream in(path_);
+    std::string line;
+    bool header = true;
+    while (std::getline(in, line)) {
+      nlohmann::json j;
+      try {
+        j = nlohmann::json::parse(line);
+      } catch (const nlohmann::json::parse_error&) {
+        continue;  // a torn line from a killed run
+      }
+      if (header) {
+        header = false;
+        if (!j.is_object() || j.value("format", "") != kJournalFormat ||
+            j.value("run", "") != run_fingerprint)
+          throw InputError(fmt::format(
+              "{}: this journal belongs to another run (different config or data); remove it or "
+              "choose another --out folder to start afresh",
+              path_.string()));
+        continue;
+      }
+      if (j.contains("series") && j.contains("key"))
+        rows_[{j["series"].get<std::string>(), j["key"].get<std::string>()}] = j;
+    }
+    keep = !header;
+  }
+  fd_ = ::open(path_.c_str(), O_WRONLY | O_CREAT | O_APPEND | (keep ? 0 : O_TRUNC), 0644);
+  if (fd_ < 0)
+    throw InputError(fmt::format("{}: cannot open the journal for writing ({})", path_.string(),
+                                 std::strerror(errno)));
+  if (!keep) {
+    nlohmann::json head = {{"format", kJournalFormat}, {"version", 1}, {"run", run_fingerprint}};
+    write_all(fd_, head.dump() + "\n", path_);
+    ::fsync(fd_);
+  } else {
+    // A torn last line must not glue onto the next record.
+    write_all(fd_, "\n", path_);
+  }
+}
+
+Journal::~Journal() {
+  if (fd_ >= 0) {
+    ::fsync(fd_);
+    ::close(fd_);
+  }
+}
+
+const nlohmann::json* Journal::find(const std::string& series, const std::string& key) const {
+  const auto it = rows_.find({series, key});
+  return it == rows_.end() ? nullptr : &it->second;
+}
+
+void Journal::append(const nlohmann::json& row) {
+  const std::string line = row.dump() + "\n";
+  std::lock_guard lock(mutex_);
+  write_all(fd_, line, path_);
+}
+
+}  // namespace lagsieve

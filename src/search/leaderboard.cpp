@@ -1,0 +1,65 @@
+#include "search/leaderboard.h"
+
+#include <cmath>
+#include <fmt/format.h>
+
+#include "core/names.h"
+
+namespace lagsieve {
+
+std::string csv_field(const std::string& text) {
+  if (text.find_first_of(",\"\n\r") == std::string::npos) return text;
+  std::string out = "\"";
+  for (char c : text) {
+    if (c == '"') out += '"';
+    out += c;
+  }
+  return out + "\"";
+}
+
+namespace {
+
+std::string num(double v) { return std::isfinite(v) ? fmt::format("{:.10g}", v) : ""; }
+
+std::string input_cell(const CandidateRow& row, const std::string& name) {
+  for (const auto& t : row.spec.inputs)
+    if (t.name == name)
+      return fmt::format("b{} s{} r{}", t.order.delay, t.order.numerator, t.order.denominator);
+  return "out";
+}
+
+}  // namespace
+
+std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConfig& config) {
+  std::string out = "series,rank,model";
+  for (const auto& in : config.inputs) out += "," + csv_field(in.name);
+  out += ",p,q,seasonal_p,seasonal_q,constant,loglik,n_obs,n_params,aic,aicc,bic,ljung_box_p,"
+         "status,fit_seconds,backtest_score,backtest_rank,message\n";
+  for (const auto& r : rows) {
+    out += fmt::format("{},{},{}", csv_field(r.series), r.rank, csv_field(r.key));
+    for (const auto& in : config.inputs) out += "," + input_cell(r, in.name);
+    out += fmt::format(",{},{},{},{},{},{},{},{},{},{},{},{},{},{:.4f},{},{},{}\n", r.spec.noise.p,
+                       r.spec.noise.q, r.spec.noise.seasonal_p, r.spec.noise.seasonal_q,
+                       r.spec.constant ? "yes" : "no", num(r.loglik), r.n_obs, r.n_params,
+                       num(r.aic), num(r.aicc), num(r.bic), num(r.ljung_box_p), to_string(r.status),
+                       r.seconds, num(r.backtest_score),
+                       r.backtest_rank > 0 ? std::to_string(r.backtest_rank) : "",
+                       csv_field(r.message));
+  }
+  return out;
+}
+
+nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config) {
+  nlohmann::json j;
+  j["criterion"] = to_string(config.search.criterion);
+  j["n_params_note"] = "n_params counts every estimated parameter, sigma^2 included";
+  j["rows"] = nlohmann::json::array();
+  for (const auto& r : rows) {
+    auto row = to_json(r);
+    for (const auto& in : config.inputs) row["orders"][in.name] = input_cell(r, in.name);
+    j["rows"].push_back(row);
+  }
+  return j;
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,286 @@
+#include "search/search.h"
+
+#include <tbb/global_control.h>
+#include <tbb/info.h>
+#include <tbb/parallel_for.h>
+#include <tbb/task_arena.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <fmt/format.h>
+#include <mutex>
+#include <set>
+
+#include "core/error.h"
+#include "core/names.h"
+#include "model/likelihood.h"
+#include "model/spec_from_config.h"
+#include "search/candidates.h"
+
+namespace lagsieve {
+
+using nlohmann::json;
+
+namespace {
+
+json num(double v) { return std::isfinite(v) ? json(v) : json(nullptr); }
+double num_from(const json& j, const char* key) {
+  return j.contains(key) && j[key].is_number() ? j[key].get<double>() : std::nan("");
+}
+
+int group_of(FitStatus s) {
+  switch (s) {
+    case FitStatus::ok:
+    case FitStatus::boundary:
+    case FitStatus::no_convergence: return 0;
+    case FitStatus::rejected: return 1;
+    case FitStatus::numerical_failure: return 2;
+  }
+  return 2;
+}
+
+}  // namespace
+
+json to_json(const CandidateRow& r) {
+  json j = {{"series", r.series},       {"key", r.key},           {"rank", r.rank},
+            {"status", to_string(r.status)}, {"message", r.message},
+            {"loglik", num(r.loglik)},  {"aic", num(r.aic)},      {"aicc", num(r.aicc)},
+            {"bic", num(r.bic)},        {"n_obs", r.n_obs},       {"n_params", r.n_params},
+            {"ljung_box_p", num(r.ljung_box_p)}, {"seconds", r.seconds},
+            {"evaluations", r.evaluations}};
+  json inputs = json::object();
+  for (const auto& t : r.spec.inputs)
+    inputs[t.name] = {{"delay", t.order.delay}, {"numerator", t.order.numerator},
+                      {"denominator", t.order.denominator}};
+  j["inputs"] = inputs;
+  j["noise"] = {{"p", r.spec.noise.p}, {"q", r.spec.noise.q}, {"seasonal_p", r.spec.noise.seasonal_p},
+                {"seasonal_q", r.spec.noise.seasonal_q}, {"period", r.spec.noise.period}};
+  j["constant"] = r.spec.constant;
+  if (std::isfinite(r.backtest_score)) {
+    j["backtest_score"] = r.backtest_score;
+    j["backtest_rank"] = r.backtest_rank;
+  }
+  return j;
+}
+
+CandidateRow candidate_row_from_json(const json& j, const ModelSpec& spec) {
+  CandidateRow r;
+  r.series = j.at("series").get<std::string>();
+  r.key = j.at("key").get<std::string>();
+  r.spec = spec;
+  static const FitStatus all[] = {FitStatus::ok, FitStatus::no_convergence, FitStatus::boundary,
+                                  FitStatus::numerical_failure, FitStatus::rejected};
+  for (FitStatus s : all)
+    if (j.at("status").get<std::string>() == to_string(s)) r.status = s;
+  r.message = j.value("message", "");
+  r.loglik = num_from(j, "loglik");
+  r.aic = num_from(j, "aic");
+  r.aicc = num_from(j, "aicc");
+  r.bic = num_from(j, "bic");
+  r.n_obs = j.value("n_obs", 0);
+  r.n_params = j.value("n_params", 0);
+  r.ljung_box_p = num_from(j, "ljung_box_p");
+  r.seconds = num_from(j, "seconds");
+  r.evaluations = j.value("evaluations", 0);
+  return r;
+}
+
+void rank_rows(std::vector<CandidateRow>& rows, Criterion criterion) {
+  std::sort(rows.begin(), rows.end(), [criterion](const CandidateRow& a, const CandidateRow& b) {
+    const int ga = group_of(a.status), gb = group_of(b.status);
+    if (ga != gb) return ga < gb;
+    const double ca = a.criterion(criterion), cb = b.criterion(criterion);
+    const bool fa = std::isfinite(ca), fb = std::isfinite(cb);
+    if (fa != fb) return fa;
+    if (fa && ca != cb) return ca < cb;
+    if (a.series != b.series) return a.series < b.series;
+    return a.key < b.key;
+  });
+  for (size_t i = 0; i < rows.size(); ++i) rows[i].rank = static_cast<int>(i) + 1;
+}
+
+CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start) {
+  CandidateRow row;
+  row.series = data.target_name;
+  row.key = candidate_key(spec);
+  row.spec = spec;
+  try {
+    const auto problem = make_problem(data, spec, start);
+    FitOptions options;
+    options.standard_errors = false;
+    const FitResult fit = fit_model(problem, options);
+    row.status = fit.status;
+    row.message = fit.message;
+    row.loglik = fit.loglik;
+    row.aic = fit.aic;
+    row.aicc = fit.aicc;
+    row.bic = fit.bic;
+    row.n_obs = fit.n_obs;
+    row.n_params = fit.n_params;
+    row.seconds = fit.seconds;
+    row.evaluations = fit.evaluations;
+    if (!fit.diagnostics.ljung_box.empty()) row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
+    for (const auto& w : fit.diagnostics.warnings)
+      if (w.rfind("near_cancellation", 0) == 0 && fit.usable()) {
+        row.status = FitStatus::rejected;
+        row.message = w;
+      }
+    if (!fit.usable()) row.loglik = row.aic = row.aicc = row.bic = std::nan("");
+  } catch (const std::exception& e) {
+    // Bad data for this candidate only (e.g. an input constant over the sample): a failure row.
+    row.status = FitStatus::numerical_failure;
+    row.message = e.what();
+  }
+  return row;
+}
+
+namespace {
+
+class Evaluator {
+ public:
+  Evaluator(const SeriesData& data, int start, const SearchOptions& options, int threads)
+      : data_(data), start_(start), options_(options), arena_(threads) {}
+
+  // Fits every spec not seen before (journal rows are reused); returns their rows in input order.
+  std::vector<CandidateRow> evaluate(const std::vector<ModelSpec>& specs, int total_hint) {
+    std::vector<CandidateRow> out(specs.size());
+    std::vector<size_t> todo;
+    for (size_t i = 0; i < specs.size(); ++i) {
+      const std::string key = candidate_key(specs[i]);
+      const json* j = options_.journal ? options_.journal->find(data_.target_name, key) : nullptr;
+      if (j) {
+        out[i] = candidate_row_from_json(*j, specs[i]);
+        ++resumed_;
+        report(total_hint);
+      } else {
+        todo.push_back(i);
+      }
+    }
+    arena_.execute([&] {
+      tbb::parallel_for(tbb::blocked_range<size_t>(0, todo.size(), 1), [&](const auto& range) {
+        for (size_t k = range.begin(); k != range.end(); ++k) {
+          const size_t i = todo[k];
+          out[i] = fit_candidate(data_, specs[i], start_);
+          if (options_.journal) options_.journal->append(to_json(out[i]));
+          report(total_hint);
+        }
+      });
+    });
+    fitted_ += static_cast<int>(todo.size());
+    return out;
+  }
+
+  int fitted() const { return fitted_; }
+  int resumed() const { return resumed_; }
+
+ private:
+  void report(int total) {
+    if (!options_.progress) return;
+    std::lock_guard lock(mutex_);
+    options_.progress(++done_, total);
+  }
+
+  const SeriesData& data_;
+  int start_;
+  const SearchOptions& options_;
+  tbb::task_arena arena_;
+  std::mutex mutex_;
+  int done_ = 0;
+  int fitted_ = 0;
+  int resumed_ = 0;
+};
+
+}  // namespace
+
+SearchResult run_search(const SeriesData& data, const RunConfig& config, const SearchOptions& options) {
+  const auto t0 = std::chrono::steady_clock::now();
+  SearchResult result;
+  result.series = data.target_name;
+  result.start = common_start(config);
+  const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
+  Evaluator evaluator(data, result.start, options, threads);
+  const CandidateGrid grid = full_grid(config);
+
+  if (options.strategy != Strategy::exhaustive) result.screen = screen_series(data, config);
+
+  if (options.strategy == Strategy::stepwise) {
+    // Greedy moves from the screen's suggestion; every neighbour of the current model is fitted
+    // (in parallel), the best strictly better one becomes current, until none improves or the
+    // budget is spent. Deterministic: the choice depends on the full set of neighbours.
+    std::set<std::string> seen;
+    ModelSpec current = suggested_spec(config, *result.screen);
+    auto first = evaluator.evaluate({current}, options.budget);
+    seen.insert(first[0].key);
+    result.rows.push_back(first[0]);
+    CandidateRow best = first[0];
+    while (static_cast<int>(seen.size()) < options.budget) {
+      std::vector<ModelSpec> next;
+      for (auto& m : neighbours(current, grid)) {
+        const auto key = candidate_key(m);
+        if (seen.insert(key).second) next.push_back(std::move(m));
+        if (static_cast<int>(seen.size()) >= options.budget) break;
+      }
+      if (next.empty()) break;
+      auto rows = evaluator.evaluate(next, options.budget);
+      result.rows.insert(result.rows.end(), rows.begin(), rows.end());
+      std::vector<CandidateRow> pool = rows;
+      pool.push_back(best);
+      rank_rows(pool, options.criterion);
+      if (pool.front().key == best.key || !pool.front().rankable()) break;
+      best = pool.front();
+      current = best.spec;
+    }
+    result.grid_size = static_cast<long long>(seen.size());
+  } else {
+    const CandidateGrid g =
+        options.strategy == Strategy::guided ? guided_grid(config, *result.screen) : grid;
+    result.grid_size = grid_size(g);
+    if (result.grid_size > options.budget)
+      throw InputError(fmt::format(
+          "{}: search.budget: the {} grid has {} candidates, more than the budget of {}; raise "
+          "search.budget, narrow the ranges, or use `strategy: stepwise`",
+          config.config_file.filename().string(), to_string(options.strategy), result.grid_size,
+          options.budget));
+    result.rows = evaluator.evaluate(enumerate(g), static_cast<int>(result.grid_size));
+  }
+  result.fitted = evaluator.fitted();
+  result.resumed = evaluator.resumed();
+  rank_rows(result.rows, options.criterion);
+
+  if (!result.rows.empty() && result.rows.front().rankable()) {
+    const auto problem = make_problem(data, result.rows.front().spec, result.start);
+    result.leader = fit_model(problem);
+    result.has_leader = result.leader.usable();
+  }
+  result.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return result;
+}
+
+}  // namespace lagsieve
+
+#include <fstream>
+#include <sstream>
+
+#include "forecast/fitted_model.h"
+
+namespace lagsieve {
+
+std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesData>& series) {
+  std::ifstream in(config.config_file);
+  std::stringstream text;
+  text << in.rdbuf();
+  SeriesData pseudo;
+  pseudo.target_name = "config";
+  std::string all = text.str();
+  for (const auto& s : series) {
+    std::vector<std::string> names;
+    for (const auto& ic : config.inputs)
+      if (!ic.is_event) names.push_back(ic.name);
+    all += data_fingerprint(s, s.rows(), names);
+  }
+  for (unsigned char c : all) pseudo.target.push_back(c);
+  return data_fingerprint(pseudo, pseudo.rows(), {});
+}
+
+}  // namespace lagsieve

@@ -1,0 +1,22 @@
+#pragma once
+// The second stage of a search: the top candidates by the information criterion are backtested
+// with two benchmarks (the best model without inputs, a seasonal naive forecast); the final
+// ranking is by backtest score, and the leader is re-chosen by it.
+#include "backtest/backtest.h"
+#include "search/search.h"
+
+namespace lagsieve {
+
+struct ShortlistBacktest {
+  BacktestOptions options;
+  std::vector<BacktestCandidate> candidates;
+  BacktestResult result;
+};
+
+// Backtests the shortlist, fills backtest_score / backtest_rank of its rows, re-ranks the rows
+// (backtested rows first, by score), re-fits the new leader with standard errors, and measures
+// the value of each of the leader's inputs.
+ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& config,
+                                     SearchResult& search, int threads);
+
+}  // namespace lagsieve

@@ -1,0 +1,527 @@
+// The run report: built from a synthetic run folder with known numbers, it must be well-formed
+// and self-contained, hold every section whose files exist (and no other), and every chart must
+// carry exactly the numbers of the run files it was drawn from.
+#include "report/report.h"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <fstream>
+#include <map>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "core/error.h"
+#include "markup_check.h"
+#include "report_fixture.h"
+
+namespace lagsieve {
+namespace {
+
+using test::Element;
+using test::find_all;
+using test::fresh_dir;
+using test::json;
+using test::parse_markup;
+using test::write_text;
+namespace fs = std::filesystem;
+
+std::string read_file(const fs::path& file) {
+  std::ifstream in(file, std::ios::binary);
+  std::stringstream s;
+  s << in.rdbuf();
+  return s.str();
+}
+
+std::vector<double> numbers(const std::string& list) {
+  std::vector<double> v;
+  std::istringstream in(list);
+  std::string tok;
+  while (in >> tok) v.push_back(tok == "NaN" ? std::nan("") : std::stod(tok));
+  return v;
+}
+
+std::vector<double> from_json(const json& a) {
+  std::vector<double> v;
+  for (const auto& e : a) v.push_back(e.is_null() ? std::nan("") : e.get<double>());
+  return v;
+}
+
+void expect_same(const std::vector<double>& got, const std::vector<double>& want, const std::string& what) {
+  ASSERT_EQ(got.size(), want.size()) << what;
+  for (size_t i = 0; i < got.size(); ++i) {
+    if (std::isnan(want[i]))
+      EXPECT_TRUE(std::isnan(got[i])) << what << " [" << i << "]";
+    else
+      EXPECT_EQ(got[i], want[i]) << what << " [" << i << "]";  // shortest round-trip form: exact
+  }
+}
+
+// A standalone chart: parsed, checked well-formed and offline, and found verbatim in the page.
+test::ParseResult chart(const fs::path& dir, const std::string& file, const std::string& html) {
+  const std::string svg = read_file(dir / "charts" / file);
+  EXPECT_FALSE(svg.empty()) << file;
+  EXPECT_NE(html.find(svg), std::string::npos) << file << " is not the chart in the page";
+  EXPECT_EQ(test::external_urls(svg), 0) << file;
+  auto r = parse_markup(svg);
+  EXPECT_TRUE(r.ok) << file << ": " << r.error;
+  return r;
+}
+
+const Element* series_named(const test::ParseResult& r, const std::string& name) {
+  for (const auto& e : r.elements)
+    if (e.name == "g" && e.attrs.count("data-series") && e.attrs.at("data-series") == name &&
+        e.attrs.count("data-values"))
+      return &e;
+  return nullptr;
+}
+
+const Element* band_named(const test::ParseResult& r, const std::string& name) {
+  for (const auto& e : r.elements)
+    if (e.attrs.count("data-band") && e.attrs.at("data-band") == name && e.attrs.count("data-lower")) return &e;
+  return nullptr;
+}
+
+std::vector<std::string> headings(const test::ParseResult& r) {
+  std::vector<std::string> out;
+  for (const auto& e : find_all(r, "h2")) out.push_back(e.text);
+  return out;
+}
+
+// Cells of the table whose caption starts with `caption`, row by row.
+std::vector<std::vector<std::string>> table_cells(const std::string& html, const std::string& caption) {
+  const size_t at = html.find("<caption>" + caption);
+  if (at == std::string::npos) return {};
+  const size_t end = html.find("</table>", at);
+  const size_t start = html.rfind("<table", at);
+  const auto r = parse_markup(html.substr(start, end + 8 - start));
+  std::vector<std::vector<std::string>> rows;
+  for (const auto& e : r.elements) {
+    if (e.name == "tr") rows.emplace_back();
+    if (e.name == "td" && !rows.empty()) rows.back().push_back(e.text);
+  }
+  if (!rows.empty() && rows.front().empty()) rows.erase(rows.begin());  // header row
+  return rows;
+}
+
+class ReportFolder : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    dir = fresh_dir("full");
+    test::write_full_run(dir);
+  }
+  void TearDown() override { fs::remove_all(dir); }
+  fs::path dir;
+};
+
+TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
+  const ReportResult r = write_report(dir);
+  EXPECT_EQ(r.path, dir / "report.html");
+  const std::string html = read_file(r.path);
+  const auto doc = parse_markup(html);
+  ASSERT_TRUE(doc.ok) << doc.error;
+  EXPECT_EQ(test::external_urls(html), 0);
+  EXPECT_EQ(html.find("<script src"), std::string::npos);
+  EXPECT_EQ(html.find("<link"), std::string::npos);
+  EXPECT_EQ(html.find("<img"), std::string::npos);
+
+  const std::vector<std::string> want = {"Run summary", "Inputs: cross-correlation and impulse response",
+                                         "Leaderboard", "Forecast", "Backtest", "Leader diagnostics"};
+  EXPECT_EQ(headings(doc), want);
+  EXPECT_EQ(r.sections, want);
+  EXPECT_TRUE(r.warnings.empty());
+
+  // The config text sits in a collapsible block, escaped, and reads back verbatim.
+  const auto pre = find_all(doc, "pre");
+  ASSERT_EQ(pre.size(), 1u);
+  EXPECT_EQ(pre[0].text, test::leader_model("demand").training.config_text);
+  EXPECT_EQ(find_all(doc, "details").size(), 1u);
+  EXPECT_NE(html.find("&lt;b&gt;&amp;amp;&lt;/b&gt;"), std::string::npos);
+
+  // Warnings of the screen and the fit are shown.
+  EXPECT_NE(html.find("temp and price move together (corr 0.83)"), std::string::npos);
+  EXPECT_NE(html.find("omega of temp is large"), std::string::npos);
+
+  // One chart file per figure, every one of them embedded in the page.
+  const std::vector<std::string> files = {
+      "ccf_temp.svg", "impulse_temp.svg", "ccf_price.svg", "impulse_price.svg", "forecast_fan.svg",
+      "backtest_error_by_horizon.svg", "backtest_inputs_known_vs_forecast.svg", "coverage.svg",
+      "backtest_one_step.svg", "residual_acf.svg"};
+  ASSERT_EQ(r.charts.size(), files.size());
+  for (size_t i = 0; i < files.size(); ++i) {
+    EXPECT_EQ(r.charts[i], dir / "charts" / files[i]);
+    chart(dir, files[i], html);
+  }
+  EXPECT_EQ(find_all(doc, "svg").size(), files.size());
+}
+
+TEST_F(ReportFolder, CrossCorrelationBarsAreTheScreensNumbers) {
+  const std::string html = read_file(write_report(dir).path);
+  const json screen = test::screen_json("demand");
+  for (size_t i = 0; i < 2; ++i) {
+    const json& in = screen["inputs"][i];
+    const std::string name = in["name"];
+    const auto svg = chart(dir, "ccf_" + name + ".svg", html);
+    const auto bars = find_all(svg, "rect", "bar");
+    std::vector<double> lags, values;
+    for (const auto& b : bars) {
+      lags.push_back(std::stod(b.attrs.at("data-x")));
+      values.push_back(std::stod(b.attrs.at("data-value")));
+      EXPECT_EQ(std::stod(b.attrs.at("data-band")), 0.2);
+    }
+    std::vector<double> want_lags, want_values;  // null correlations draw no bar
+    for (size_t k = 0; k < in["lags"].size(); ++k)
+      if (!in["cross_correlation"][k].is_null()) {
+        want_lags.push_back(in["lags"][k].get<double>());
+        want_values.push_back(in["cross_correlation"][k].get<double>());
+      }
+    expect_same(lags, want_lags, name + " lags");
+    expect_same(values, want_values, name + " correlations");
+  }
+  // Beyond the band: lags 1 and 2 of temp (0.62, 0.31 > 0.2).
+  EXPECT_EQ(find_all(chart(dir, "ccf_temp.svg", html), "rect", "beyond").size(), 2u);
+}
+
+TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
+  const std::string html = read_file(write_report(dir).path);
+  const json temp = test::screen_json("demand")["inputs"][0];
+  const auto svg = chart(dir, "impulse_temp.svg", html);
+  const Element* est = series_named(svg, "screen estimate");
+  ASSERT_NE(est, nullptr);
+  expect_same(numbers(est->attrs.at("data-x")), {0, 1, 2, 3}, "lags");
+  expect_same(numbers(est->attrs.at("data-values")), from_json(temp["impulse"]), "screen estimate");
+  const Element* shape = series_named(svg, "screen shape b1 s0 r1");
+  ASSERT_NE(shape, nullptr);
+  expect_same(numbers(shape->attrs.at("data-values")), from_json(temp["impulse_fitted"]), "screen shape");
+  // Closed form of omega_0 B / (1 - 0.5 B) with omega_0 = 2: 0, 2, 1, 0.5.
+  const Element* leader = series_named(svg, "leader b1 s0 r1");
+  ASSERT_NE(leader, nullptr);
+  expect_same(numbers(leader->attrs.at("data-values")), {0.0, 2.0, 1.0, 0.5}, "leader");
+  const Element* band = band_named(svg, "screen estimate \u00b1 2 s.e.");
+  ASSERT_NE(band, nullptr);
+  std::vector<double> lo, hi;
+  for (size_t k = 0; k < 4; ++k) {
+    lo.push_back(temp["impulse"][k].get<double>() - 2.0 * temp["impulse_se"][k].get<double>());
+    hi.push_back(temp["impulse"][k].get<double>() + 2.0 * temp["impulse_se"][k].get<double>());
+  }
+  expect_same(numbers(band->attrs.at("data-lower")), lo, "band lower");
+  expect_same(numbers(band->attrs.at("data-upper")), hi, "band upper");
+  // price is not in the leader: no leader line.
+  const auto price = chart(dir, "impulse_price.svg", html);
+  for (const auto& e : find_all(price, "g", "series"))
+    EXPECT_EQ(e.attrs.at("data-series").rfind("leader", 0), std::string::npos);
+}
+
+TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
+  const std::string html = read_file(write_report(dir).path);
+  const json fj = test::forecast_json("demand");
+  const json& fc = fj["forecast"];
+  const auto svg = chart(dir, "forecast_fan.svg", html);
+  const Element* hist = series_named(svg, "History");
+  ASSERT_NE(hist, nullptr);
+  expect_same(numbers(hist->attrs.at("data-values")), from_json(fj["history"]["values"]), "history");
+  expect_same(numbers(hist->attrs.at("data-x")), {-4, -3, -2, -1, 0}, "history x");
+  const Element* point = series_named(svg, "Forecast");
+  ASSERT_NE(point, nullptr);
+  expect_same(numbers(point->attrs.at("data-values")), from_json(fc["median"]), "median");
+  expect_same(numbers(point->attrs.at("data-x")), {1, 2, 3}, "forecast x");
+  const std::map<std::string, std::pair<std::string, std::string>> bands = {
+      {"80% (inputs forecast)", {"lower", "0.8"}},
+      {"95% (inputs forecast)", {"lower", "0.95"}},
+      {"80% (inputs known)", {"lower_inputs_known", "0.8"}},
+      {"95% (inputs known)", {"lower_inputs_known", "0.95"}}};
+  for (const auto& [name, key] : bands) {
+    const Element* b = band_named(svg, name);
+    ASSERT_NE(b, nullptr) << name;
+    const std::string upper = key.first == "lower" ? "upper" : "upper_inputs_known";
+    expect_same(numbers(b->attrs.at("data-lower")), from_json(fc[key.first][key.second]), name);
+    expect_same(numbers(b->attrs.at("data-upper")), from_json(fc[upper][key.second]), name);
+  }
+  // Dates label the time axis.
+  bool dated = false;
+  for (const auto& t : find_all(svg, "text"))
+    dated = dated || t.text == "2024-04-10" || t.text == "2024-04-07" || t.text == "2024-04-05";
+  EXPECT_TRUE(dated);
+  // The table's input share: 1 - (15.5 - 8.5) / (17 - 7) = 30% at step 3.
+  const auto rows = table_cells(html, "Forecast values");
+  ASSERT_EQ(rows.size(), 3u);
+  EXPECT_EQ(rows[2].back(), "30%");
+  EXPECT_EQ(rows[0][1], "2024-04-10");
+}
+
+TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
+  const std::string html = read_file(write_report(dir).path);
+  const std::string leader = "temp b1 s0 r1 + ARMA(1,0)";
+  const auto err = chart(dir, "backtest_error_by_horizon.svg", html);
+  const Element* l = series_named(err, leader + " (leader)");
+  const Element* c = series_named(err, "temp b1 s1 r0 + ARMA(1,0)");
+  const Element* bench = series_named(err, "benchmark: no inputs");
+  ASSERT_TRUE(l && c && bench);
+  expect_same(numbers(l->attrs.at("data-x")), {1, 2}, "horizons");
+  expect_same(numbers(l->attrs.at("data-values")), {1.0, 1.5}, "leader MAE");
+  expect_same(numbers(c->attrs.at("data-values")), {1.125, 1.625}, "runner-up MAE");
+  expect_same(numbers(bench->attrs.at("data-values")), {1.75, 2.25}, "benchmark MAE");
+  // Only the benchmark is dashed: the path right after each series group.
+  for (size_t i = 0; i + 1 < err.elements.size(); ++i) {
+    const Element& g = err.elements[i];
+    if (g.name != "g" || !g.attrs.count("data-values")) continue;
+    const bool dashed = err.elements[i + 1].attrs.count("stroke-dasharray") > 0;
+    EXPECT_EQ(dashed, g.attrs.at("data-series") == "benchmark: no inputs") << g.attrs.at("data-series");
+  }
+
+  const auto oc = chart(dir, "backtest_inputs_known_vs_forecast.svg", html);
+  const Element* prod = series_named(oc, "inputs as in production");
+  const Element* oracle = series_named(oc, "inputs known (oracle)");
+  ASSERT_TRUE(prod && oracle);
+  expect_same(numbers(prod->attrs.at("data-values")), {1.0, 1.5}, "production");
+  expect_same(numbers(oracle->attrs.at("data-values")), {0.875, 1.375}, "oracle");
+
+  const auto cov = chart(dir, "coverage.svg", html);
+  std::map<std::string, std::vector<double>> got;
+  for (const auto& p : find_all(cov, "circle", "point"))
+    got[p.attrs.at("data-series")].push_back(std::stod(p.attrs.at("data-value")));
+  expect_same(got[leader + " (leader)"], {0.775, 0.925}, "leader coverage");
+  expect_same(got["temp b1 s1 r0 + ARMA(1,0)"], {0.7, 0.9}, "runner-up coverage");
+  expect_same(got["benchmark: no inputs"], {0.8, 0.95}, "benchmark coverage");
+  const auto sampling = find_all(cov, "rect", "sampling");
+  ASSERT_EQ(sampling.size(), 2u);  // n = 40 from the leader's count
+  EXPECT_NEAR(std::stod(sampling[0].attrs.at("data-upper")) - 0.8, 1.96 * std::sqrt(0.8 * 0.2 / 40), 1e-12);
+
+  // Leader, production, horizon 1, in file order: origins 80, 81, 82.
+  const auto one = chart(dir, "backtest_one_step.svg", html);
+  const Element* actual = series_named(one, "actual");
+  const Element* fcast = series_named(one, "one-step forecast");
+  ASSERT_TRUE(actual && fcast);
+  expect_same(numbers(actual->attrs.at("data-values")), {9.75, 10.5, 8.0}, "actual");
+  expect_same(numbers(fcast->attrs.at("data-values")), {9.5, 10.125, 8.5}, "forecast");
+  const Element* b80 = band_named(one, "80% interval");
+  const Element* b95 = band_named(one, "95% interval");
+  ASSERT_TRUE(b80 && b95);
+  expect_same(numbers(b80->attrs.at("data-lower")), {8, 8.625, 7.0}, "lower 80");
+  expect_same(numbers(b95->attrs.at("data-upper")), {12, 12.625, 11.0}, "upper 95");
+
+  const auto acc = table_cells(html, "Accuracy over all horizons");
+  ASSERT_EQ(acc.size(), 4u);  // horizon-0 rows only
+  EXPECT_EQ(acc[0][0], leader);
+  EXPECT_EQ(acc[0][1], "production");
+  EXPECT_EQ(acc[0][2], "40");
+  EXPECT_EQ(acc[0][3], "1.250");
+  EXPECT_EQ(acc[0][6], "77.5%");
+  const auto dm = table_cells(html, "Leader against each challenger");
+  ASSERT_EQ(dm.size(), 2u);
+  EXPECT_EQ(dm[1][1], "benchmark: no inputs");
+  EXPECT_EQ(dm[1][7], "0.001");
+  const auto iv = table_cells(html, "What each input is worth");
+  ASSERT_EQ(iv.size(), 1u);
+  EXPECT_EQ(iv[0], (std::vector<std::string>{"temp", "0.8100", "1.250", "0.4400", "3.25", "0.002"}));
+}
+
+TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
+  const std::string html = read_file(write_report(dir).path);
+  const auto doc = parse_markup(html);
+  const auto lb = table_cells(html, "Top 3 of 3 candidates");
+  ASSERT_EQ(lb.size(), 3u);
+  EXPECT_EQ(lb[0][1], "temp b1 s0 r1 + ARMA(1,0)");
+  EXPECT_EQ(lb[0][2], "301.20");
+  EXPECT_EQ(lb[1][3], "1.25");    // delta BIC
+  EXPECT_EQ(lb[1][6], "< 0.001");  // Ljung-Box p
+  EXPECT_EQ(lb[2][2], "\u2014");   // failed fit: no criterion
+  EXPECT_EQ(lb[2][10], "singular <matrix>");
+  EXPECT_EQ(find_all(doc, "table", "sortable").size(), 4u);  // leaderboard, accuracy, DM, input value
+  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 3u);    // leader: leaderboard + 2 accuracy rows
+
+  const auto svg = chart(dir, "residual_acf.svg", html);
+  std::vector<double> lags, values;
+  for (const auto& b : find_all(svg, "rect", "bar")) {
+    lags.push_back(std::stod(b.attrs.at("data-x")));
+    values.push_back(std::stod(b.attrs.at("data-value")));
+  }
+  expect_same(lags, {1, 2, 3, 4, 5}, "acf lags");
+  expect_same(values, {0.05, -0.21, 0.1, 0.0, -0.03}, "acf");
+  const auto lbx = table_cells(html, "Ljung-Box test");
+  ASSERT_EQ(lbx.size(), 2u);
+  EXPECT_EQ(lbx[1], (std::vector<std::string>{"24", "23", "20.25", "0.626"}));
+  const auto est = table_cells(html, "Estimates");
+  ASSERT_EQ(est.size(), 3u);
+  EXPECT_EQ(est[0][3], "20.00");
+  EXPECT_EQ(est[2][2], "\u2014");
+  const auto roots = table_cells(html, "Polynomial roots");
+  ASSERT_EQ(roots.size(), 2u);
+  EXPECT_EQ(roots[0][2], "2.000");
+}
+
+TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
+  const fs::path dir = fresh_dir("panel");
+  for (const std::string s : {"north", "south"}) {
+    save_model(dir / ("model_" + s + ".json"), test::leader_model(s));
+    write_text(dir / ("screen_" + s + ".json"), test::screen_json(s).dump());
+    write_text(dir / ("fit_" + s + ".json"), test::fit_json(s).dump());
+    write_text(dir / ("forecast_" + s + ".json"), test::forecast_json(s).dump());
+  }
+  write_text(dir / "leaderboard.json", test::leaderboard_json({"north", "south"}).dump());
+  // One accuracy file for the whole run, with a series column: filtered per series.
+  std::string acc;
+  std::istringstream in(test::accuracy_csv());
+  std::string line;
+  std::getline(in, line);
+  acc = "series," + line + "\n";
+  while (std::getline(in, line)) acc += "north," + line + "\n";
+  write_text(dir / "accuracy.csv", acc);
+
+  const ReportResult r = write_report(dir);
+  const std::vector<std::string> want = {
+      "Run summary", "Inputs: cross-correlation and impulse response · north", "Leaderboard · north",
+      "Forecast · north", "Backtest · north", "Leader diagnostics · north",
+      "Inputs: cross-correlation and impulse response · south", "Leaderboard · south",
+      "Forecast · south", "Leader diagnostics · south"};
+  EXPECT_EQ(r.sections, want);
+  const std::string html = read_file(r.path);
+  ASSERT_TRUE(parse_markup(html).ok);
+  for (const std::string s : {"north", "south"}) {
+    EXPECT_TRUE(fs::exists(dir / "charts" / ("forecast_fan_" + s + ".svg"))) << s;
+    EXPECT_TRUE(fs::exists(dir / "charts" / ("ccf_temp_" + s + ".svg"))) << s;
+  }
+  // north has accuracy rows; south has none, so no backtest section and no chart of north's numbers.
+  const auto north = parse_markup(read_file(dir / "charts" / "backtest_error_by_horizon_north.svg"));
+  EXPECT_EQ(numbers(series_named(north, "temp b1 s0 r1 + ARMA(1,0) (leader)")->attrs.at("data-values")),
+            (std::vector<double>{1.0, 1.5}));
+  EXPECT_FALSE(fs::exists(dir / "charts" / "backtest_error_by_horizon_south.svg"));
+  fs::remove_all(dir);
+}
+
+TEST(Report, RevalidationVerdictComesFirst) {
+  const fs::path dir = fresh_dir("reval");
+  test::write_full_run(dir);
+  const json reval = {{"verdict", "refit"},
+                      {"reasons", {"accuracy degraded: MASE 0.81 -> 1.07", "parameters drifted"}},
+                      {"checked_at", "2024-05-01"},
+                      {"drift", {{{"parameter", "temp.omega0"}, {"old", 2.0}, {"new", 2.6}, {"z", 3.1}}}},
+                      {"degradation", {{"horizon", 1}, {"mase_before", 0.7}, {"mase_after", 0.95}}}};
+  write_text(dir / "revalidation.json", reval.dump(2));
+  const ReportResult r = write_report(dir);
+  ASSERT_FALSE(r.sections.empty());
+  EXPECT_EQ(r.sections.front(), "Verdict");
+  const std::string html = read_file(r.path);
+  const auto doc = parse_markup(html);
+  ASSERT_TRUE(doc.ok) << doc.error;
+  const auto notices = find_all(doc, "div", "notice");
+  ASSERT_FALSE(notices.empty());
+  EXPECT_NE(notices.front().attrs.at("class").find("tone-warning"), std::string::npos);
+  const size_t verdict = html.find("Verdict: refit");
+  ASSERT_NE(verdict, std::string::npos);
+  EXPECT_LT(verdict, html.find("<h2>Run summary</h2>"));
+  const auto reasons = table_cells(html, "Why");
+  ASSERT_EQ(reasons.size(), 2u);
+  EXPECT_EQ(reasons[0][1], "accuracy degraded: MASE 0.81 -> 1.07");
+  const auto drift = table_cells(html, "Drift");
+  ASSERT_EQ(drift.size(), 1u);
+  EXPECT_EQ(drift[0][0], "temp.omega0");
+  EXPECT_EQ(drift[0][2], "2.600");
+  EXPECT_NE(html.find("2024-05-01"), std::string::npos);
+  fs::remove_all(dir);
+}
+
+TEST(Report, OnlyTheSectionsWhoseFilesExist) {
+  const fs::path dir = fresh_dir("partial");
+  write_text(dir / "leaderboard.json", test::leaderboard_json({"demand"}).dump());
+  write_text(dir / "screen.json", test::screen_json("demand").dump());
+  json fj = test::forecast_json("demand");
+  fj["forecast"] = nullptr;
+  fj["note"] = "no forecast from the end of the data: price needs future values";
+  write_text(dir / "forecast.json", fj.dump());
+  ReportOptions options;
+  options.write_charts = false;
+  options.leaderboard_rows = 2;
+  const ReportResult r = write_report(dir, options);
+  EXPECT_EQ(r.sections, (std::vector<std::string>{"Run summary", "Inputs: cross-correlation and impulse response",
+                                                  "Leaderboard", "Forecast"}));
+  EXPECT_TRUE(r.charts.empty());
+  EXPECT_FALSE(fs::exists(dir / "charts"));
+  ASSERT_EQ(r.warnings.size(), 1u);  // a leader without its model or fit file
+  EXPECT_NE(r.warnings[0].find("model.json"), std::string::npos);
+  const std::string html = read_file(r.path);
+  ASSERT_TRUE(parse_markup(html).ok);
+  EXPECT_EQ(table_cells(html, "Top 2 of 3 candidates").size(), 2u);
+  EXPECT_NE(html.find("price needs future values"), std::string::npos);
+  EXPECT_EQ(html.find("<details>"), std::string::npos);  // no model file, no config text
+  fs::remove_all(dir);
+}
+
+void expect_input_error(const fs::path& dir, const std::vector<std::string>& parts) {
+  try {
+    write_report(dir);
+    ADD_FAILURE() << "no InputError for " << dir;
+  } catch (const InputError& e) {
+    for (const auto& p : parts) EXPECT_NE(std::string(e.what()).find(p), std::string::npos) << e.what();
+  }
+}
+
+TEST(Report, ClearErrorsForWhatIsNotARunFolder) {
+  const fs::path dir = fresh_dir("errors");
+  expect_input_error(dir / "missing", {"missing", "no such folder"});
+  write_text(dir / "notes.txt", "hello");
+  expect_input_error(dir, {"not a run folder", "leaderboard.json", "model.json"});
+  EXPECT_FALSE(fs::exists(dir / "report.html"));
+  fs::remove_all(dir);
+}
+
+TEST(Report, MalformedFilesAreNamed) {
+  const fs::path dir = fresh_dir("malformed");
+  test::write_full_run(dir);
+  write_text(dir / "fit.json", "{\"label\": ");
+  expect_input_error(dir, {"fit.json", "not valid JSON"});
+
+  test::write_full_run(dir);
+  json lb = test::leaderboard_json({"demand"});
+  lb["rows"][1].erase("key");
+  write_text(dir / "leaderboard.json", lb.dump());
+  expect_input_error(dir, {"leaderboard.json", "rows[1].key", "missing"});
+
+  test::write_full_run(dir);
+  json sc = test::screen_json("demand");
+  sc["inputs"][0]["cross_correlation"][2] = "high";
+  write_text(dir / "screen.json", sc.dump());
+  expect_input_error(dir, {"screen.json", "inputs[0].cross_correlation[2]", "not a number"});
+
+  test::write_full_run(dir);
+  write_text(dir / "accuracy.csv", "model,mode,horizon,count,mae\nm,production,1,20,lots\n");
+  expect_input_error(dir, {"accuracy.csv:2", "mae", "lots"});
+
+  test::write_full_run(dir);
+  write_text(dir / "input_value.csv", "input,score_with\ntemp,1\n");
+  expect_input_error(dir, {"input_value.csv", "score_without", "missing"});
+
+  test::write_full_run(dir);
+  write_text(dir / "revalidation.json", "{\"reasons\": []}");
+  expect_input_error(dir, {"revalidation.json", "verdict"});
+  fs::remove_all(dir);
+}
+
+TEST(Report, RejectsBadOptions) {
+  ReportOptions o;
+  o.leaderboard_rows = 0;
+  EXPECT_THROW(o.validate(), InputError);
+}
+
+// `lagsieve report DIR` from the command line: exit 0 and the file; exit 2 and the message.
+TEST(Report, CommandLine) {
+  const fs::path binary = LAGSIEVE_BINARY;
+  if (!fs::exists(binary)) GTEST_SKIP() << "the lagsieve binary is not built: " << binary;
+  const fs::path dir = fresh_dir("cli");
+  test::write_full_run(dir);
+  const std::string out = (dir / "out.txt").string();
+  int rc = std::system((binary.string() + " report " + dir.string() + " > " + out + " 2>&1").c_str());
+  EXPECT_EQ(WEXITSTATUS(rc), 0) << read_file(out);
+  EXPECT_TRUE(fs::exists(dir / "report.html"));
+  EXPECT_NE(read_file(out).find("report.html"), std::string::npos);
+  const fs::path empty = dir / "empty";
+  fs::create_directories(empty);
+  rc = std::system((binary.string() + " report " + empty.string() + " > " + out + " 2>&1").c_str());
+  EXPECT_EQ(WEXITSTATUS(rc), 2);
+  EXPECT_NE(read_file(out).find("not a run folder"), std::string::npos) << read_file(out);
+  fs::remove_all(dir);
+}
+
+}  // namespace
+}  // namespace lagsieve

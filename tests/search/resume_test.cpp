@@ -1,0 +1,211 @@
+// Resuming the `lagsieve search` binary: a run killed part-way (SIGKILL, SIGINT) and resumed with
+// --resume ends with the same leaderboard as an uninterrupted run (fit times aside); a torn last
+// journal line is tolerated; the journal of another config is refused with exit code 2.
+#include <gtest/gtest.h>
+#include <signal.h>
+#include <sys/wait.h>
+#include <unistd.h>
+#include <fcntl.h>
+
+#include <chrono>
+#include <filesystem>
+#include <fstream>
+#include <regex>
+#include <sstream>
+#include <string>
+#include <thread>
+#include <vector>
+
+#include "search_test_util.h"
+
+namespace lagsieve {
+namespace {
+
+namespace fs = std::filesystem;
+
+std::string read_text(const fs::path& file) {
+  std::ifstream in(file);
+  std::stringstream s;
+  s << in.rdbuf();
+  return s.str();
+}
+
+int line_count(const fs::path& file) {
+  std::ifstream in(file);
+  int n = 0;
+  for (std::string line; std::getline(in, line);) ++n;
+  return n;
+}
+
+// Starts the binary with stdout and stderr sent to files; returns its pid. Everything the child
+// needs is prepared before fork(): the test process may have idle worker threads, so the child
+// must not allocate before exec.
+pid_t start(const std::vector<std::string>& args, const fs::path& out, const fs::path& err) {
+  std::string binary = LAGSIEVE_BINARY;
+  std::vector<std::string> copy = args;
+  std::vector<char*> argv{binary.data()};
+  for (auto& a : copy) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  const std::string out_path = out.string(), err_path = err.string();
+  const pid_t pid = ::fork();
+  if (pid == 0) {
+    const int fo = ::open(out_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+    const int fe = ::open(err_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+    ::dup2(fo, STDOUT_FILENO);
+    ::dup2(fe, STDERR_FILENO);
+    ::execv(argv[0], argv.data());
+    ::_exit(127);
+  }
+  return pid;
+}
+
+struct Exit {
+  bool signalled = false;
+  int code = -1;    // exit code, or the signal
+};
+
+Exit wait_for(pid_t pid) {
+  int status = 0;
+  ::waitpid(pid, &status, 0);
+  if (WIFSIGNALED(status)) return {true, WTERMSIG(status)};
+  return {false, WEXITSTATUS(status)};
+}
+
+Exit run(const std::vector<std::string>& args, const fs::path& folder) {
+  return wait_for(start(args, folder / "stdout.txt", folder / "stderr.txt"));
+}
+
+// The leaderboard without the fit_seconds column (wall-clock times differ between runs).
+std::string leaderboard_without_times(const fs::path& folder) {
+  std::ifstream in(folder / "leaderboard.csv");
+  std::string line, out;
+  int drop = -1;
+  while (std::getline(in, line)) {
+    std::vector<std::string> cells;
+    std::stringstream ls(line);
+    for (std::string cell; std::getline(ls, cell, ',');) cells.push_back(cell);
+    if (drop < 0)
+      for (size_t i = 0; i < cells.size(); ++i)
+        if (cells[i] == "fit_seconds") drop = static_cast<int>(i);
+    for (size_t i = 0; i < cells.size(); ++i)
+      if (static_cast<int>(i) != drop) out += cells[i] + ",";
+    out += "\n";
+  }
+  EXPECT_GE(drop, 0) << "no fit_seconds column in " << folder;
+  return out;
+}
+
+std::string config_text(const std::string& x1_delay) {
+  return "data:\n  file: data.csv\n  time: t\ntarget:\n  column: y\ninputs:\n"
+         "  - column: x1\n    delay: " + x1_delay + "\n    numerator: [0, 1]\n    denominator: [0, 1]\n"
+         "  - column: x2\n    delay: [0, 2]\n    numerator: [0, 1]\n    optional: true\n"
+         "  - column: x3\n    delay: [0, 1]\n    optional: true\n"
+         "noise:\n  ar: [0, 1]\n  ma: [0, 1]\n  constant: true\n"
+         "search:\n  strategy: exhaustive\n  criterion: bic\n  threads: 2\n";
+}
+
+class SearchResume : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    root_ = fs::temp_directory_path() / ("lagsieve_resume_" + std::to_string(::getpid()));
+    fs::remove_all(root_);
+    fs::create_directories(root_);
+    testing::SearchCase c;
+    c.name = "resume";
+    c.n = 300;
+    c.seed = 301;
+    c.inputs = {{"x1", {2, 0, 1}, {1.5}, {0.6}, 0.5, {0, 3}, {0, 1}, {0, 1}, false},
+                {"x2", {1, 1, 0}, {1.0, 0.8}, {}, 0.3, {0, 2}, {0, 1}, {0, 0}, true},
+                {"x3", {}, {0.0}, {}, 0.5, {0, 1}, {0, 0}, {0, 0}, true}};
+    c.noise = {1, 1, 0, 0, 1};
+    c.phi = {0.5};
+    c.theta = {0.3};
+    testing::write_series_csv(root_ / "data.csv", simulate(testing::simulation_of(c)));
+    std::ofstream(root_ / "run.yaml") << config_text("[0, 3]");
+    std::ofstream(root_ / "other.yaml") << config_text("[0, 2]");
+    // 16 x 7 x 3 x 4 candidates.
+    total_ = 16 * 7 * 3 * 4;
+    fs::create_directories(root_ / "full");
+    const Exit e = run({"search", (root_ / "run.yaml").string(), "--out", (root_ / "full").string(), "--quiet"},
+                       root_ / "full");
+    full_ok_ = !e.signalled && e.code == 0;
+  }
+  static void TearDownTestSuite() { fs::remove_all(root_); }
+
+  // Starts a run, stops it with `signal` once the journal holds some rows, resumes it; returns
+  // the resumed run's folder. `tear` appends half a record to the journal before resuming.
+  static fs::path interrupt_and_resume(const std::string& name, int signal, bool tear) {
+    const fs::path dir = root_ / name;
+    fs::create_directories(dir);
+    const std::vector<std::string> args = {"search", (root_ / "run.yaml").string(), "--out", dir.string(), "--quiet"};
+    const pid_t pid = start(args, dir / "stdout1.txt", dir / "stderr1.txt");
+    const fs::path journal = dir / "journal.jsonl";
+    const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
+    while (line_count(journal) < 1 + total_ / 6 && std::chrono::steady_clock::now() < deadline)
+      std::this_thread::sleep_for(std::chrono::milliseconds(5));
+    ::kill(pid, signal);
+    const Exit stopped = wait_for(pid);
+    EXPECT_TRUE(stopped.signalled) << name << ": the run ended before it was interrupted";
+    EXPECT_EQ(stopped.code, signal);
+    const int lines = line_count(journal);
+    EXPECT_LT(lines, 1 + total_) << name << ": the journal is already complete";
+    EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
+    if (tear) std::ofstream(journal, std::ios::app) << R"({"series":"y","key":"x1[b0)";
+    std::vector<std::string> resume = args;
+    resume.push_back("--resume");
+    const Exit e = run(resume, dir);
+    EXPECT_FALSE(e.signalled);
+    EXPECT_EQ(e.code, 0) << read_text(dir / "stderr.txt");
+    // The resumed run took the interrupted run's rows from the journal.
+    std::smatch m;
+    const std::string out = read_text(dir / "stdout.txt");
+    const std::regex pattern(R"(\((\d+) fitted, (\d+) from the journal)");
+    EXPECT_TRUE(std::regex_search(out, m, pattern)) << out;
+    if (m.size() == 3) {
+      const int fitted = std::stoi(m[1]), resumed = std::stoi(m[2]);
+      std::printf("  %s: stopped with %d journal lines; resumed %d rows, fitted %d\n", name.c_str(), lines,
+                  resumed, fitted);
+      EXPECT_GE(resumed, total_ / 6);
+      EXPECT_EQ(fitted + resumed, total_);
+    }
+    return dir;
+  }
+
+  static inline fs::path root_;
+  static inline int total_ = 0;
+  static inline bool full_ok_ = false;
+};
+
+TEST_F(SearchResume, KilledRunResumesToTheSameLeaderboardDespiteATornLine) {
+  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  const std::string expected = leaderboard_without_times(root_ / "full");
+  ASSERT_EQ(std::count(expected.begin(), expected.end(), '\n'), total_ + 1);
+  const fs::path dir = interrupt_and_resume("killed", SIGKILL, true);
+  EXPECT_EQ(leaderboard_without_times(dir), expected);
+  EXPECT_EQ(read_text(dir / "model.json"), read_text(root_ / "full" / "model.json"));
+}
+
+TEST_F(SearchResume, InterruptedRunResumesToTheSameLeaderboard) {
+  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  const fs::path dir = interrupt_and_resume("interrupted", SIGINT, false);
+  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
+}
+
+TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
+  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  const fs::path dir = root_ / "other";
+  fs::create_directories(dir);
+  fs::copy_file(root_ / "full" / "journal.jsonl", dir / "journal.jsonl");
+  const std::string before = read_text(dir / "journal.jsonl");
+  const Exit e = run({"search", (root_ / "other.yaml").string(), "--out", dir.string(), "--quiet", "--resume"}, dir);
+  EXPECT_FALSE(e.signalled);
+  EXPECT_EQ(e.code, 2);
+  const std::string err = read_text(dir / "stderr.txt");
+  EXPECT_NE(err.find("journal.jsonl"), std::string::npos) << err;
+  EXPECT_NE(err.find("another run"), std::string::npos) << err;
+  EXPECT_EQ(read_text(dir / "journal.jsonl"), before) << "a refused journal must be left as it was";
+  EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
+}
+
+}  // namespace
+}  // namespace lagsieve
