@@ -8,6 +8,8 @@
 // their single-thread fit times, for benchmarks/compare_search.py to refit with statsmodels) and
 // search_benchmark.json (every number printed).
 #include <fmt/format.h>
+#include <sys/resource.h>
+#include <time.h>
 
 #include <chrono>
 #include <cstdio>
@@ -103,12 +105,29 @@ void write_grid(const fs::path& dir) {
   std::ofstream(dir / "grid.yaml") << kGridConfig;
 }
 
+// CPU seconds of the whole process (every thread): steadier than wall time on a shared machine.
+double cpu_seconds() {
+  rusage u{};
+  ::getrusage(RUSAGE_SELF, &u);
+  return static_cast<double>(u.ru_utime.tv_sec + u.ru_stime.tv_sec) +
+         1e-6 * static_cast<double>(u.ru_utime.tv_usec + u.ru_stime.tv_usec);
+}
+
+// CPU seconds of the calling thread alone (idle pool workers do not count).
+double thread_cpu_seconds() {
+  timespec ts{};
+  ::clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
+  return static_cast<double>(ts.tv_sec) + 1e-9 * static_cast<double>(ts.tv_nsec);
+}
+
 struct Timing {
   int candidates = 0;
   int failed = 0;
-  double seconds = 0.0;
+  double seconds = 0.0;      // wall
+  double cpu = 0.0;          // CPU, all threads
   std::string leader;
   double rate() const { return seconds > 0 ? candidates / seconds : 0.0; }
+  double cpu_rate() const { return cpu > 0 ? candidates / cpu : 0.0; }
 };
 
 Timing time_search(const RunConfig& config, const std::vector<SeriesData>& series, int threads) {
@@ -118,6 +137,7 @@ Timing time_search(const RunConfig& config, const std::vector<SeriesData>& serie
   options.budget = config.search.budget;
   options.threads = threads;
   Timing t;
+  const double c0 = cpu_seconds();
   const auto t0 = std::chrono::steady_clock::now();
   for (const auto& data : series) {
     const SearchResult r = run_search(data, config, options);
@@ -126,6 +146,7 @@ Timing time_search(const RunConfig& config, const std::vector<SeriesData>& serie
     if (t.leader.empty() && !r.rows.empty()) t.leader = r.rows.front().key;
   }
   t.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  t.cpu = cpu_seconds() - c0;
   return t;
 }
 
@@ -138,16 +159,20 @@ json workload(const std::string& name, const fs::path& config_file, bool skip_si
   Timing one;
   if (!skip_single) {
     one = time_search(config, series, 1);
-    fmt::print("  1 thread : {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s  ({} not usable; leader {})\n",
-               one.candidates, one.seconds, one.rate(), one.failed, one.leader);
+    fmt::print("  1 thread : {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s; {:.1f} per CPU second "
+               "({} not usable; leader {})\n",
+               one.candidates, one.seconds, one.rate(), one.cpu_rate(), one.failed, one.leader);
     j["threads1"] = {{"candidates", one.candidates}, {"seconds", one.seconds}, {"rate", one.rate()},
-                     {"failed", one.failed}, {"leader", one.leader}};
+                     {"cpu_seconds", one.cpu}, {"cpu_rate", one.cpu_rate()}, {"failed", one.failed},
+                     {"leader", one.leader}};
   }
   const Timing two = time_search(config, series, 2);
-  fmt::print("  2 threads: {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s = {:.1f} per core\n",
-             two.candidates, two.seconds, two.rate(), two.rate() / 2);
+  fmt::print("  2 threads: {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s = {:.1f} per core; "
+             "{:.1f} per CPU second\n",
+             two.candidates, two.seconds, two.rate(), two.rate() / 2, two.cpu_rate());
   j["threads2"] = {{"candidates", two.candidates}, {"seconds", two.seconds}, {"rate", two.rate()},
-                   {"failed", two.failed}, {"leader", two.leader}};
+                   {"cpu_seconds", two.cpu}, {"cpu_rate", two.cpu_rate()}, {"failed", two.failed},
+                   {"leader", two.leader}};
   if (!skip_single) {
     fmt::print("  speed-up 1 -> 2 threads: {:.2f}x\n", one.seconds / two.seconds);
     j["speedup"] = one.seconds / two.seconds;
@@ -168,9 +193,9 @@ json sample_fits(const fs::path& config_file, int k) {
   const size_t stride = specs.size() / static_cast<size_t>(k);
   for (int i = 0; i < k; ++i) {
     const ModelSpec& spec = specs[static_cast<size_t>(i) * stride + stride / 2];
-    const auto t0 = std::chrono::steady_clock::now();
+    const double c0 = thread_cpu_seconds();
     const CandidateRow row = fit_candidate(data, spec, start);
-    const double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    const double secs = thread_cpu_seconds() - c0;
     total += secs;
     json inputs = json::array();
     for (const auto& t : spec.inputs)
@@ -180,7 +205,7 @@ json sample_fits(const fs::path& config_file, int k) {
                                {"status", std::string(to_string(row.status))}});
   }
   j["seconds_total"] = total;
-  fmt::print("sample: {} grid candidates fitted one by one on 1 thread in {:.3f} s ({:.2f} ms each)\n", k, total,
+  fmt::print("sample: {} grid candidates fitted one by one on 1 thread in {:.3f} CPU s ({:.2f} ms each)\n", k, total,
              1e3 * total / k);
   return j;
 }

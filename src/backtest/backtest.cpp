@@ -255,7 +255,8 @@ std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
     for (const auto& r : lead.production.records) max_h = std::max(max_h, r.horizon);
     for (int h = 1; h <= max_h; ++h) {
       const auto losses = paired_losses(lead.production, other.production, h, LossKind::squared);
-      if (losses.loss_a.size() < 3) continue;
+      // The test needs more pairs than the horizon (the HAC variance uses h - 1 lags).
+      if (losses.loss_a.size() < static_cast<size_t>(h) + 3) continue;
       DieboldMarianoOptions dmo;
       dmo.horizon = h;
       rows.push_back({lead.name, other.name, h, "squared", diebold_mariano(losses.loss_a, losses.loss_b, dmo)});
@@ -314,7 +315,7 @@ std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCan
       }
     DieboldMarianoOptions dmo;
     dmo.horizon = std::max(1, std::min(options.horizon, static_cast<int>(a.size()) / 3));
-    if (a.size() >= 3) row.test = diebold_mariano(a, b, dmo);
+    if (a.size() >= static_cast<size_t>(dmo.horizon) + 3) row.test = diebold_mariano(a, b, dmo);
     rows.push_back(row);
   }
   return rows;

@@ -1,22 +1,101 @@
-// Placeholder for `lagsieve backtest`; replaced by the engineer who owns this command.
+// `lagsieve backtest CONFIG [--models FILE...] --out DIR`: rolling-origin backtest of explicit
+// model files side by side (e.g. the deployed model against challengers), or of the one model
+// the config describes, with a naive benchmark.
 #include <fmt/format.h>
 
+#include <cmath>
+#include <filesystem>
 #include <memory>
 #include <string>
+#include <vector>
 
+#include "backtest/backtest.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/print.h"
+#include "core/error.h"
+#include "core/names.h"
+#include "forecast/model_file.h"
+#include "io/atomic_file.h"
+#include "model/spec_from_config.h"
+#include "search/run_folder.h"
 
 namespace lagsieve::cli {
+namespace {
+
+struct BacktestArgs {
+  std::string config;
+  std::vector<std::string> models;
+  std::string out;
+  std::string series;
+  std::optional<int> threads;
+};
+
+int run_backtest_command(const BacktestArgs& args) {
+  const LoadedRun run = load_run(args.config);
+  const RunConfig& config = run.config;
+  if (!config.backtest.enabled)
+    throw InputError(fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "
+                                 "step, horizon, ...)",
+                                 config.config_file.string()));
+  const SeriesData& data = pick_series(run, args.series);
+  BacktestOptions options = backtest_options(config, data.rows());
+  options.threads = args.threads.value_or(config.search.threads);
+  std::vector<BacktestCandidate> candidates;
+  for (const auto& path : args.models) {
+    const FittedModel model = load_model(path);
+    auto c = candidate_from_model(std::filesystem::path(path).stem().string() + ": " + model_label(model.spec), model);
+    // With refitting, each model's structure is re-fitted at the origins like any candidate;
+    // with `refit: 0` its own parameters are used throughout (re-filtered, never re-fitted).
+    if (options.refit > 0) c.fixed.reset();
+    candidates.push_back(std::move(c));
+  }
+  if (candidates.empty()) {
+    const ModelSpec spec = single_spec(config);
+    candidates.push_back(candidate_from_spec(model_label(spec), spec, config));
+  }
+  candidates.push_back(seasonal_naive_candidate(options.season));
+  BacktestResult result = run_backtest(data, candidates, options);
+  if (result.leader >= 0)
+    result.input_value = input_value(data, candidates[result.leader], result.models[result.leader], options);
+
+  const std::filesystem::path out = args.out.empty() ? config.output.dir : std::filesystem::path(args.out);
+  std::filesystem::create_directories(out);
+  write_file_atomic(out / run_files::kBacktest, backtest_csv(result));
+  write_file_atomic(out / run_files::kAccuracy, accuracy_csv(result));
+  write_file_atomic(out / run_files::kComparisons, comparisons_csv(result));
+  write_file_atomic(out / run_files::kInputValue, input_value_csv(result));
+
+  fmt::print("{} · {} origins from row {} by {}, horizons 1..{}, {} window, refit {}\n", data.target_name,
+             result.origins.size(), options.first_origin, options.step, options.horizon,
+             to_string(options.window),
+             options.refit == 0 ? "never" : fmt::format("every {} origin(s)", options.refit));
+  fmt::print("  {:<50} {:>9} {:>9} {:>9} {:>10}  {}\n", "model", "score", "MAE", "RMSE", "oracle MAE", "failed origins");
+  for (size_t i = 0; i < result.models.size(); ++i) {
+    const auto& m = result.models[i];
+    fmt::print("{} {:<50} {:>9.4f} {:>9.4g} {:>9.4g} {:>10.4g}  {}\n",
+               static_cast<int>(i) == result.leader ? "*" : " ", m.name, m.score,
+               m.production_accuracy.overall.mae, m.production_accuracy.overall.rmse,
+               m.oracle_accuracy.overall.mae, m.failed_origins);
+  }
+  for (const auto& v : result.input_value)
+    fmt::print("input value · {}: score {:.4f} with, {:.4f} without (p = {:.3g})\n", v.input, v.score_with,
+               v.score_without, v.test.p_value);
+  fmt::print("run folder: {}\n", out.string());
+  return kExitOk;
+}
+
+}  // namespace
 
 void register_backtest(CLI::App& app) {
-  auto* cmd = app.add_subcommand("backtest", "(not implemented yet)");
-  auto path = std::make_shared<std::string>();
-  cmd->add_option("CONFIG", *path, "Run configuration (YAML)")->required();
-  cmd->callback([] {
-    fmt::print(stderr, "lagsieve: backtest: not implemented yet\n");
-    finish(kExitInternal);
-  });
+  auto* cmd = app.add_subcommand("backtest", "Rolling-origin backtest of model files (or the config's model)");
+  auto args = std::make_shared<BacktestArgs>();
+  cmd->add_option("CONFIG", args->config, "Run configuration with a backtest section (YAML)")->required();
+  cmd->add_option("--models", args->models, "Model files to compare side by side");
+  cmd->add_option("--out", args->out, "Output folder (default: output.dir of the config)");
+  cmd->add_option("--series", args->series, "Target column (default: the first)");
+  cmd->add_option("--threads", args->threads, "Worker threads (0 = all cores)");
+  cmd->callback([args] { finish(run_command([&] { return run_backtest_command(*args); })); });
 }
 
 }  // namespace lagsieve::cli

@@ -14,8 +14,8 @@ namespace lagsieve::cli {
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitBadInput = 2;        // InputError: config, CSV, model file, options
 inline constexpr int kExitInternal = 3;        // numerical failure or a bug
-inline constexpr int kExitRevalidateDrift = 10;   // reserved for `revalidate`
-inline constexpr int kExitRevalidateFailed = 11;  // reserved for `revalidate`
+inline constexpr int kExitRefitAdvised = 10;     // `revalidate`: verdict refit
+inline constexpr int kExitReplaceAdvised = 11;   // `revalidate`: verdict replace
 
 // Runs a command body and maps exceptions to exit codes: InputError -> message on stderr
 // ("lagsieve: error: ...") and 2; NumericalError and anything else -> 3.

@@ -52,14 +52,15 @@ std::string rerun_hint() {
   return "re-run the command that wrote the run folder (search, backtest or revalidate)";
 }
 
-json read_json(const fs::path& file) {
+template <class J = json>
+J read_json(const fs::path& file) {
   std::ifstream in(file, std::ios::binary);
   if (!in) throw InputError(fmt::format("{}: cannot be read; check its permissions", file.string()));
   std::stringstream buffer;
   buffer << in.rdbuf();
   try {
-    return json::parse(buffer.str());
-  } catch (const json::parse_error& e) {
+    return J::parse(buffer.str());
+  } catch (const typename J::parse_error& e) {
     throw InputError(fmt::format("{}: not valid JSON ({}); {}", file.string(), e.what(), rerun_hint()));
   }
 }
@@ -245,7 +246,7 @@ struct RunFolder {
   bool several = false;
   std::optional<Leaderboard> leaderboard;
   std::vector<SeriesFiles> series;
-  std::optional<json> revalidation;
+  std::optional<nlohmann::ordered_json> revalidation;
   std::vector<std::string> files_read;
 };
 
@@ -279,7 +280,7 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
     run.files_read.push_back(run_files::kLeaderboardJson);
   }
   if (exists(run_files::kRevalidation)) {
-    run.revalidation = read_json(dir / run_files::kRevalidation);
+    run.revalidation = read_json<nlohmann::ordered_json>(dir / run_files::kRevalidation);
     if (!run.revalidation->is_object())
       throw InputError(fmt::format("{}: not a JSON object; {}",
                                    (dir / run_files::kRevalidation).string(), rerun_hint()));
@@ -414,6 +415,10 @@ std::string fmt_num(double v) {
   return format_table_value(TableValue{v}, TableColumn{});
 }
 
+// Labels: a level as a percentage ("80%"), a number to three significant digits.
+std::string pct(double level) { return fmt::format("{:g}%", 100.0 * level); }
+std::string short_num(double v) { return std::isfinite(v) ? fmt::format("{:.3g}", v) : "\u2014"; }
+
 std::string join(const std::vector<std::string>& parts, std::string_view sep) {
   std::string out;
   for (size_t i = 0; i < parts.size(); ++i) {
@@ -428,20 +433,22 @@ TableValue cell(int v) { return TableValue{static_cast<long long>(v)}; }
 TableValue cell(std::string v) { return TableValue{std::move(v)}; }
 
 // A JSON scalar as table cell / text (generic views of revalidation.json).
-TableValue json_cell(const json& v) {
+template <class J>
+TableValue json_cell(const J& v) {
   if (v.is_null()) return TableValue{};
-  if (v.is_number_integer() || v.is_number_unsigned()) return TableValue{v.get<long long>()};
-  if (v.is_number()) return TableValue{v.get<double>()};
-  if (v.is_string()) return TableValue{v.get<std::string>()};
-  if (v.is_boolean()) return TableValue{std::string(v.get<bool>() ? "yes" : "no")};
+  if (v.is_number_integer() || v.is_number_unsigned()) return TableValue{v.template get<long long>()};
+  if (v.is_number()) return TableValue{v.template get<double>()};
+  if (v.is_string()) return TableValue{v.template get<std::string>()};
+  if (v.is_boolean()) return TableValue{std::string(v.template get<bool>() ? "yes" : "no")};
   return TableValue{v.dump()};
 }
-std::string json_text(const json& v) {
-  if (v.is_string()) return v.get<std::string>();
-  if (v.is_number() && !v.is_number_integer() && !v.is_number_unsigned()) return fmt_num(v.get<double>());
-  if (v.is_boolean()) return v.get<bool>() ? "yes" : "no";
+template <class J>
+std::string json_text(const J& v) {
+  if (v.is_string()) return v.template get<std::string>();
+  if (v.is_number() && !v.is_number_integer() && !v.is_number_unsigned()) return fmt_num(v.template get<double>());
+  if (v.is_boolean()) return v.template get<bool>() ? "yes" : "no";
   if (v.is_null()) return "\u2014";
-  if (v.is_array() && std::all_of(v.begin(), v.end(), [](const json& e) { return !e.is_structured(); })) {
+  if (v.is_array() && std::all_of(v.begin(), v.end(), [](const J& e) { return !e.is_structured(); })) {
     std::vector<std::string> parts;
     for (const auto& e : v) parts.push_back(json_text(e));
     return join(parts, ", ");
@@ -457,7 +464,9 @@ std::string humanise(std::string key) {
 
 // ---- Verdict (revalidate) -------------------------------------------------------------------
 
-void add_table_of_objects(HtmlSection& section, const std::string& caption, const json& array) {
+using ordered_json = nlohmann::ordered_json;
+
+void add_table_of_objects(HtmlSection& section, const std::string& caption, const ordered_json& array) {
   std::vector<std::string> keys;
   for (const auto& e : array)
     for (const auto& [k, v] : e.items())
@@ -474,12 +483,14 @@ void add_table_of_objects(HtmlSection& section, const std::string& caption, cons
   section.blocks.push_back(std::move(t));
 }
 
-HtmlSection verdict_section(const json& doc, const std::string& file) {
+// `doc` keeps the file's key order, so generic tables show columns as the file lists them.
+HtmlSection verdict_section(const ordered_json& doc, const std::string& file) {
   const JsonFile f(file);
-  const std::string verdict = f.text(doc, "verdict", "");
+  const json plain = json::parse(doc.dump());
+  const std::string verdict = f.text(plain, "verdict", "");
   if (verdict.empty()) f.fail("verdict", "is missing");
   std::vector<std::string> reasons;
-  if (doc.contains("reasons")) reasons = f.texts(doc["reasons"], "reasons");
+  if (plain.contains("reasons")) reasons = f.texts(plain["reasons"], "reasons");
   HtmlSection s;
   s.heading = "Verdict";
   Tone tone = Tone::neutral;
@@ -507,15 +518,15 @@ HtmlSection verdict_section(const json& doc, const std::string& file) {
   }
   // The rest of the file, generically: scalars as key/values, arrays of objects as tables.
   HtmlKeyValues kv;
-  std::vector<std::pair<std::string, const json*>> tables;
+  std::vector<std::pair<std::string, const ordered_json*>> tables;
   for (const auto& [k, v] : doc.items()) {
     if (k == "verdict" || k == "reasons") continue;
-    if (v.is_array() && !v.empty() && std::all_of(v.begin(), v.end(), [](const json& e) { return e.is_object(); })) {
+    if (v.is_array() && !v.empty() && std::all_of(v.begin(), v.end(), [](const ordered_json& e) { return e.is_object(); })) {
       tables.emplace_back(k, &v);
     } else if (v.is_object()) {
       for (const auto& [k2, v2] : v.items()) {
         if (v2.is_array() && !v2.empty() &&
-            std::all_of(v2.begin(), v2.end(), [](const json& e) { return e.is_object(); }))
+            std::all_of(v2.begin(), v2.end(), [](const ordered_json& e) { return e.is_object(); }))
           tables.emplace_back(k + " · " + k2, &v2);
         else
           kv.items.emplace_back(humanise(k) + " · " + humanise(k2), json_text(v2));
@@ -664,15 +675,15 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
         ? fmt::format("{}: bars beyond the band from lag {} on mark the delay", name, b0)
         : fmt::format("{}: no lag clears the family band, so the screen would leave it out", name);
     ccf.frame.subtitle =
-        event ? fmt::format("event input (not prewhitened), n = {}", fmt_num(n))
+        event ? fmt::format("event input (not prewhitened), n = {}", short_num(n))
               : fmt::format("prewhitened by AR({}), n = {}; family band \u00b1{}", ar_order,
-                            fmt_num(n), fmt_num(family));
+                            short_num(n), short_num(family));
     ccf.frame.x_title = "Lag k (steps; input leads the target for k > 0)";
     ccf.frame.y_title = "Cross-correlation";
     ccf.x = lags;
     ccf.values = r;
     if (std::isfinite(band)) ccf.band = {band};
-    ccf.band_label = fmt::format("\u00b1{} per-lag band", fmt_num(band));
+    ccf.band_label = fmt::format("\u00b1{} per-lag band", short_num(band));
     HtmlFigure left = b.figure(bar_chart_svg(ccf), b.stem("ccf_" + name, sf),
                                fmt::format("Prewhitened cross-correlation of {} with {}.", name, sf.name));
 
@@ -894,8 +905,8 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
   fan.frame.title = input_share
       ? "The dashed outline is the band with future inputs known; the extra width of the filled "
         "band comes from forecasting the inputs"
-      : fmt::format("{}: point forecast with {}% and {}% bands", sf.name, fmt_num(100 * inner_level),
-                    fmt_num(100 * outer_level));
+      : fmt::format("{}: point forecast with {} and {} bands", sf.name, pct(inner_level),
+                    pct(outer_level));
   fan.frame.subtitle = fmt::format("{}{}{} steps ahead from {}", sf.name, label.empty() ? "" : " · " + label,
                                    label.empty() ? ", " : ", ", median.size(),
                                    history_time.empty() || history_time.back().empty() ? "the end of the data"
@@ -920,8 +931,8 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
 
   HtmlTable t;
   t.caption = "Forecast values";
-  const std::string in_pct = fmt_num(100 * inner_level) + "%";
-  const std::string out_pct = fmt_num(100 * outer_level) + "%";
+  const std::string in_pct = pct(inner_level);
+  const std::string out_pct = pct(outer_level);
   t.columns = {{"Step", "", NumberFormat::automatic, 0},
                {"Time", "", NumberFormat::automatic, 3},
                {"Median", "", NumberFormat::automatic, 3},
@@ -1094,7 +1105,11 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
 
     // Coverage over all horizons (horizon 0), production mode.
     const auto cov_cols = a.level_columns("coverage_");
-    if (!cov_cols.empty()) {
+    bool any_coverage = false;
+    for (const auto& m : shown)
+      for (const auto& [level, col] : cov_cols)
+        any_coverage = any_coverage || std::isfinite(value_at(m, "production", 0, col));
+    if (any_coverage) {
       CoverageChart cc;
       for (const auto& [level, col] : cov_cols) cc.nominal.push_back(level);
       for (const auto& m : shown) {
@@ -1178,7 +1193,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         size_t u = 0;
         while (u < uppers.size() && uppers[u].first != lowers[l].first) ++u;
         if (u == uppers.size()) continue;
-        lc.bands.push_back(Band{fmt::format("{}% interval", fmt_num(100 * lowers[l].first)), x, lo[l], hi[u],
+        lc.bands.push_back(Band{pct(lowers[l].first) + " interval", x, lo[l], hi[u],
                                 0, l + 1 == lowers.size() ? 0.16 : 0.32, BandStyle::filled});
       }
       lc.series.push_back(LineSeries{"actual", x, actual, -1, true, LineStyle::solid, true});
@@ -1290,7 +1305,7 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
     if (bc.x.size() != bc.values.size()) f.fail("diagnostics.residual_acf.lags", "does not match values in length");
     const double band = f.number(acf, "band", "diagnostics.residual_acf.");
     if (std::isfinite(band)) bc.band = {band};
-    bc.band_label = fmt::format("\u00b1{} (2/\u221an)", fmt_num(band));
+    bc.band_label = fmt::format("\u00b1{} (2/\u221an)", short_num(band));
     int beyond = 0;
     for (double v : bc.values) beyond += std::isfinite(band) && std::fabs(v) > band ? 1 : 0;
     bc.frame.title = "Residual autocorrelation: bars beyond the band point to structure the noise model missed";

@@ -106,7 +106,7 @@ std::string csv_with_constant_price() {
 
 struct Case {
   std::string name;
-  std::string command;   // "validate" today; "fit" etc. once they exist
+  std::string command;   // the subcommand run on cfg.yaml
   std::string yaml;      // written as cfg.yaml
   std::string csv;       // written as data.csv unless `no_csv`
   std::string expected;  // fragment of stderr
@@ -176,6 +176,12 @@ std::vector<Case> cases() {
       {"empty_data_file", "validate", y, "", "data.csv: the file is empty"},
       {"first_origin_beyond_data", "validate", y + "backtest: {first_origin: 60}\n", c,
        "backtest.first_origin: 60 is not inside the 60 rows of series 'heat'"},
+      // The same checks guard the commands that do work.
+      {"fit_missing_data_file", "fit", y, "", "data file '", true},
+      {"fit_ragged_row", "fit", y, replace(c, "2024-01-03,", "2024-01-03,1,"),
+       "data.csv:4: row has 5 cells but the header has 4 columns"},
+      {"fit_unknown_key", "fit", replace(y, "delay:", "dealy:"), c,
+       "cfg.yaml:5: inputs[0].dealy: unknown key; did you mean `delay`?"},
   };
 }
 

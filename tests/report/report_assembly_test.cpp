@@ -393,12 +393,14 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
 TEST(Report, RevalidationVerdictComesFirst) {
   const fs::path dir = fresh_dir("reval");
   test::write_full_run(dir);
-  const json reval = {{"verdict", "refit"},
-                      {"reasons", {"accuracy degraded: MASE 0.81 -> 1.07", "parameters drifted"}},
-                      {"checked_at", "2024-05-01"},
-                      {"drift", {{{"parameter", "temp.omega0"}, {"old", 2.0}, {"new", 2.6}, {"z", 3.1}}}},
-                      {"degradation", {{"horizon", 1}, {"mase_before", 0.7}, {"mase_after", 0.95}}}};
-  write_text(dir / "revalidation.json", reval.dump(2));
+  // Written as text: the table columns follow the file's key order.
+  write_text(dir / "revalidation.json", R"({
+  "verdict": "refit",
+  "reasons": ["accuracy degraded: MASE 0.81 -> 1.07", "parameters drifted"],
+  "checked_at": "2024-05-01",
+  "drift": [{"parameter": "temp.omega0", "old": 2.0, "new": 2.6, "z": 3.1}],
+  "degradation": {"horizon": 1, "mase_before": 0.7, "mase_after": 0.95}
+})");
   const ReportResult r = write_report(dir);
   ASSERT_FALSE(r.sections.empty());
   EXPECT_EQ(r.sections.front(), "Verdict");

@@ -153,15 +153,15 @@ inline json forecast_json(const std::string& series) {
 inline std::string accuracy_csv() {
   return "model,mode,horizon,count,mae,rmse,mase,coverage_80,coverage_95,interval_score_80,"
          "interval_score_95\n"
-         "temp b1 s0 r1 + ARMA(1,0),production,0,40,1.25,1.5,0.81,0.775,0.925,6.5,8.25\n"
-         "temp b1 s0 r1 + ARMA(1,0),production,1,20,1.0,1.25,0.7,0.8,0.95,6.0,8.0\n"
-         "temp b1 s0 r1 + ARMA(1,0),production,2,20,1.5,1.75,0.92,0.75,0.9,7.0,8.5\n"
-         "temp b1 s0 r1 + ARMA(1,0),oracle,0,40,1.125,1.375,0.73,0.8,0.95,6.0,8.0\n"
-         "temp b1 s0 r1 + ARMA(1,0),oracle,1,20,0.875,1.0,0.6,0.8,0.95,5.5,7.5\n"
-         "temp b1 s0 r1 + ARMA(1,0),oracle,2,20,1.375,1.5,0.86,0.8,0.95,6.5,8.5\n"
-         "temp b1 s1 r0 + ARMA(1,0),production,0,40,1.375,1.625,0.86,0.7,0.9,7.0,9.0\n"
-         "temp b1 s1 r0 + ARMA(1,0),production,1,20,1.125,1.25,0.75,0.7,0.9,6.5,8.5\n"
-         "temp b1 s1 r0 + ARMA(1,0),production,2,20,1.625,2.0,0.97,0.7,0.9,7.5,9.5\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",production,0,40,1.25,1.5,0.81,0.775,0.925,6.5,8.25\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",production,1,20,1.0,1.25,0.7,0.8,0.95,6.0,8.0\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",production,2,20,1.5,1.75,0.92,0.75,0.9,7.0,8.5\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",oracle,0,40,1.125,1.375,0.73,0.8,0.95,6.0,8.0\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",oracle,1,20,0.875,1.0,0.6,0.8,0.95,5.5,7.5\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",oracle,2,20,1.375,1.5,0.86,0.8,0.95,6.5,8.5\n"
+         "\"temp b1 s1 r0 + ARMA(1,0)\",production,0,40,1.375,1.625,0.86,0.7,0.9,7.0,9.0\n"
+         "\"temp b1 s1 r0 + ARMA(1,0)\",production,1,20,1.125,1.25,0.75,0.7,0.9,6.5,8.5\n"
+         "\"temp b1 s1 r0 + ARMA(1,0)\",production,2,20,1.625,2.0,0.97,0.7,0.9,7.5,9.5\n"
          "benchmark: no inputs,production,0,40,2.0,2.5,1.25,0.8,0.95,9.0,12.0\n"
          "benchmark: no inputs,production,1,20,1.75,2.0,1.1,0.8,0.95,8.0,11.0\n"
          "benchmark: no inputs,production,2,20,2.25,3.0,1.4,0.8,0.95,10.0,13.0\n";
@@ -171,20 +171,20 @@ inline std::string accuracy_csv() {
 inline std::string backtest_csv() {
   std::string out =
       "model,mode,origin,origin_time,horizon,time,forecast,actual,lower_80,upper_80,lower_95,upper_95\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),production,80,2024-03-20,1,2024-03-21,9.5,9.75,8,11,7,12\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),production,80,2024-03-20,2,2024-03-22,9.25,10.5,7.5,11,6.5,12\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),oracle,80,2024-03-20,1,2024-03-21,9.6,9.75,8.2,11,7.2,12\n";
-  out += "temp b1 s1 r0 + ARMA(1,0),production,80,2024-03-20,1,2024-03-21,9.0,9.75,7.5,10.5,6.5,11.5\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),production,81,2024-03-21,1,2024-03-22,10.125,10.5,8.625,11.625,7.625,12.625\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),production,81,2024-03-21,2,2024-03-23,10.0,8.0,8.5,11.5,7.5,12.5\n";
-  out += "temp b1 s0 r1 + ARMA(1,0),production,82,2024-03-22,1,2024-03-23,8.5,8.0,7.0,10.0,6.0,11.0\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",production,80,2024-03-20,1,2024-03-21,9.5,9.75,8,11,7,12\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",production,80,2024-03-20,2,2024-03-22,9.25,10.5,7.5,11,6.5,12\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",oracle,80,2024-03-20,1,2024-03-21,9.6,9.75,8.2,11,7.2,12\n";
+  out += "\"temp b1 s1 r0 + ARMA(1,0)\",production,80,2024-03-20,1,2024-03-21,9.0,9.75,7.5,10.5,6.5,11.5\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",production,81,2024-03-21,1,2024-03-22,10.125,10.5,8.625,11.625,7.625,12.625\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",production,81,2024-03-21,2,2024-03-23,10.0,8.0,8.5,11.5,7.5,12.5\n";
+  out += "\"temp b1 s0 r1 + ARMA(1,0)\",production,82,2024-03-22,1,2024-03-23,8.5,8.0,7.0,10.0,6.0,11.0\n";
   return out;
 }
 
 inline std::string comparisons_csv() {
   return "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n"
-         "temp b1 s0 r1 + ARMA(1,0),temp b1 s1 r0 + ARMA(1,0),0,squared,40,-0.125,-1.25,0.218,ok\n"
-         "temp b1 s0 r1 + ARMA(1,0),benchmark: no inputs,0,squared,40,-0.75,-3.5,0.0012,ok\n";
+         "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + ARMA(1,0)\",0,squared,40,-0.125,-1.25,0.218,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,0,squared,40,-0.75,-3.5,0.0012,ok\n";
 }
 
 inline std::string input_value_csv() {
