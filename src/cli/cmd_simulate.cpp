@@ -71,9 +71,11 @@ int run_simulate(const SimulateArgs& args) {
                in.params.delta.empty() ? "" : ", " + polynomial(in.params.delta, "delta"),
                num / den, relevant ? "" : " (irrelevant: zero gain)");
   }
-  fmt::print("noise      ar {}, ma {}, seasonal ar {}, seasonal ma {}, period {}, sigma {:g}\n",
-             spec.phi.size(), spec.theta.size(), spec.seasonal_phi.size(),
-             spec.seasonal_theta.size(), spec.noise.period, spec.sigma);
+  std::string noise = polynomial(spec.phi, "ar") + ", " + polynomial(spec.theta, "ma");
+  if (!spec.seasonal_phi.empty() || !spec.seasonal_theta.empty())
+    noise += fmt::format(", {}, {}, period {}", polynomial(spec.seasonal_phi, "seasonal ar"),
+                         polynomial(spec.seasonal_theta, "seasonal ma"), spec.noise.period);
+  fmt::print("noise      {}, sigma {:g}\n", noise, spec.sigma);
   bool events = false;
   for (const auto& in : spec.inputs) events = events || in.is_event;
   if (events)

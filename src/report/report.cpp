@@ -40,6 +40,7 @@ namespace {
 namespace fs = std::filesystem;
 using nlohmann::json;
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+constexpr int kWideChart = 960;  // charts that stand alone on a row (the page is ~1060 px wide)
 
 // The page renderer has no block for preformatted text; this paragraph marks where the
 // collapsible config block goes and is replaced after rendering.
@@ -584,7 +585,25 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
                                            "observations are compared)");
   s.blocks.push_back(std::move(kv));
 
-  // One row per series: data range and leader.
+  if (run.series.size() == 1) {
+    const SeriesFiles& sf = run.series.front();
+    HtmlKeyValues data;
+    data.items.emplace_back("Series", sf.name);
+    if (sf.model) {
+      const TrainingInfo& tr = sf.model->training;
+      data.items.emplace_back(
+          "Data", tr.first_time.empty()
+                      ? fmt::format("{} rows", tr.rows)
+                      : fmt::format("{} rows, {} to {}{}", tr.rows, tr.first_time, tr.last_time,
+                                    tr.frequency.empty() ? "" : " (" + tr.frequency + ")"));
+    }
+    if (!sf.rows.empty()) data.items.emplace_back("Candidates", std::to_string(sf.rows.size()));
+    if (!sf.rows.empty() && sf.rows.front().rank == 1) data.items.emplace_back("Leader", sf.rows.front().key);
+    else if (sf.model) data.items.emplace_back("Leader", model_label(sf.model->spec));
+    auto& items = std::get<HtmlKeyValues>(s.blocks.front()).items;
+    items.insert(items.begin() + 1, data.items.begin(), data.items.end());
+  }
+  // Several series: one row each, with data range and leader.
   HtmlTable t;
   t.caption = "Series";
   t.columns = {{"Series", "", NumberFormat::automatic, 3},     {"Rows", "", NumberFormat::automatic, 0},
@@ -612,7 +631,7 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
     row.push_back(cell(leader.empty() ? std::string("none usable") : leader));
     t.rows.push_back(std::move(row));
   }
-  if (!run.series.empty()) s.blocks.push_back(std::move(t));
+  if (run.series.size() > 1) s.blocks.push_back(std::move(t));
 
   if (first_with_model && !first_with_model->model->training.config_text.empty()) {
     config_text = first_with_model->model->training.config_text;
@@ -671,13 +690,16 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
       ar_order = static_cast<int>(f.number(in["prewhitening"], "order", path + "prewhitening."));
 
     BarChart ccf;
-    ccf.frame.title = relevant
-        ? fmt::format("{}: bars beyond the band from lag {} on mark the delay", name, b0)
-        : fmt::format("{}: no lag clears the family band, so the screen would leave it out", name);
+    if (event)
+      ccf.frame.title = relevant ? fmt::format("{} (event): bars beyond the band show when the target responds", name)
+                                 : fmt::format("{} (event): no clear response beyond the band", name);
+    else
+      ccf.frame.title = relevant ? fmt::format("{}: bars beyond the band from lag {} on mark the delay", name, b0)
+                                 : fmt::format("{}: no lag clears the family band; a candidate to drop", name);
     ccf.frame.subtitle =
-        event ? fmt::format("event input (not prewhitened), n = {}", short_num(n))
-              : fmt::format("prewhitened by AR({}), n = {}; family band \u00b1{}", ar_order,
-                            short_num(n), short_num(family));
+        event ? fmt::format("event input (not prewhitened), n = {:.0f}", n)
+              : fmt::format("prewhitened by AR({}), n = {:.0f}; family band \u00b1{}", ar_order, n,
+                            short_num(family));
     ccf.frame.x_title = "Lag k (steps; input leads the target for k > 0)";
     ccf.frame.y_title = "Cross-correlation";
     ccf.x = lags;
@@ -729,11 +751,11 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
       ir.x_max = k.back() + 0.5;
     }
     ir.frame.title = leader_text.empty()
-        ? fmt::format("{}: where the leader's response stays inside the screen's band, the data agree", name)
-        : fmt::format("{} {}: the screen's estimate for comparison", name, leader_text);
+        ? fmt::format("{}: the leader's response should stay inside the shaded band", name)
+        : fmt::format("{} {}: the screen's estimate alone", name, leader_text);
     ir.frame.subtitle = "response of the (transformed, differenced) target to a unit pulse in the input";
     ir.frame.x_title = "Lag k (steps after the pulse)";
-    ir.frame.y_title = "Impulse response v_k (target units per input unit)";
+    ir.frame.y_title = "Response v_k (per unit of input)";
     HtmlFigure right = b.figure(line_chart_svg(ir), b.stem("impulse_" + name, sf),
                                 fmt::format("Impulse response of {}.", name));
     s.blocks.push_back(HtmlFigureRow{{std::move(left), std::move(right)}});
@@ -758,10 +780,15 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
   HtmlSection s;
   const std::string crit = criterion_label(lb.criterion);
   s.heading = "Leaderboard" + b.suffix(sf);
+  const bool backtested = std::any_of(sf.rows.begin(), sf.rows.end(),
+                                      [](const LeaderboardRow& r) { return std::isfinite(r.backtest_score); });
   s.intro = fmt::format(
-      "Candidates ranked by {} (lower is better). \u0394 is the distance to the best: below about 2 "
-      "the data hardly tell two models apart. Click a column heading to sort.",
-      crit);
+      "{}\u0394 {} is the distance to the lowest {}: below about 2 the data hardly tell two models "
+      "apart. Click a column heading to sort.",
+      backtested ? fmt::format("The shortlist is ranked by its backtest score (lower is better), the "
+                               "other candidates by {} after it. ", crit)
+                 : fmt::format("Candidates ranked by {} (lower is better). ", crit),
+      crit, crit);
   double best = kNaN;
   for (const auto& r : sf.rows)
     if (std::isfinite(r.criterion) && !(best <= r.criterion)) best = r.criterion;
@@ -774,22 +801,20 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
                {crit, "", NumberFormat::fixed, 2},
                {"\u0394 " + crit, "", NumberFormat::fixed, 2},
                {"Backtest score", "", NumberFormat::automatic, 3},
-               {"Backtest rank", "", NumberFormat::automatic, 0},
                {"Ljung-Box p", "", NumberFormat::p_value, 3},
                {"Parameters", "", NumberFormat::automatic, 0},
                {"Log-likelihood", "", NumberFormat::fixed, 2},
-               {"Status", "", NumberFormat::automatic, 3},
-               {"Message", "", NumberFormat::automatic, 3}};
+               {"Status", "", NumberFormat::automatic, 3}};
   std::map<std::string, int> by_status;
   for (const auto& r : sf.rows) ++by_status[r.status];
   for (size_t i = 0; i < sf.rows.size() && static_cast<int>(i) < options.leaderboard_rows; ++i) {
     const auto& r = sf.rows[i];
     if (r.rank == 1) t.highlighted_rows.push_back(static_cast<int>(i));
+    // The fit's message only where the status needs explaining.
+    const std::string status = r.status == "ok" || r.message.empty() ? r.status : r.status + ": " + r.message;
     t.rows.push_back({cell(r.rank), cell(r.key), cell(r.criterion), cell(r.criterion - best),
-                      cell(r.backtest_score),
-                      r.backtest_rank > 0 ? cell(r.backtest_rank) : TableValue{},
-                      cell(r.ljung_box_p), cell(r.n_params), cell(r.loglik), cell(r.status),
-                      cell(r.message)});
+                      cell(r.backtest_score), cell(r.ljung_box_p), cell(r.n_params), cell(r.loglik),
+                      cell(status)});
   }
   std::vector<std::string> counts;
   for (const auto& [status, count] : by_status) counts.push_back(fmt::format("{} {}", count, status));
@@ -907,13 +932,13 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
         "band comes from forecasting the inputs"
       : fmt::format("{}: point forecast with {} and {} bands", sf.name, pct(inner_level),
                     pct(outer_level));
-  fan.frame.subtitle = fmt::format("{}{}{} steps ahead from {}", sf.name, label.empty() ? "" : " · " + label,
-                                   label.empty() ? ", " : ", ", median.size(),
-                                   history_time.empty() || history_time.back().empty() ? "the end of the data"
-                                                                                       : history_time.back());
+  fan.frame.subtitle = fmt::format(
+      "{}{} · {} steps ahead from {}", sf.name, label.empty() ? "" : " · " + label, median.size(),
+      history_time.empty() || history_time.back().empty() ? "the end of the data" : history_time.back());
   fan.frame.x_title = fan.x_ticks.empty() ? "Steps from the forecast origin" : "Time";
   fan.frame.y_title = sf.name;
-  fan.frame.height = 420;
+  fan.frame.width = kWideChart;
+  fan.frame.height = 440;
 
   std::vector<std::string> treatment;
   if (fc.contains("input_treatment") && fc["input_treatment"].is_array())
@@ -1068,6 +1093,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
           return a.number(r, col);
       return kNaN;
     };
+    std::vector<HtmlFigure> pair;
     if (!horizons.empty()) {
       HorizonChart hc;
       hc.horizons = horizons;
@@ -1080,6 +1106,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       hc.frame.subtitle = "mean absolute error with inputs as in production";
       hc.frame.x_title = "Forecast horizon (steps ahead)";
       hc.frame.y_title = fmt::format("MAE ({} units)", sf.name);
+      hc.frame.width = kWideChart;
       s.blocks.push_back(b.figure(horizon_chart_svg(hc), b.stem("backtest_error_by_horizon", sf), ""));
 
       // The leader with forecast inputs against the leader with the realised inputs.
@@ -1095,11 +1122,11 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       }
       if (any_oracle) {
         oc.series = {prod, oracle};
-        oc.frame.title = "Leader: the gap between the lines is the error that comes from forecasting the inputs";
+        oc.frame.title = "Leader: the gap is the error from forecasting the inputs";
         oc.frame.subtitle = leader;
         oc.frame.x_title = "Forecast horizon (steps ahead)";
         oc.frame.y_title = fmt::format("MAE ({} units)", sf.name);
-        s.blocks.push_back(b.figure(horizon_chart_svg(oc), b.stem("backtest_inputs_known_vs_forecast", sf), ""));
+        pair.push_back(b.figure(horizon_chart_svg(oc), b.stem("backtest_inputs_known_vs_forecast", sf), ""));
       }
     }
 
@@ -1121,13 +1148,16 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         }
         cc.series.push_back(std::move(cs));
       }
-      cc.frame.title = "Interval coverage: points below the diagonal are over-confident intervals";
+      cc.frame.title = "Coverage: points below the diagonal are over-confident";
       cc.frame.subtitle = "share of actuals inside the production intervals, all horizons";
       cc.frame.x_title = "Nominal coverage";
       cc.frame.y_title = "Empirical coverage";
       cc.frame.height = 400;
-      s.blocks.push_back(b.figure(coverage_chart_svg(cc), b.stem("coverage", sf), ""));
+      pair.push_back(b.figure(coverage_chart_svg(cc), b.stem("coverage", sf), ""));
     }
+    // The input-cost chart and the coverage chart side by side.
+    if (pair.size() == 1) s.blocks.push_back(std::move(pair.front()));
+    if (pair.size() == 2) s.blocks.push_back(HtmlFigureRow{std::move(pair)});
 
     // Overall accuracy table.
     HtmlTable t;
@@ -1203,6 +1233,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       lc.frame.subtitle = leader + " · inputs as in production";
       lc.frame.x_title = lc.x_ticks.empty() ? "Backtest origin" : "Time of the forecast";
       lc.frame.y_title = sf.name;
+      lc.frame.width = kWideChart;
       s.blocks.push_back(b.figure(line_chart_svg(lc), b.stem("backtest_one_step", sf), ""));
     }
   }

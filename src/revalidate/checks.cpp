@@ -112,9 +112,10 @@ LjungBoxCheck ljung_box_check(std::span<const double> residuals, int lag, int fi
   return out;
 }
 
-MeanShiftCheck mean_shift_check(std::span<const double> residuals) {
+MeanShiftCheck mean_shift_check(std::span<const double> residuals, int fit_count) {
   MeanShiftCheck out;
   out.n = static_cast<int>(residuals.size());
+  out.fit_count = std::max(fit_count, 0);
   out.statistic = kNaN;
   out.p_value = 1.0;
   if (out.n < 2) return out;
@@ -124,7 +125,8 @@ MeanShiftCheck mean_shift_check(std::span<const double> residuals) {
   for (double r : residuals) ss += (r - out.mean) * (r - out.mean);
   out.sd = std::sqrt(ss / (out.n - 1));
   if (!(out.sd > 0.0)) return out;
-  out.statistic = out.mean / (out.sd / std::sqrt(static_cast<double>(out.n)));
+  const double inv = 1.0 / out.n + (out.fit_count > 0 ? 1.0 / out.fit_count : 0.0);
+  out.statistic = out.mean / (out.sd * std::sqrt(inv));
   out.p_value = student_t_two_sided_p(out.statistic, out.n - 1.0);
   return out;
 }

@@ -19,7 +19,10 @@
 //
 // Residual checks on the new period's one-step innovations r_t (standardised, variance sigma^2):
 //   Ljung-Box (Ljung & Box 1978): Q = n(n+2) sum_{k<=L} rho_k^2 / (n-k), df = L - (ARMA terms);
-//   mean shift: one-sample t = mean / (sd / sqrt(n)), df n - 1, two-sided;
+//   mean shift: t = mean / (sd sqrt(1/n + 1/n_fit)), df n - 1, two-sided. The constant was
+//     estimated on the n_fit training residuals, whose mean its error carries into every new
+//     residual (for ARMA noise, new mean ~ mean(a_new) - mean(a_train)); the 1/n_fit term is
+//     that error (the logic of a predictive test). n_fit = 0 gives the one-sample t-test;
 //   variance change: F = mean(r^2) / sigma2 (the innovations have mean zero under the model, so
 //     mean(r^2) has n degrees of freedom; sigma2 has n_fit - k), F(n, n_fit - k), two-sided;
 //   interval coverage at horizon 1 (independent under the model): count inside ~ Binomial(n, level),
@@ -59,10 +62,11 @@ struct MeanShiftCheck {
   int n = 0;
   double mean = 0.0;
   double sd = 0.0;
+  int fit_count = 0;              // n_fit (0: the fitted mean taken as exact)
   double statistic = 0.0;
   double p_value = 1.0;           // two-sided
 };
-MeanShiftCheck mean_shift_check(std::span<const double> residuals);
+MeanShiftCheck mean_shift_check(std::span<const double> residuals, int fit_count = 0);
 
 struct VarianceChangeCheck {
   int n = 0;

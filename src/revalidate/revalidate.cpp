@@ -214,7 +214,7 @@ ResidualCheck residual_checks(const FittedModel& model, const SeriesData& data, 
   const int arma = arma_terms(model.spec);
   const int lag = options.ljung_box_lag > 0 ? options.ljung_box_lag : std::max(std::min(10, n / 5), arma + 1);
   out.ljung_box = ljung_box_check(r, lag, arma);
-  out.mean_shift = mean_shift_check(r);
+  out.mean_shift = mean_shift_check(r, model.spec.constant ? model.n_obs : 0);
   out.variance = variance_change_check(r, model.params.sigma2, model.n_obs - (model.n_params - 1));
   const auto& levels = deployed.production.levels;
   for (size_t l = 0; l < levels.size(); ++l) {

@@ -325,9 +325,11 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   EXPECT_EQ(lb[0][1], "temp b1 s0 r1 + ARMA(1,0)");
   EXPECT_EQ(lb[0][2], "301.20");
   EXPECT_EQ(lb[1][3], "1.25");    // delta BIC
-  EXPECT_EQ(lb[1][6], "< 0.001");  // Ljung-Box p
+  EXPECT_EQ(lb[1][5], "< 0.001");  // Ljung-Box p
+  EXPECT_EQ(lb[0][8], "ok");
+  EXPECT_EQ(lb[1][8], "boundary: delta near 1");
   EXPECT_EQ(lb[2][2], "\u2014");   // failed fit: no criterion
-  EXPECT_EQ(lb[2][10], "singular <matrix>");
+  EXPECT_EQ(lb[2][8], "numerical_failure: singular <matrix>");
   EXPECT_EQ(find_all(doc, "table", "sortable").size(), 4u);  // leaderboard, accuracy, DM, input value
   EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 3u);    // leader: leaderboard + 2 accuracy rows
 

@@ -1,5 +1,5 @@
 // The re-validation checks against R (tests/revalidate/reference/make_checks.R, R 4.2.2 base
-// stats): Box.test (Ljung-Box), t.test, pf, pbinom, and the degradation test computed in R from
+// stats): Box.test (Ljung-Box), t.test (and its form with a fitted mean's error), pf, pbinom, and the degradation test computed in R from
 // acf(type = "covariance") and pt. Every value is printed with 17 digits by the script, so the
 // tolerances follow our distribution functions (checked to ~1e-12 in tests/evaluation).
 #include <gtest/gtest.h>
@@ -32,7 +32,7 @@ TEST(RevalidateChecks, LjungBoxMatchesBoxTest) {
 
 TEST(RevalidateChecks, MeanShiftMatchesOneSampleT) {
   for (const auto& c : fixture()["mean_shift"]) {
-    const auto r = mean_shift_check(to_vector(c["x"]));
+    const auto r = mean_shift_check(to_vector(c["x"]), c["fit_count"].get<int>());
     EXPECT_NEAR(r.mean, c["mean"].get<double>(), 1e-13);
     EXPECT_NEAR(r.sd, c["sd"].get<double>(), 1e-13);
     EXPECT_NEAR(r.statistic, c["statistic"].get<double>(), 1e-11);

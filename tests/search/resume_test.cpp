@@ -75,20 +75,42 @@ Exit run(const std::vector<std::string>& args, const fs::path& folder) {
   return wait_for(start(args, folder / "stdout.txt", folder / "stderr.txt"));
 }
 
+// One CSV line split into fields (quoted fields may hold commas and doubled quotes).
+std::vector<std::string> csv_cells(const std::string& line) {
+  std::vector<std::string> cells(1);
+  bool quoted = false;
+  for (size_t i = 0; i < line.size(); ++i) {
+    const char c = line[i];
+    if (quoted && c == '"' && i + 1 < line.size() && line[i + 1] == '"') {
+      cells.back() += '"';
+      ++i;
+    } else if (c == '"') {
+      quoted = !quoted;
+    } else if (c == ',' && !quoted) {
+      cells.emplace_back();
+    } else {
+      cells.back() += c;
+    }
+  }
+  return cells;
+}
+
 // The leaderboard without the fit_seconds column (wall-clock times differ between runs).
 std::string leaderboard_without_times(const fs::path& folder) {
   std::ifstream in(folder / "leaderboard.csv");
   std::string line, out;
   int drop = -1;
+  size_t width = 0;
   while (std::getline(in, line)) {
-    std::vector<std::string> cells;
-    std::stringstream ls(line);
-    for (std::string cell; std::getline(ls, cell, ',');) cells.push_back(cell);
-    if (drop < 0)
+    const std::vector<std::string> cells = csv_cells(line);
+    if (drop < 0) {
+      width = cells.size();
       for (size_t i = 0; i < cells.size(); ++i)
         if (cells[i] == "fit_seconds") drop = static_cast<int>(i);
+    }
+    EXPECT_EQ(cells.size(), width) << line;
     for (size_t i = 0; i < cells.size(); ++i)
-      if (static_cast<int>(i) != drop) out += cells[i] + ",";
+      if (static_cast<int>(i) != drop) out += cells[i] + "|";
     out += "\n";
   }
   EXPECT_GE(drop, 0) << "no fit_seconds column in " << folder;

@@ -16,7 +16,15 @@ ljung <- function(x, lag, fitdf) {
 }
 ttest <- function(x) {
   t <- t.test(x)
-  list(x = I(x), mean = mean(x), sd = sd(x), statistic = unname(t$statistic), p_value = t$p.value)
+  list(x = I(x), fit_count = 0L, mean = mean(x), sd = sd(x), statistic = unname(t$statistic),
+       p_value = t$p.value)
+}
+# With the error of a mean fitted on m earlier values: t = mean / (sd sqrt(1/n + 1/m)), n - 1 df.
+ttest_fitted <- function(x, m) {
+  n <- length(x)
+  t <- mean(x) / (sd(x) * sqrt(1 / n + 1 / m))
+  list(x = I(x), fit_count = as.integer(m), mean = mean(x), sd = sd(x), statistic = t,
+       p_value = 2 * pt(abs(t), n - 1, lower.tail = FALSE))
 }
 variance <- function(x, sigma2, df2) {
   ratio <- mean(x^2) / sigma2
@@ -44,7 +52,7 @@ write_fixture(list(
   description = "Reference values of the re-validation checks: Ljung-Box, one-sample t, F ratio, binomial coverage, degradation test.",
   source = paste(r_version(), "stats::Box.test(type='Ljung-Box'), t.test, pf, pbinom, acf(type='covariance'), pt"),
   ljung_box = list(ljung(x1, 10, 0), ljung(x2, 12, 1)),
-  mean_shift = list(ttest(x1), ttest(x2)),
+  mean_shift = list(ttest(x1), ttest(x2), ttest_fitted(x2, 297)),
   variance = list(variance(x1, 1.0, 250), variance(x2, 1.1, 300)),
   f_cdf = list(list(x = 0.7, d1 = 5, d2 = 12, p = pf(0.7, 5, 12)),
                list(x = 1.9, d1 = 100, d2 = 297, p = pf(1.9, 100, 297)),
