@@ -18,6 +18,7 @@
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
 #include "model/spec_from_config.h"
+#include "report/report.h"
 #include "search/run_folder.h"
 
 namespace lagsieve::cli {
@@ -81,7 +82,8 @@ int run_backtest_command(const BacktestArgs& args) {
   for (const auto& v : result.input_value)
     fmt::print("input value · {}: score {:.4f} with, {:.4f} without (p = {:.3g})\n", v.input, v.score_with,
                v.score_without, v.test.p_value);
-  fmt::print("run folder: {}\n", out.string());
+  const auto report = write_report(out);
+  fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());
   return kExitOk;
 }
 

@@ -16,6 +16,7 @@
 #include "screen/screen.h"
 #include "search/leaderboard.h"
 #include "search/shortlist.h"
+#include "report/report.h"
 #include "search/run_folder.h"
 
 namespace lagsieve::cli {
@@ -134,7 +135,8 @@ int run_search_command(const SearchArgs& args) {
                  to_string(row.status));
     }
   }
-  fmt::print("run folder: {}\n", out.string());
+  const auto report = write_report(out);
+  fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());
   return kExitOk;
 }
 

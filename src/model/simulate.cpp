@@ -68,8 +68,8 @@ void check_spec(const SimulationSpec& spec) {
                                    where));
     if (in.is_event) {
       if (in.at_row < 0 || in.at_row >= spec.n)
-        throw InputError(fmt::format("{}: the event row {} is outside the simulated rows 0..{}; simulate more "
-                                     "rows or move the event earlier",
+        throw InputError(fmt::format("{}: the event row {} is outside the simulated rows "
+                                     "0..{}; simulate more rows or move the event earlier",
                                      where, in.at_row, spec.n - 1));
       continue;
     }

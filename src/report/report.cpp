@@ -588,7 +588,7 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
   if (run.series.size() == 1) {
     const SeriesFiles& sf = run.series.front();
     HtmlKeyValues data;
-    data.items.emplace_back("Series", sf.name);
+    data.items.push_back({std::string("Series"), sf.name});
     if (sf.model) {
       const TrainingInfo& tr = sf.model->training;
       data.items.emplace_back(

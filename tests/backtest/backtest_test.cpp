@@ -60,6 +60,17 @@ FittedModel true_model() {
   return m;
 }
 
+// Both inputs as plain columns whose future is known.
+RunConfig two_input_config() {
+  RunConfig config;
+  for (const auto* name : {"x1", "x2"}) {
+    InputConfig ic;
+    ic.name = name;
+    config.inputs.push_back(ic);
+  }
+  return config;
+}
+
 TEST(Backtest, RefitNeverEqualsDirectForecastsFromTheFirstFit) {
   const SeriesData data = simulate(two_input_truth(260, 3));
   BacktestOptions o;
@@ -68,12 +79,7 @@ TEST(Backtest, RefitNeverEqualsDirectForecastsFromTheFirstFit) {
   o.horizon = 5;
   o.refit = 0;
   o.threads = 1;
-  RunConfig config;
-  for (const auto* name : {"x1", "x2"}) {
-    InputConfig ic;
-    ic.name = name;
-    config.inputs.push_back(ic);
-  }
+  const RunConfig config = two_input_config();
   const auto candidate = candidate_from_spec("truth", true_spec(), config);
   const auto result = run_backtest(data, {candidate}, o);
   ASSERT_EQ(result.models.size(), 1u);
@@ -132,12 +138,7 @@ TEST(Backtest, TrueModelCoverageAndTheValueOfItsMainInput) {
   EXPECT_NEAR(acc.coverage[1], 0.95, 0.03);
 
   // Leaving out x1 (the main input) must cost accuracy, significantly.
-  RunConfig config;
-  for (const auto* name : {"x1", "x2"}) {
-    InputConfig ic;
-    ic.name = name;
-    config.inputs.push_back(ic);
-  }
+  const RunConfig config = two_input_config();
   BacktestOptions coarse = o;
   coarse.step = 5;
   coarse.refit = 40;
