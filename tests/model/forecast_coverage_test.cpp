@@ -85,8 +85,9 @@ TEST(ForecastCoverage, InputUncertaintyMakesIntervalsHonest) {
       std::printf("h=%2d level %.2f: coverage %.4f (input uncertainty left out: %.4f)\n", checked[c],
                   nominal[l], cover, cover_known);
       EXPECT_NEAR(cover, nominal[l], 0.02) << "h=" << checked[c];
-      if (checked[c] > 1)  // for h <= b the input adds nothing
+      if (checked[c] > 1) {  // for h <= b the input adds nothing
         EXPECT_LT(cover_known, nominal[l] - 0.02) << "h=" << checked[c];
+      }
     }
 }
 
