@@ -122,16 +122,23 @@ def main():
     sm_each = sm_total / k
 
     print("\n== lagsieve search throughput ==")
+    print("(wall-clock rates; 'per CPU s' = candidates per CPU second of the whole process, the steadier\n"
+          " figure on a shared machine; 'busy' = average cores the run actually got)")
     print(f"{'workload':<8} {'rows':>5} {'candidates':>10} {'1 thread/s':>11} {'2 threads/s':>12} "
-          f"{'per core':>9} {'speed-up':>9}")
+          f"{'per core':>9} {'speed-up':>9} {'per CPU s 1t':>13} {'per CPU s 2t':>13} {'busy 1t':>8} {'busy 2t':>8}")
+    nan = float("nan")
     grid = None
     for w in bench_out["workloads"]:
         one = w.get("threads1", {})
         two = w["threads2"]
-        print(f"{w['name']:<8} {w['rows']:>5} {two['candidates']:>10} {one.get('rate', float('nan')):>11.1f} "
-              f"{two['rate']:>12.1f} {two['rate'] / 2:>9.1f} {w.get('speedup', float('nan')):>8.2f}x")
+        busy1 = one["cpu_seconds"] / one["seconds"] if one else nan
+        busy2 = two["cpu_seconds"] / two["seconds"]
+        print(f"{w['name']:<8} {w['rows']:>5} {two['candidates']:>10} {one.get('rate', nan):>11.1f} "
+              f"{two['rate']:>12.1f} {two['rate'] / 2:>9.1f} {w.get('speedup', nan):>8.2f}x "
+              f"{one.get('cpu_rate', nan):>13.1f} {two['cpu_rate']:>13.1f} {busy1:>8.2f} {busy2:>8.2f}")
         if w["name"] == "grid":
             grid = w
+    print(f"load average at the end: {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores")
     print(f"\npeak resident memory of the {grid_size}-candidate grid run (binary, 2 threads): {rss:.1f} MB "
           f"(target < 300 MB); wall {wall:.1f} s")
 

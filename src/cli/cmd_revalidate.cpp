@@ -73,7 +73,7 @@ int run_revalidate(const RevalidateArgs& args) {
   const std::filesystem::path out =
       args.out.empty() ? run.config.output.dir / "revalidation" : std::filesystem::path(args.out);
   std::filesystem::create_directories(out);
-  const nlohmann::json doc = to_json(r);
+  const nlohmann::ordered_json doc = to_json(r);
   write_file_atomic(out / run_files::kRevalidation, doc.dump(2) + "\n");
   if (r.refit_model) save_model(out / kRefitModelFile, *r.refit_model);
   if (r.challenger_model) save_model(out / kChallengerModelFile, *r.challenger_model);

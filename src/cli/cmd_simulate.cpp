@@ -52,8 +52,8 @@ int run_simulate(const SimulateArgs& args) {
     fmt::print("span       {} .. {}\n", data.time.front(), data.time.back());
   fmt::print("target     {} = {:g} + inputs + noise", spec.target, spec.constant);
   if (spec.integrate.lost() > 0)
-    fmt::print(", integrated d={} D={} period={}", spec.integrate.regular,
-               spec.integrate.seasonal, spec.integrate.period);
+    fmt::print(", integrated d={} D={} period={}", spec.integrate.regular, spec.integrate.seasonal,
+               spec.integrate.period);
   fmt::print("\n");
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& in = spec.inputs[i];
@@ -79,8 +79,9 @@ int run_simulate(const SimulateArgs& args) {
   bool events = false;
   for (const auto& in : spec.inputs) events = events || in.is_event;
   if (events)
-    fmt::print("note       event columns are not written; a run config regenerates them from "
-               "`event:` entries\n");
+    fmt::print(
+        "note       event columns are not written; a run config regenerates them from "
+        "`event:` entries\n");
   return kExitOk;
 }
 

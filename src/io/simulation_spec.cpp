@@ -77,10 +77,9 @@ class Reader {
       if (std::find(allowed.begin(), allowed.end(), key) == allowed.end()) {
         const auto guess = closest_match(key, allowed);
         fail(kv.first, child(path, key),
-             guess.empty()
-                 ? fmt::format("unknown key; valid keys here: {}", join(allowed))
-                 : fmt::format("unknown key; did you mean `{}`? (valid keys here: {})", guess,
-                               join(allowed)));
+             guess.empty() ? fmt::format("unknown key; valid keys here: {}", join(allowed))
+                           : fmt::format("unknown key; did you mean `{}`? (valid keys here: {})",
+                                         guess, join(allowed)));
       }
       if (!seen.insert(key).second) fail(kv.first, child(path, key), "key given twice; keep one");
     }
@@ -135,9 +134,10 @@ class Reader {
       for (size_t i = 0; i < node.size(); ++i)
         out.push_back(get_double(node[i], fmt::format("{}[{}]", path, i)));
     } else if (!node.IsNull()) {
-      fail(node, path, fmt::format("expected a number or a list of numbers such as [0.5, -0.2], "
-                                   "got {}",
-                                   describe(node)));
+      fail(node, path,
+           fmt::format("expected a number or a list of numbers such as [0.5, -0.2], "
+                       "got {}",
+                       describe(node)));
     }
     return out;
   }
@@ -152,14 +152,14 @@ class Reader {
   std::string source_;
 };
 
-const std::vector<std::string> kTopKeys{"target",      "n",        "seed",      "start_date",
-                                        "frequency",   "time_column", "decimals", "burn_in",
-                                        "constant",    "noise",    "integrate", "inputs"};
+const std::vector<std::string> kTopKeys{"target",    "n",           "seed",      "start_date",
+                                        "frequency", "time_column", "decimals",  "burn_in",
+                                        "constant",  "noise",       "integrate", "inputs"};
 const std::vector<std::string> kNoiseKeys{"ar",          "ma",     "seasonal_ar",
                                           "seasonal_ma", "period", "sigma"};
 const std::vector<std::string> kIntegrateKeys{"regular", "seasonal", "period"};
-const std::vector<std::string> kInputKeys{"name", "event", "at", "delay", "omega", "delta",
-                                          "mean", "ar",    "sd", "cycle"};
+const std::vector<std::string> kInputKeys{"name",  "event", "at", "delay", "omega",
+                                          "delta", "mean",  "ar", "sd",    "cycle"};
 const std::vector<std::string> kCycleKeys{"amplitude", "period", "peak"};
 
 // Limits that catch typos (delay: 400 for 4) before they turn into a huge or silly simulation.
@@ -285,7 +285,8 @@ SimulatedInput read_input(const Reader& rd, const YAML::Node& node, const std::s
       if (const auto n = c["peak"]) in.cycle_peak = rd.get_double(n, child(cpath, "peak"));
     }
   }
-  if (const auto n = node["delay"]) in.order.delay = rd.get_int(n, child(path, "delay"), 0, kMaxDelay);
+  if (const auto n = node["delay"])
+    in.order.delay = rd.get_int(n, child(path, "delay"), 0, kMaxDelay);
   if (const auto n = node["omega"]) in.params.omega = rd.get_list(n, child(path, "omega"));
   if (in.params.omega.empty()) in.params.omega = {0.0};  // no omega: an irrelevant input
   if (const auto n = node["delta"]) in.params.delta = rd.get_list(n, child(path, "delta"));
@@ -308,9 +309,10 @@ SimulationFile parse_simulation_spec(std::string_view yaml_text, const std::stri
                                  source, e.mark.is_null() ? 0 : e.mark.line + 1, e.msg));
   }
   if (!root || root.IsNull())
-    throw InputError(fmt::format("{}: the simulation spec is empty; it needs at least `inputs` "
-                                 "or `noise`",
-                                 source));
+    throw InputError(
+        fmt::format("{}: the simulation spec is empty; it needs at least `inputs` "
+                    "or `noise`",
+                    source));
   rd.check_map(root, "", kTopKeys);
 
   SimulationFile file;
@@ -323,9 +325,9 @@ SimulationFile parse_simulation_spec(std::string_view yaml_text, const std::stri
   if (const auto n = root["start_date"]) {
     spec.start_date = rd.get_string(n, "start_date");
     if (!parse_date(spec.start_date))
-      rd.fail(n, "start_date",
-              fmt::format("'{}' is not a date; write YYYY-MM-DD (e.g. 2022-01-01)",
-                          spec.start_date));
+      rd.fail(
+          n, "start_date",
+          fmt::format("'{}' is not a date; write YYYY-MM-DD (e.g. 2022-01-01)", spec.start_date));
   }
   if (const auto n = root["frequency"]) {
     const auto text = rd.get_string(n, "frequency");
@@ -379,15 +381,15 @@ SimulationFile parse_simulation_spec(std::string_view yaml_text, const std::stri
 SimulationFile load_simulation_spec(const std::filesystem::path& file) {
   std::error_code ec;
   if (!std::filesystem::exists(file, ec))
-    throw InputError(fmt::format("simulation spec '{}' does not exist; check the path",
-                                 file.string()));
+    throw InputError(
+        fmt::format("simulation spec '{}' does not exist; check the path", file.string()));
   if (std::filesystem::is_directory(file, ec))
-    throw InputError(fmt::format("simulation spec '{}' is a folder; give the YAML file",
-                                 file.string()));
+    throw InputError(
+        fmt::format("simulation spec '{}' is a folder; give the YAML file", file.string()));
   std::ifstream in(file, std::ios::binary);
   if (!in)
-    throw InputError(fmt::format("cannot read simulation spec '{}'; check its permissions",
-                                 file.string()));
+    throw InputError(
+        fmt::format("cannot read simulation spec '{}'; check its permissions", file.string()));
   std::ostringstream buffer;
   buffer << in.rdbuf();
   return parse_simulation_spec(buffer.str(), file.string());

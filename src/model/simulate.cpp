@@ -36,41 +36,47 @@ void check_spec(const SimulationSpec& spec) {
   if (spec.burn_in < 0)
     throw InputError(fmt::format("simulation: burn_in must be >= 0, got {}", spec.burn_in));
   if (spec.burn_in < spec.integrate.lost())
-    throw InputError(fmt::format("simulation: burn_in {} is shorter than the {} rows the "
-                                 "integration needs; raise burn_in",
-                                 spec.burn_in, spec.integrate.lost()));
+    throw InputError(
+        fmt::format("simulation: burn_in {} is shorter than the {} rows the "
+                    "integration needs; raise burn_in",
+                    spec.burn_in, spec.integrate.lost()));
   if (!(spec.sigma >= 0.0) || !std::isfinite(spec.sigma))
     throw InputError(fmt::format("simulation: noise sigma must be >= 0, got {}", spec.sigma));
   if ((!spec.seasonal_phi.empty() || !spec.seasonal_theta.empty()) && spec.noise.period < 2)
     throw InputError("simulation: seasonal noise terms need a period of at least 2");
   if (!stationary(expand_ar(spec.phi, spec.seasonal_phi, spec.noise.period)))
-    throw InputError("simulation: the noise AR polynomial is not stationary (a root on or inside "
-                     "the unit circle); the series would not settle. Shrink the AR coefficients");
+    throw InputError(
+        "simulation: the noise AR polynomial is not stationary (a root on or inside "
+        "the unit circle); the series would not settle. Shrink the AR coefficients");
   std::set<std::string> names{spec.target};
   for (const auto& in : spec.inputs) {
     const auto where = fmt::format("simulation: input '{}'", in.name);
     if (in.name.empty()) throw InputError("simulation: an input has no name");
     if (!names.insert(in.name).second)
-      throw InputError(fmt::format("{}: the name is used twice (inputs and target need distinct "
-                                   "names)",
-                                   where));
+      throw InputError(
+          fmt::format("{}: the name is used twice (inputs and target need distinct "
+                      "names)",
+                      where));
     if (in.order.delay < 0 || in.order.numerator < 0 || in.order.denominator < 0)
       throw InputError(fmt::format("{}: negative order", where));
     if (in.params.omega.size() != static_cast<size_t>(in.order.numerator) + 1 ||
         in.params.delta.size() != static_cast<size_t>(in.order.denominator))
-      throw InputError(fmt::format("{}: {} omega and {} delta values do not match numerator {} "
-                                   "and denominator {}",
-                                   where, in.params.omega.size(), in.params.delta.size(),
-                                   in.order.numerator, in.order.denominator));
+      throw InputError(
+          fmt::format("{}: {} omega and {} delta values do not match numerator {} "
+                      "and denominator {}",
+                      where, in.params.omega.size(), in.params.delta.size(), in.order.numerator,
+                      in.order.denominator));
     if (!stationary(in.params.delta))
-      throw InputError(fmt::format("{}: the delta polynomial is not stable (a root on or inside "
-                                   "the unit circle); its response would never die out",
-                                   where));
+      throw InputError(
+          fmt::format("{}: the delta polynomial is not stable (a root on or inside "
+                      "the unit circle); its response would never die out",
+                      where));
     if (in.is_event) {
       if (in.at_row < 0 || in.at_row >= spec.n)
-        throw InputError(fmt::format("{}: the event row {} is outside the simulated rows "
-                                     "0..{}; simulate more rows or move the event earlier",
-                                     where, in.at_row, spec.n - 1));
+        throw InputError(
+            fmt::format("{}: the event row {} is outside the simulated rows "
+                        "0..{}; simulate more rows or move the event earlier",
+                        where, in.at_row, spec.n - 1));
       continue;
     }
     if (!(std::abs(in.ar) < 1.0))
@@ -78,8 +84,8 @@ void check_spec(const SimulationSpec& spec) {
     if (!(in.sd >= 0.0) || !std::isfinite(in.sd) || !std::isfinite(in.mean))
       throw InputError(fmt::format("{}: sd must be >= 0 and mean finite", where));
     if (in.cycle_amplitude != 0.0 && !(in.cycle_period > 0.0))
-      throw InputError(fmt::format("{}: a cycle needs a period > 0 (rows per cycle), got {}",
-                                   where, in.cycle_period));
+      throw InputError(fmt::format("{}: a cycle needs a period > 0 (rows per cycle), got {}", where,
+                                   in.cycle_period));
   }
 }
 
@@ -95,8 +101,8 @@ std::vector<std::string> simulated_stamps(const std::string& start_date,
                                           SimulatedFrequency frequency, int n) {
   const auto stamp = parse_time_stamp(start_date);
   if (!stamp || stamp->format != TimeFormat::date)
-    throw InputError(fmt::format("simulation: start date '{}' is not a date; write YYYY-MM-DD",
-                                 start_date));
+    throw InputError(
+        fmt::format("simulation: start date '{}' is not a date; write YYYY-MM-DD", start_date));
   const std::chrono::sys_days first{std::chrono::days{stamp->key / 86400}};
   const int step = frequency == SimulatedFrequency::weekly ? 7 : 1;
   std::vector<std::string> out;

@@ -14,8 +14,8 @@ namespace lagsieve {
 
 struct SimulatedInput {
   std::string name;
-  InputOrder order;            // b, s, r of the true transfer function
-  InputParams params;          // omega (all zero: an irrelevant input), delta
+  InputOrder order;    // b, s, r of the true transfer function
+  InputParams params;  // omega (all zero: an irrelevant input), delta
   // Column inputs: mean + AR(1)(ar) with innovation sd `sd`, plus an optional deterministic
   // cycle cycle_amplitude * cos(2 pi (row - cycle_peak) / cycle_period) (a yearly temperature
   // swing, say). Rows count from the first output row; the burn-in has negative rows.
@@ -29,24 +29,24 @@ struct SimulatedInput {
   // defined on the output (integrated) scale, as a config regenerates it from the data.
   bool is_event = false;
   EventShape shape = EventShape::step;
-  int at_row = 0;              // 0-based output row where the event starts
+  int at_row = 0;  // 0-based output row where the event starts
 };
 
 // How `simulate` stamps its rows when a start date is given.
 enum class SimulatedFrequency { daily, weekly };
 
 struct SimulationSpec {
-  std::string target = "y";    // name of the simulated target series
+  std::string target = "y";  // name of the simulated target series
   int n = 500;
   std::uint64_t seed = 1;
   std::vector<SimulatedInput> inputs;
   NoiseOrder noise;
   std::vector<double> phi, theta, seasonal_phi, seasonal_theta;
-  double sigma = 1.0;          // innovation standard deviation of the noise
+  double sigma = 1.0;  // innovation standard deviation of the noise
   double constant = 0.0;
-  Differencing integrate;      // the target is integrated by this after simulation
-  int burn_in = 300;           // discarded start, so the series begin in steady state
-  std::string start_date;      // YYYY-MM-DD of the first row; "" = integer stamps 1..n
+  Differencing integrate;  // the target is integrated by this after simulation
+  int burn_in = 300;       // discarded start, so the series begin in steady state
+  std::string start_date;  // YYYY-MM-DD of the first row; "" = integer stamps 1..n
   SimulatedFrequency frequency = SimulatedFrequency::daily;
 };
 

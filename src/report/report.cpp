@@ -1159,38 +1159,37 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     if (pair.size() == 1) s.blocks.push_back(std::move(pair.front()));
     if (pair.size() == 2) s.blocks.push_back(HtmlFigureRow{std::move(pair)});
 
-    // Overall accuracy table.
+    // Overall accuracy (horizon 0): one row per model, production, with the oracle MASE beside it.
     HtmlTable t;
-    t.caption = "Accuracy over all horizons";
+    t.caption = "Accuracy over all horizons, inputs as in production";
     t.sortable = true;
-    std::vector<std::pair<std::string, int>> cols;
-    for (const char* name : {"count", "mae", "rmse", "mase"})
-      if (a.has(name)) cols.emplace_back(name, a.column(name));
-    for (const auto& [level, col] : cov_cols) cols.emplace_back(a.table().header[col], col);
-    for (const auto& [level, col] : a.level_columns("interval_score_")) cols.emplace_back(a.table().header[col], col);
-    t.columns = {{"Model", "", NumberFormat::automatic, 3}, {"Mode", "", NumberFormat::automatic, 3}};
-    for (const auto& [name, col] : cols) {
-      TableColumn tc{name, "", NumberFormat::automatic, 3};
-      if (name == "count") tc = {"Forecasts", "", NumberFormat::automatic, 0};
-      else if (name == "mae") tc.name = "MAE";
-      else if (name == "rmse") tc.name = "RMSE";
-      else if (name == "mase") tc.name = "MASE";
-      else if (starts_with(name, "coverage_")) tc = {"Coverage " + name.substr(9) + "%", "", NumberFormat::percent, 1};
-      else if (starts_with(name, "interval_score_")) tc.name = "Interval score " + name.substr(15) + "%";
-      t.columns.push_back(tc);
-    }
-    for (int r = 0; r < a.rows(); ++r) {
-      if (!row_in_series(a, r, sf) || a.number(r, ch) != 0) continue;
-      std::vector<TableValue> row{cell(a.text(r, cm)), cell(a.text(r, cmode))};
-      for (const auto& [name, col] : cols) {
-        const double v = a.number(r, col);
-        row.push_back(name == "count" && std::isfinite(v) ? cell(static_cast<int>(v)) : cell(v));
-      }
-      if (a.text(r, cm) == leader) t.highlighted_rows.push_back(static_cast<int>(t.rows.size()));
+    const auto score_cols = a.level_columns("interval_score_");
+    const int cmase = a.table().column_index("mase");
+    const int crmse = a.table().column_index("rmse");
+    t.columns = {{"Model", "", NumberFormat::automatic, 3}, {"Forecasts", "", NumberFormat::automatic, 0},
+                 {"MAE", "", NumberFormat::automatic, 3},   {"RMSE", "", NumberFormat::automatic, 3},
+                 {"MASE", "", NumberFormat::automatic, 3}};
+    for (const auto& [level, col] : cov_cols)
+      t.columns.push_back({"Coverage " + pct(level), "", NumberFormat::percent, 1});
+    if (!score_cols.empty())
+      t.columns.push_back({"Interval score " + pct(score_cols.back().first), "", NumberFormat::automatic, 3});
+    t.columns.push_back({"MASE, inputs known", "", NumberFormat::automatic, 3});
+    for (const auto& m : models) {
+      const double count = ccount >= 0 ? value_at(m, "production", 0, ccount) : kNaN;
+      std::vector<TableValue> row{cell(m == leader ? m + " (leader)" : m),
+                                  std::isfinite(count) ? cell(static_cast<int>(count)) : TableValue{},
+                                  cell(value_at(m, "production", 0, cmae)),
+                                  cell(crmse >= 0 ? value_at(m, "production", 0, crmse) : kNaN),
+                                  cell(cmase >= 0 ? value_at(m, "production", 0, cmase) : kNaN)};
+      for (const auto& [level, col] : cov_cols) row.push_back(cell(value_at(m, "production", 0, col)));
+      if (!score_cols.empty()) row.push_back(cell(value_at(m, "production", 0, score_cols.back().second)));
+      row.push_back(cell(cmase >= 0 ? value_at(m, "oracle", 0, cmase) : kNaN));
+      if (m == leader) t.highlighted_rows.push_back(static_cast<int>(t.rows.size()));
       t.rows.push_back(std::move(row));
     }
     t.note = "MASE below 1: better than the in-sample one-step naive forecast. The interval score "
-             "rewards narrow intervals and penalises misses (lower is better).";
+             "rewards narrow intervals and penalises misses (lower is better). \"Inputs known\": the "
+             "same model given the realised inputs (oracle), the floor that perfect input forecasts would reach.";
     if (!t.rows.empty()) s.blocks.push_back(std::move(t));
   }
 
@@ -1199,7 +1198,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     const CsvFile& c = *bf.backtest;
     const int cm = c.column("model"), cmode = c.column("mode"), ch = c.column("horizon"),
               cf = c.column("forecast"), ca = c.column("actual");
-    const int ct = c.table().column_index("time");
+    const int ct = c.table().column_index("origin_time");
     const auto lowers = c.level_columns("lower_");
     const auto uppers = c.level_columns("upper_");
     std::vector<double> x, fcast, actual;
@@ -1231,7 +1230,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       lc.x_ticks = time_ticks(x, stamps);
       lc.frame.title = "Leader's one-step backtest forecasts: actuals outside the bands are misses";
       lc.frame.subtitle = leader + " · inputs as in production";
-      lc.frame.x_title = lc.x_ticks.empty() ? "Backtest origin" : "Time of the forecast";
+      lc.frame.x_title = "Time of the one-step forecast";
       lc.frame.y_title = sf.name;
       lc.frame.width = kWideChart;
       s.blocks.push_back(b.figure(line_chart_svg(lc), b.stem("backtest_one_step", sf), ""));
@@ -1239,42 +1238,80 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
   }
 
   if (bf.comparisons) {
+    // One row per challenger: at which horizons either model is significantly better.
     const CsvFile& c = *bf.comparisons;
-    HtmlTable t;
-    t.caption = "Leader against each challenger (Diebold-Mariano test, small-sample corrected)";
-    t.sortable = true;
-    const std::vector<std::pair<const char*, TableColumn>> spec = {
-        {"leader", {"Leader", "", NumberFormat::automatic, 3}},
-        {"challenger", {"Challenger", "", NumberFormat::automatic, 3}},
-        {"horizon", {"Horizon", "", NumberFormat::automatic, 0}},
-        {"loss", {"Loss", "", NumberFormat::automatic, 3}},
-        {"n", {"Pairs", "", NumberFormat::automatic, 0}},
-        {"mean_difference", {"Mean loss difference", "", NumberFormat::automatic, 3}},
-        {"statistic", {"Statistic", "", NumberFormat::fixed, 2}},
-        {"p_value", {"p-value", "", NumberFormat::p_value, 3}},
-        {"status", {"Status", "", NumberFormat::automatic, 3}}};
-    std::vector<std::pair<int, bool>> cols;  // column, numeric
-    for (const auto& [name, col] : spec) {
-      cols.emplace_back(c.column(name), std::string_view(name) != "leader" && std::string_view(name) != "challenger" &&
-                                            std::string_view(name) != "loss" && std::string_view(name) != "status");
-      t.columns.push_back(col);
-    }
+    const int cl = c.column("leader"), cc = c.column("challenger"), ch = c.column("horizon"),
+              cn = c.column("n"), cd = c.column("mean_difference"), cp = c.column("p_value"),
+              cs = c.column("status");
+    struct Summary {
+      std::vector<int> leader_better, challenger_better;
+      int tested = 0;
+      double min_p = kNaN, pooled_difference = kNaN, pooled_p = kNaN;
+      std::vector<std::string> odd_status;
+    };
+    std::vector<std::pair<std::string, Summary>> rows;
+    std::string compared_leader;
     for (int r = 0; r < c.rows(); ++r) {
       if (!row_in_series(c, r, sf)) continue;
-      std::vector<TableValue> row;
-      for (const auto& [col, numeric] : cols) {
-        if (!numeric) row.push_back(cell(c.text(r, col)));
-        else if (c.table().header[col] == "horizon" || c.table().header[col] == "n") {
-          const double v = c.number(r, col);
-          row.push_back(std::isfinite(v) ? cell(static_cast<int>(v)) : TableValue{});
-        } else {
-          row.push_back(cell(c.number(r, col)));
-        }
+      compared_leader = c.text(r, cl);
+      const std::string& who = c.text(r, cc);
+      auto it = std::find_if(rows.begin(), rows.end(), [&](const auto& e) { return e.first == who; });
+      if (it == rows.end()) it = rows.insert(rows.end(), {who, Summary{}});
+      Summary& sm = it->second;
+      const double h = c.number(r, ch), d = c.number(r, cd), pv = c.number(r, cp);
+      (void)c.number(r, cn);  // checked to be a number
+      if (c.text(r, cs) != "ok") sm.odd_status.push_back(fmt::format("{} at {}", c.text(r, cs), short_num(h)));
+      if (h == 0) {
+        sm.pooled_difference = d;
+        sm.pooled_p = pv;
+        continue;
       }
+      ++sm.tested;
+      if (std::isfinite(pv) && !(sm.min_p <= pv)) sm.min_p = pv;
+      if (std::isfinite(pv) && pv < 0.05) (d < 0 ? sm.leader_better : sm.challenger_better).push_back(static_cast<int>(h));
+    }
+    const auto ranges = [](std::vector<int> v) {
+      if (v.empty()) return std::string("none");
+      std::sort(v.begin(), v.end());
+      std::vector<std::string> parts;
+      for (size_t i = 0; i < v.size();) {
+        size_t j = i;
+        while (j + 1 < v.size() && v[j + 1] == v[j] + 1) ++j;
+        parts.push_back(j == i ? std::to_string(v[i]) : fmt::format("{}\u2013{}", v[i], v[j]));
+        i = j + 1;
+      }
+      return join(parts, ", ");
+    };
+    bool pooled = false;
+    for (const auto& [who, sm] : rows) pooled = pooled || std::isfinite(sm.pooled_p);
+    HtmlTable t;
+    t.caption = "Is the leader better than each challenger? Diebold-Mariano tests, small-sample corrected";
+    t.sortable = true;
+    t.columns = {{"Challenger", "", NumberFormat::automatic, 3},
+                 {"Horizons tested", "", NumberFormat::automatic, 0},
+                 {"Leader better at", "", NumberFormat::automatic, 3},
+                 {"Challenger better at", "", NumberFormat::automatic, 3},
+                 {"Smallest p-value", "", NumberFormat::p_value, 3}};
+    if (pooled) {
+      t.columns.push_back({"Mean loss difference, all horizons", "", NumberFormat::automatic, 3});
+      t.columns.push_back({"p-value, all horizons", "", NumberFormat::p_value, 3});
+    }
+    t.columns.push_back({"Notes", "", NumberFormat::automatic, 3});
+    for (const auto& [who, sm] : rows) {
+      std::vector<TableValue> row{cell(who), cell(sm.tested), cell(ranges(sm.leader_better)),
+                                  cell(ranges(sm.challenger_better)), cell(sm.min_p)};
+      if (pooled) {
+        row.push_back(cell(sm.pooled_difference));
+        row.push_back(cell(sm.pooled_p));
+      }
+      row.push_back(cell(join(sm.odd_status, "; ")));
       t.rows.push_back(std::move(row));
     }
-    t.note = "A small p-value: the two models' forecast losses differ by more than chance explains. "
-             "Horizon 0 pools all horizons.";
+    t.note = fmt::format(
+        "Leader: {}. Squared-error loss, one test per horizon; \"better at\" lists the horizons where "
+        "the mean loss difference (leader minus challenger) is significant at 5% (two-sided). "
+        "Every test is in {}.",
+        compared_leader, fs::path(c.table().source).filename().string());
     if (!t.rows.empty()) s.blocks.push_back(std::move(t));
   }
 

@@ -564,12 +564,14 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
 
 namespace {
 
-nlohmann::json num(double v) { return std::isfinite(v) ? nlohmann::json(v) : nlohmann::json(nullptr); }
+nlohmann::ordered_json num(double v) {
+  return std::isfinite(v) ? nlohmann::ordered_json(v) : nlohmann::ordered_json(nullptr);
+}
 
 }  // namespace
 
-nlohmann::json to_json(const RevalidationResult& r) {
-  using nlohmann::json;
+nlohmann::ordered_json to_json(const RevalidationResult& r) {
+  using json = nlohmann::ordered_json;
   json j;
   j["verdict"] = std::string(to_string(r.verdict));
   j["reasons"] = r.reasons;

@@ -197,8 +197,9 @@ struct RevalidationResult {
 RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
                               const RunConfig& config, const RevalidateOptions& options = {});
 
-// revalidation.json: verdict and reasons first, then the evidence, flat enough for the report.
-nlohmann::json to_json(const RevalidationResult& r);
+// revalidation.json: verdict and reasons first (insertion order kept), then the evidence, flat
+// enough for the report's generic tables.
+nlohmann::ordered_json to_json(const RevalidationResult& r);
 
 // The readable summary printed by `lagsieve revalidate`.
 std::string summary_text(const RevalidationResult& r);

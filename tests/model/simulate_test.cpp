@@ -60,7 +60,9 @@ SimulationSpec small_spec(std::uint64_t seed) {
   auto x = ar1_input("x", 1.0, 0.6, 1.0);
   x.order = {2, 0, 1};
   x.params = {{1.5}, {0.4}};
-  spec.inputs = {x, event_input("shift", EventShape::step, 100)};
+  auto shift = event_input("shift", EventShape::step, 100);
+  shift.params.omega = {4.0};
+  spec.inputs = {x, shift};
   return spec;
 }
 
@@ -80,14 +82,23 @@ TEST(Simulate, SameSeedSameSeriesOtherSeedOtherSeries) {
 }
 
 TEST(Simulate, EventsAndCyclesDrawNoRandomNumbers) {
-  // Dropping the event and adding a cycle to nothing else leaves the random input unchanged, and
-  // the noise only moves by the event's response (zero before the event row).
+  // Dropping the event leaves the random input unchanged and moves the target only from the
+  // event row on; adding a cycle to the input changes it by exactly the cycle.
   auto with = small_spec(3);
   auto without = small_spec(3);
   without.inputs.pop_back();
   const auto a = simulate(with), b = simulate(without);
   EXPECT_EQ(a.inputs[0], b.inputs[0]);
   for (int t = 0; t < 100; ++t) EXPECT_EQ(a.target[t], b.target[t]) << t;
+  for (int t = 100; t < 300; ++t) EXPECT_NEAR(a.target[t] - b.target[t], 4.0, 1e-12) << t;
+  auto cycled = without;
+  cycled.inputs[0].cycle_amplitude = 2.0;
+  cycled.inputs[0].cycle_period = 10.0;
+  const auto c = simulate(cycled);
+  for (int t = 0; t < 300; ++t)
+    EXPECT_NEAR(c.inputs[0][t] - b.inputs[0][t], 2.0 * std::cos(2.0 * std::numbers::pi * t / 10.0),
+                1e-12)
+        << t;
 }
 
 TEST(Simulate, EventValuesAreExact) {
@@ -183,11 +194,11 @@ TEST(Simulate, AR1InputAndTargetMomentsMatchTheory) {
   const auto& y = data.target;
   const double var_u = 4.0 / (1.0 - 0.64);
   const double var_y = 4.0 * var_u + 1.0;
-  EXPECT_NEAR(mean_of(x), 5.0, 0.30);                // se 0.071
-  EXPECT_NEAR(cross_cov(x, x, 0), var_u, 1.0);      // se 0.24
+  EXPECT_NEAR(mean_of(x), 5.0, 0.30);           // se 0.071
+  EXPECT_NEAR(cross_cov(x, x, 0), var_u, 1.0);  // se 0.24
   EXPECT_NEAR(cross_cov(x, x, 1) / cross_cov(x, x, 0), 0.8, 0.02);
-  EXPECT_NEAR(mean_of(y), 20.0, 0.60);               // se 0.14
-  EXPECT_NEAR(cross_cov(y, y, 0), var_y, 4.0);       // se 0.95
+  EXPECT_NEAR(mean_of(y), 20.0, 0.60);          // se 0.14
+  EXPECT_NEAR(cross_cov(y, y, 0), var_y, 4.0);  // se 0.95
   const double c1 = 2.0 * var_u / std::sqrt(var_y * var_u);
   const double sd_prod = std::sqrt(cross_cov(y, y, 0) * cross_cov(x, x, 0));
   EXPECT_NEAR(cross_cov(y, x, 1) / sd_prod, c1, 0.005);
@@ -206,8 +217,8 @@ TEST(Simulate, ArmaNoiseMomentsMatchTheory) {
   const auto y = simulate(spec).target;
   const double var = (1.0 + 2 * 0.21 + 0.09) / (1.0 - 0.49);
   const double rho1 = 1.21 * 1.0 / 1.51;
-  EXPECT_NEAR(mean_of(y), 0.0, 0.08);                // se 0.018 * 4.3
-  EXPECT_NEAR(cross_cov(y, y, 0), var, 0.22);       // se 0.055
+  EXPECT_NEAR(mean_of(y), 0.0, 0.08);          // se 0.018 * 4.3
+  EXPECT_NEAR(cross_cov(y, y, 0), var, 0.22);  // se 0.055
   EXPECT_NEAR(cross_cov(y, y, 1) / cross_cov(y, y, 0), rho1, 0.02);
   EXPECT_NEAR(cross_cov(y, y, 2) / cross_cov(y, y, 0), 0.7 * rho1, 0.03);
 }
@@ -287,8 +298,8 @@ TEST(SimulationSpecFile, CsvLeavesEventsOut) {
   const auto csv = simulated_csv(file, data);
   const auto first_line = csv.substr(0, csv.find('\n'));
   EXPECT_EQ(first_line, "date,heat,temp,clouds");
-  const auto second = csv.substr(first_line.size() + 1, csv.find('\n', first_line.size() + 1) -
-                                                            first_line.size() - 1);
+  const auto second = csv.substr(first_line.size() + 1,
+                                 csv.find('\n', first_line.size() + 1) - first_line.size() - 1);
   EXPECT_EQ(second.substr(0, 11), "2022-01-01,");
   EXPECT_EQ(std::count(csv.begin(), csv.end(), '\n'), 51);
   // Two decimals: the target cell reads back to within half a unit in the last place.

@@ -301,17 +301,20 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   expect_same(numbers(b80->attrs.at("data-lower")), {8, 8.625, 7.0}, "lower 80");
   expect_same(numbers(b95->attrs.at("data-upper")), {12, 12.625, 11.0}, "upper 95");
 
+  // One row per model: leader, runner-up, benchmark; the oracle MASE in the last column.
   const auto acc = table_cells(html, "Accuracy over all horizons");
-  ASSERT_EQ(acc.size(), 4u);  // horizon-0 rows only
-  EXPECT_EQ(acc[0][0], leader);
-  EXPECT_EQ(acc[0][1], "production");
-  EXPECT_EQ(acc[0][2], "40");
-  EXPECT_EQ(acc[0][3], "1.250");
-  EXPECT_EQ(acc[0][6], "77.5%");
-  const auto dm = table_cells(html, "Leader against each challenger");
+  ASSERT_EQ(acc.size(), 3u);
+  EXPECT_EQ(acc[0], (std::vector<std::string>{leader + " (leader)", "40", "1.250", "1.500", "0.8100", "77.5%",
+                                              "92.5%", "8.250", "0.7300"}));
+  EXPECT_EQ(acc[2][0], "benchmark: no inputs");
+  EXPECT_EQ(acc[2][8], "\u2014");  // no oracle rows
+  // Per challenger: where the leader (negative difference, p < 0.05) or the challenger wins.
+  const auto dm = table_cells(html, "Is the leader better than each challenger?");
   ASSERT_EQ(dm.size(), 2u);
-  EXPECT_EQ(dm[1][1], "benchmark: no inputs");
-  EXPECT_EQ(dm[1][7], "0.001");
+  EXPECT_EQ(dm[0], (std::vector<std::string>{"temp b1 s1 r0 + ARMA(1,0)", "2", "none", "1", "0.020", "-0.1250",
+                                             "0.218", ""}));
+  EXPECT_EQ(dm[1], (std::vector<std::string>{"benchmark: no inputs", "4", "1\u20132, 4", "none", "< 0.001",
+                                             "-0.7500", "0.001", "variance_fallback at 2"}));
   const auto iv = table_cells(html, "What each input is worth");
   ASSERT_EQ(iv.size(), 1u);
   EXPECT_EQ(iv[0], (std::vector<std::string>{"temp", "0.8100", "1.250", "0.4400", "3.25", "0.002"}));

@@ -184,7 +184,13 @@ inline std::string backtest_csv() {
 inline std::string comparisons_csv() {
   return "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + ARMA(1,0)\",0,squared,40,-0.125,-1.25,0.218,ok\n"
-         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,0,squared,40,-0.75,-3.5,0.0012,ok\n";
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,0,squared,40,-0.75,-3.5,0.0012,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + ARMA(1,0)\",1,squared,20,0.5,2.5,0.02,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + ARMA(1,0)\",2,squared,20,-0.25,-0.5,0.6,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,1,squared,20,-0.5,-3.0,0.007,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,2,squared,20,-0.75,-4.0,0.0009,variance_fallback\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,3,squared,20,-0.1,-0.5,0.6,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,4,squared,20,-0.9,-3.0,0.01,ok\n";
 }
 
 inline std::string input_value_csv() {
