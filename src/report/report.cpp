@@ -579,10 +579,16 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
     kv.items.emplace_back("Target transform", transform_text(first_with_model->model->spec.transform));
     kv.items.emplace_back("Differencing", differencing_text(first_with_model->model->spec.differencing));
   }
-  if (run.leaderboard)
-    kv.items.emplace_back("Ranked by", criterion_label(run.leaderboard->criterion) +
-                                           " (lower is better; only models fitted on the same "
-                                           "observations are compared)");
+  if (run.leaderboard) {
+    const bool backtested = std::any_of(run.leaderboard->rows.begin(), run.leaderboard->rows.end(),
+                                        [](const LeaderboardRow& r) { return std::isfinite(r.backtest_score); });
+    const std::string crit = criterion_label(run.leaderboard->criterion);
+    kv.items.emplace_back("Ranked by", backtested ? fmt::format("backtest score for the shortlist, then {} (lower is "
+                                                                "better for both)", crit)
+                                                  : crit + " (lower is better)");
+    kv.items.emplace_back("Compared on", "the same observations for every candidate of a series, so the "
+                                         "criteria are comparable");
+  }
   s.blocks.push_back(std::move(kv));
 
   if (run.series.size() == 1) {

@@ -334,7 +334,7 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   EXPECT_EQ(lb[2][2], "\u2014");   // failed fit: no criterion
   EXPECT_EQ(lb[2][8], "numerical_failure: singular <matrix>");
   EXPECT_EQ(find_all(doc, "table", "sortable").size(), 4u);  // leaderboard, accuracy, DM, input value
-  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 3u);    // leader: leaderboard + 2 accuracy rows
+  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 2u);    // the leader: leaderboard and accuracy
 
   const auto svg = chart(dir, "residual_acf.svg", html);
   std::vector<double> lags, values;
