@@ -1253,7 +1253,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       std::vector<int> leader_better, challenger_better;
       int tested = 0;
       double min_p = kNaN, pooled_difference = kNaN, pooled_p = kNaN;
-      std::vector<std::string> odd_status;
+      std::map<std::string, std::vector<int>> odd_status;  // status other than ok -> horizons
     };
     std::vector<std::pair<std::string, Summary>> rows;
     std::string compared_leader;
@@ -1266,7 +1266,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       Summary& sm = it->second;
       const double h = c.number(r, ch), d = c.number(r, cd), pv = c.number(r, cp);
       (void)c.number(r, cn);  // checked to be a number
-      if (c.text(r, cs) != "ok") sm.odd_status.push_back(fmt::format("{} at {}", c.text(r, cs), short_num(h)));
+      if (c.text(r, cs) != "ok" && std::isfinite(h)) sm.odd_status[c.text(r, cs)].push_back(static_cast<int>(h));
       if (h == 0) {
         sm.pooled_difference = d;
         sm.pooled_p = pv;
@@ -1310,7 +1310,9 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         row.push_back(cell(sm.pooled_difference));
         row.push_back(cell(sm.pooled_p));
       }
-      row.push_back(cell(join(sm.odd_status, "; ")));
+      std::vector<std::string> notes;
+      for (const auto& [status, hs] : sm.odd_status) notes.push_back(fmt::format("{} at {}", status, ranges(hs)));
+      row.push_back(cell(join(notes, "; ")));
       t.rows.push_back(std::move(row));
     }
     t.note = fmt::format(
