@@ -1364,8 +1364,11 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
   HtmlKeyValues kv;
   kv.items.emplace_back("Model", f.text(fit, "label", ""));
   kv.items.emplace_back("Status", f.text(fit, "status", ""));
-  for (const char* key : {"loglik", "sigma2", "aic", "aicc", "bic"})
-    if (fit.contains(key)) kv.items.emplace_back(humanise(key), fmt_num(f.number(fit, key, "")));
+  const std::pair<const char*, const char*> criteria[] = {{"loglik", "Log-likelihood"},
+                                                          {"sigma2", "Innovation variance \u03c3\u00b2"},
+                                                          {"aic", "AIC"}, {"aicc", "AICc"}, {"bic", "BIC"}};
+  for (const auto& [key, label] : criteria)
+    if (fit.contains(key)) kv.items.emplace_back(label, fmt_num(f.number(fit, key, "")));
   for (const char* key : {"n_obs", "n_params"})
     if (fit.contains(key)) kv.items.emplace_back(key == std::string("n_obs") ? "Observations" : "Parameters (sigma\u00b2 included)",
                                                  json_text(fit[key]));
@@ -1389,6 +1392,7 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
                                     bc.values.size());
     bc.frame.x_title = "Lag (steps)";
     bc.frame.y_title = "Autocorrelation of residuals";
+    bc.frame.width = kWideChart;
     s.blocks.push_back(b.figure(bar_chart_svg(bc), b.stem("residual_acf", sf), ""));
   }
   if (d.contains("ljung_box") && d["ljung_box"].is_array() && !d["ljung_box"].empty()) {
@@ -1425,7 +1429,8 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
   }
   if (d.contains("gains") && d["gains"].is_array() && !d["gains"].empty()) {
     HtmlTable t;
-    t.caption = "Steady-state gains: the eventual change in the (transformed) target per unit step in the input";
+    t.caption = "Steady-state gains";
+    t.note = "The eventual change in the (transformed) target after a lasting unit step in the input.";
     t.columns = {{"Input", "", NumberFormat::automatic, 3},
                  {"Gain", "", NumberFormat::automatic, 3},
                  {"Standard error", "", NumberFormat::automatic, 3}};
@@ -1439,7 +1444,9 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
   }
   if (d.contains("roots") && d["roots"].is_array() && !d["roots"].empty()) {
     HtmlTable t;
-    t.caption = "Polynomial roots: moduli close to 1 mean near non-stationarity or near-cancelling factors";
+    t.caption = "Polynomial roots";
+    t.note = "Moduli close to 1 mean a nearly non-stationary or nearly non-invertible factor; equal roots "
+             "in two polynomials mean factors that cancel.";
     t.columns = {{"Polynomial", "", NumberFormat::automatic, 3},
                  {"Smallest modulus", "", NumberFormat::fixed, 3},
                  {"Roots", "", NumberFormat::automatic, 3}};
