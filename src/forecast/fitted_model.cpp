@@ -13,26 +13,29 @@
 
 namespace lagsieve {
 
+std::string text_fingerprint(std::string_view text) {
+  std::uint64_t hash = 1469598103934665603ULL;
+  for (unsigned char c : text) {
+    hash ^= c;
+    hash *= 1099511628211ULL;
+  }
+  return fmt::format("fnv1a64:{:016x}", hash);
+}
+
 std::string data_fingerprint(const SeriesData& data, int rows,
                              const std::vector<std::string>& input_names) {
-  std::uint64_t hash = 1469598103934665603ULL;
-  auto feed = [&hash](const std::string& text) {
-    for (unsigned char c : text) {
-      hash ^= c;
-      hash *= 1099511628211ULL;
-    }
-  };
+  std::string text;
   auto feed_column = [&](const std::vector<double>& column) {
     for (int t = 0; t < rows && t < static_cast<int>(column.size()); ++t)
-      feed(fmt::format("{:.17g};", column[t]));
-    feed("|");
+      text += fmt::format("{:.17g};", column[t]);
+    text += '|';
   };
   feed_column(data.target);
   for (const auto& name : input_names) {
     const int index = data.input_index(name);
     if (index >= 0) feed_column(data.inputs[index]);
   }
-  return fmt::format("fnv1a64:{:016x}", hash);
+  return text_fingerprint(text);
 }
 
 InputModel fit_input_model(const std::string& name, const std::vector<double>& input,

@@ -5,6 +5,7 @@
 #include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "core/config.h"
@@ -68,6 +69,9 @@ struct FittedModel {
     return nullptr;
   }
 };
+
+// FNV-1a (64 bit) digest of a text, as "fnv1a64:<16 hex digits>".
+std::string text_fingerprint(std::string_view text);
 
 // Digest of the target and the named inputs over the first `rows` rows (FNV-1a over the values
 // printed with 17 significant digits): equal data give equal fingerprints on every platform.

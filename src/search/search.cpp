@@ -270,17 +270,12 @@ std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesDat
   std::ifstream in(config.config_file);
   std::stringstream text;
   text << in.rdbuf();
-  SeriesData pseudo;
-  pseudo.target_name = "config";
+  std::vector<std::string> names;
+  for (const auto& ic : config.inputs)
+    if (!ic.is_event) names.push_back(ic.name);
   std::string all = text.str();
-  for (const auto& s : series) {
-    std::vector<std::string> names;
-    for (const auto& ic : config.inputs)
-      if (!ic.is_event) names.push_back(ic.name);
-    all += data_fingerprint(s, s.rows(), names);
-  }
-  for (unsigned char c : all) pseudo.target.push_back(c);
-  return data_fingerprint(pseudo, pseudo.rows(), {});
+  for (const auto& s : series) all += data_fingerprint(s, s.rows(), names);
+  return text_fingerprint(all);
 }
 
 }  // namespace lagsieve
