@@ -4,7 +4,6 @@
 #include <yaml-cpp/yaml.h>
 
 #include <algorithm>
-#include <charconv>
 #include <cmath>
 #include <fstream>
 #include <limits>
@@ -15,128 +14,28 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "io/yaml_reader.h"
 
 namespace lagsieve {
 namespace {
 
 namespace fs = std::filesystem;
 
-std::string join(const std::vector<std::string>& items) {
-  std::string out;
-  for (const auto& s : items) {
-    if (!out.empty()) out += ", ";
-    out += s;
-  }
-  return out;
-}
-
-std::string child(const std::string& path, const std::string& key) {
-  return path.empty() ? key : path + "." + key;
-}
-
-// Walks the YAML tree with the config file name in hand, so every message can point at the spot.
-class Reader {
+// The run config's reader: the shared YAML access plus the config's own value kinds.
+class Reader : public YamlReader {
  public:
-  explicit Reader(std::string file) : file_(std::move(file)) {}
-
-  [[noreturn]] void fail(const YAML::Node& node, const std::string& path,
-                         const std::string& what) const {
-    const int line = node.Mark().is_null() ? 0 : node.Mark().line + 1;
-    if (path.empty()) throw InputError(fmt::format("{}:{}: {}", file_, line, what));
-    throw InputError(fmt::format("{}:{}: {}: {}", file_, line, path, what));
-  }
-
-  // Requires a mapping whose keys are all in `allowed`; unknown keys suggest the closest one.
-  void check_map(const YAML::Node& node, const std::string& path,
-                 const std::vector<std::string>& allowed) const {
-    if (!node.IsMap())
-      fail(node, path,
-           fmt::format("expected a mapping of keys ({}), got {}", join(allowed), describe(node)));
-    std::set<std::string> seen;
-    for (const auto& kv : node) {
-      const auto key = kv.first.Scalar();
-      if (std::find(allowed.begin(), allowed.end(), key) == allowed.end()) {
-        const auto guess = closest_match(key, allowed);
-        fail(kv.first, child(path, key),
-             guess.empty()
-                 ? fmt::format("unknown key; valid keys here: {}", join(allowed))
-                 : fmt::format("unknown key; did you mean `{}`? (valid keys here: {})", guess,
-                               join(allowed)));
-      }
-      if (!seen.insert(key).second)
-        fail(kv.first, child(path, key), "key given twice; keep one");
-    }
-  }
-
-  static std::string describe(const YAML::Node& node) {
-    if (node.IsNull()) return "nothing";
-    if (node.IsSequence()) return "a list";
-    if (node.IsMap()) return "a mapping";
-    return fmt::format("'{}'", node.Scalar());
-  }
-
-  void require_scalar(const YAML::Node& node, const std::string& path,
-                      const std::string& expected) const {
-    if (!node.IsScalar()) fail(node, path, fmt::format("expected {}, got {}", expected, describe(node)));
-  }
-
-  static bool parse_int(const std::string& s, long long& out) {
-    const char* begin = s.data();
-    const char* end = s.data() + s.size();
-    if (begin != end && *begin == '+') ++begin;
-    const auto [p, ec] = std::from_chars(begin, end, out);
-    return ec == std::errc() && p == end && begin != end;
-  }
-
-  int get_int(const YAML::Node& node, const std::string& path, int min_value = 0) const {
-    require_scalar(node, path, "an integer");
-    long long v = 0;
-    if (!parse_int(node.Scalar(), v))
-      fail(node, path, fmt::format("expected an integer, got '{}'", node.Scalar()));
-    if (v < min_value)
-      fail(node, path, fmt::format("must be at least {}, got {}", min_value, v));
-    if (v > std::numeric_limits<int>::max())
-      fail(node, path, fmt::format("{} is too large", v));
-    return static_cast<int>(v);
-  }
-
-  double get_double(const YAML::Node& node, const std::string& path) const {
-    require_scalar(node, path, "a number");
-    const auto& s = node.Scalar();
-    double v = 0.0;
-    const char* begin = s.data();
-    const char* end = s.data() + s.size();
-    if (begin != end && *begin == '+') ++begin;
-    const auto [p, ec] = std::from_chars(begin, end, v);
-    if (ec != std::errc() || p != end || begin == end || !std::isfinite(v))
-      fail(node, path, fmt::format("expected a finite number, got '{}'", s));
-    return v;
-  }
-
-  bool get_bool(const YAML::Node& node, const std::string& path) const {
-    require_scalar(node, path, "true or false");
-    const auto& s = node.Scalar();
-    if (s == "true" || s == "yes") return true;
-    if (s == "false" || s == "no") return false;
-    fail(node, path, fmt::format("expected true or false, got '{}'", s));
-  }
-
-  std::string get_string(const YAML::Node& node, const std::string& path) const {
-    require_scalar(node, path, "a text value");
-    if (node.Scalar().empty()) fail(node, path, "must not be empty");
-    return node.Scalar();
-  }
+  using YamlReader::YamlReader;
 
   template <typename Enum>
   Enum get_enum(const YAML::Node& node, const std::string& path) const {
     const auto choices = enum_choices<Enum>();
-    require_scalar(node, path, "one of " + join(choices));
+    require_scalar(node, path, "one of " + join_comma(choices));
     if (auto v = parse_enum<Enum>(node.Scalar())) return *v;
     const auto guess = closest_match(node.Scalar(), choices);
     fail(node, path,
          fmt::format("unknown value '{}'; {}choose one of: {}", node.Scalar(),
                      guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
-                     join(choices)));
+                     join_comma(choices)));
   }
 
   // `3` or `[1, 3]`; both ends within [0, max_value] and min <= max.
@@ -157,10 +56,9 @@ class Reader {
       if (!node.IsScalar())
         fail(node, path,
              fmt::format("expected an integer or a range [min, max], got {}", describe(node)));
-      long long v = 0;
-      if (!parse_int(node.Scalar(), v))
-        fail(node, path,
-             fmt::format("expected an integer or a range [min, max], got '{}'", node.Scalar()));
+      const auto& text = node.Scalar();
+      if (text.empty() || text.find_first_not_of("+-0123456789") != std::string::npos)
+        fail(node, path, fmt::format("expected an integer or a range [min, max], got '{}'", text));
       r.min = r.max = get_int(node, path);
     }
     if (r.max > max_value)
@@ -191,11 +89,6 @@ class Reader {
     levels.erase(std::unique(levels.begin(), levels.end()), levels.end());
     return levels;
   }
-
-  const std::string& file() const { return file_; }
-
- private:
-  std::string file_;
 };
 
 fs::path resolve(const fs::path& base_dir, const std::string& p) {
@@ -293,45 +186,45 @@ void read_input(const Reader& rd, const YAML::Node& node, const std::string& pat
   if (!column && !event)
     rd.fail(node, path, "missing key `column` (a data column) or `event` (a generated input)");
   in.is_event = static_cast<bool>(event);
-  in.name = in.is_event ? rd.get_string(event, child(path, "event"))
-                        : rd.get_string(column, child(path, "column"));
+  in.name = in.is_event ? rd.get_string(event, key_path(path, "event"))
+                        : rd.get_string(column, key_path(path, "column"));
   if (in.is_event) {
-    if (const auto n = node["shape"]) in.shape = rd.get_enum<EventShape>(n, child(path, "shape"));
+    if (const auto n = node["shape"]) in.shape = rd.get_enum<EventShape>(n, key_path(path, "shape"));
     if (!node["at"])
       rd.fail(node, path, "an event needs `at`: a time stamp of the data or a row index (from 0)");
-    in.at = rd.get_string(node["at"], child(path, "at"));
+    in.at = rd.get_string(node["at"], key_path(path, "at"));
     if (node["future"] || node["known_steps"] || node["model"]) {
       const auto key = node["future"] ? "future" : node["known_steps"] ? "known_steps" : "model";
-      rd.fail(node[key], child(path, key),
+      rd.fail(node[key], key_path(path, key),
               "events are generated from the config, so their future is always known; remove it");
     }
   } else {
     for (const char* key : {"shape", "at"})
       if (node[key])
-        rd.fail(node[key], child(path, key),
+        rd.fail(node[key], key_path(path, key),
                 "only used with `event:` inputs; a `column:` input takes its values from the data");
   }
-  if (const auto n = node["delay"]) in.delay = rd.get_range(n, child(path, "delay"), kMaxDelay);
+  if (const auto n = node["delay"]) in.delay = rd.get_range(n, key_path(path, "delay"), kMaxDelay);
   if (const auto n = node["numerator"])
-    in.numerator = rd.get_range(n, child(path, "numerator"), kMaxNumerator);
+    in.numerator = rd.get_range(n, key_path(path, "numerator"), kMaxNumerator);
   if (const auto n = node["denominator"])
-    in.denominator = rd.get_range(n, child(path, "denominator"), kMaxDenominator);
-  if (const auto n = node["optional"]) in.optional = rd.get_bool(n, child(path, "optional"));
-  if (const auto n = node["future"]) in.future = rd.get_enum<FutureMode>(n, child(path, "future"));
+    in.denominator = rd.get_range(n, key_path(path, "denominator"), kMaxDenominator);
+  if (const auto n = node["optional"]) in.optional = rd.get_bool(n, key_path(path, "optional"));
+  if (const auto n = node["future"]) in.future = rd.get_enum<FutureMode>(n, key_path(path, "future"));
   if (const auto n = node["known_steps"]) {
-    in.known_steps = rd.get_int(n, child(path, "known_steps"));
+    in.known_steps = rd.get_int(n, key_path(path, "known_steps"));
     if (in.future != FutureMode::forecast)
-      rd.fail(n, child(path, "known_steps"), "only used with `future: forecast`");
+      rd.fail(n, key_path(path, "known_steps"), "only used with `future: forecast`");
   }
   if (const auto n = node["model"]) {
-    const auto mpath = child(path, "model");
+    const auto mpath = key_path(path, "model");
     if (in.future != FutureMode::forecast)
       rd.fail(n, mpath, "an input's own model is only used with `future: forecast`");
     rd.check_map(n, mpath, {"ar", "ma"});
     auto order = [&](const char* key) -> std::optional<int> {
       if (!n[key]) return std::nullopt;
-      const int v = rd.get_int(n[key], child(mpath, key));
-      if (v > 5) rd.fail(n[key], child(mpath, key), fmt::format("{} is above the limit of 5", v));
+      const int v = rd.get_int(n[key], key_path(mpath, key));
+      if (v > 5) rd.fail(n[key], key_path(mpath, key), fmt::format("{} is above the limit of 5", v));
       return v;
     };
     in.own_model.p = order("ar");
@@ -392,7 +285,7 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
       rd.fail(n, "backtest.score",
               fmt::format("unknown value '{}'; {}choose one of: {}", bt.score,
                           guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
-                          join(scores)));
+                          join_comma(scores)));
     }
   }
 }

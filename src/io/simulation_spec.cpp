@@ -15,19 +15,10 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "io/yaml_reader.h"
 
 namespace lagsieve {
 namespace {
-
-std::string join(const std::vector<std::string>& items) {
-  std::string out;
-  for (const auto& s : items) out += (out.empty() ? "" : ", ") + s;
-  return out;
-}
-
-std::string child(const std::string& path, const std::string& key) {
-  return path.empty() ? key : path + "." + key;
-}
 
 // Days since 1970-01-01 of a YYYY-MM-DD date that exists; std::nullopt otherwise.
 std::optional<long long> parse_date(const std::string& s) {
@@ -46,111 +37,7 @@ std::optional<long long> parse_date(const std::string& s) {
   return std::chrono::sys_days{ymd}.time_since_epoch().count();
 }
 
-// Walks the YAML tree with the file name in hand, so every message points at the spot.
-class Reader {
- public:
-  explicit Reader(std::string source) : source_(std::move(source)) {}
-
-  [[noreturn]] void fail(const YAML::Node& node, const std::string& path,
-                         const std::string& what) const {
-    const int line = node.Mark().is_null() ? 0 : node.Mark().line + 1;
-    if (path.empty()) throw InputError(fmt::format("{}:{}: {}", source_, line, what));
-    throw InputError(fmt::format("{}:{}: {}: {}", source_, line, path, what));
-  }
-
-  static std::string describe(const YAML::Node& node) {
-    if (node.IsNull()) return "nothing";
-    if (node.IsSequence()) return "a list";
-    if (node.IsMap()) return "a mapping";
-    return fmt::format("'{}'", node.Scalar());
-  }
-
-  // A mapping whose keys are all in `allowed`; an unknown key suggests the closest valid one.
-  void check_map(const YAML::Node& node, const std::string& path,
-                 const std::vector<std::string>& allowed) const {
-    if (!node.IsMap())
-      fail(node, path,
-           fmt::format("expected a mapping of keys ({}), got {}", join(allowed), describe(node)));
-    std::set<std::string> seen;
-    for (const auto& kv : node) {
-      const auto key = kv.first.Scalar();
-      if (std::find(allowed.begin(), allowed.end(), key) == allowed.end()) {
-        const auto guess = closest_match(key, allowed);
-        fail(kv.first, child(path, key),
-             guess.empty() ? fmt::format("unknown key; valid keys here: {}", join(allowed))
-                           : fmt::format("unknown key; did you mean `{}`? (valid keys here: {})",
-                                         guess, join(allowed)));
-      }
-      if (!seen.insert(key).second) fail(kv.first, child(path, key), "key given twice; keep one");
-    }
-  }
-
-  void require_scalar(const YAML::Node& node, const std::string& path,
-                      const std::string& expected) const {
-    if (!node.IsScalar())
-      fail(node, path, fmt::format("expected {}, got {}", expected, describe(node)));
-  }
-
-  long long get_integer(const YAML::Node& node, const std::string& path, long long min_value,
-                        long long max_value) const {
-    require_scalar(node, path, "an integer");
-    const auto& s = node.Scalar();
-    const char* b = s.data();
-    const char* e = s.data() + s.size();
-    if (b != e && *b == '+') ++b;
-    long long v = 0;
-    const auto [p, ec] = std::from_chars(b, e, v);
-    if (ec != std::errc() || p != e || b == e)
-      fail(node, path, fmt::format("expected an integer, got '{}'", s));
-    if (v < min_value) fail(node, path, fmt::format("must be at least {}, got {}", min_value, v));
-    if (v > max_value) fail(node, path, fmt::format("must be at most {}, got {}", max_value, v));
-    return v;
-  }
-
-  int get_int(const YAML::Node& node, const std::string& path, int min_value = 0,
-              int max_value = std::numeric_limits<int>::max()) const {
-    return static_cast<int>(get_integer(node, path, min_value, max_value));
-  }
-
-  double get_double(const YAML::Node& node, const std::string& path) const {
-    require_scalar(node, path, "a number");
-    const auto& s = node.Scalar();
-    const char* b = s.data();
-    const char* e = s.data() + s.size();
-    if (b != e && *b == '+') ++b;
-    double v = 0.0;
-    const auto [p, ec] = std::from_chars(b, e, v);
-    if (ec != std::errc() || p != e || b == e || !std::isfinite(v))
-      fail(node, path, fmt::format("expected a finite number, got '{}'", s));
-    return v;
-  }
-
-  // `0.7` or `[0.7, -0.2]` (or `[]`): a list of coefficients.
-  std::vector<double> get_list(const YAML::Node& node, const std::string& path) const {
-    std::vector<double> out;
-    if (node.IsScalar()) {
-      out.push_back(get_double(node, path));
-    } else if (node.IsSequence()) {
-      for (size_t i = 0; i < node.size(); ++i)
-        out.push_back(get_double(node[i], fmt::format("{}[{}]", path, i)));
-    } else if (!node.IsNull()) {
-      fail(node, path,
-           fmt::format("expected a number or a list of numbers such as [0.5, -0.2], "
-                       "got {}",
-                       describe(node)));
-    }
-    return out;
-  }
-
-  std::string get_string(const YAML::Node& node, const std::string& path) const {
-    require_scalar(node, path, "a text value");
-    if (node.Scalar().empty()) fail(node, path, "must not be empty");
-    return node.Scalar();
-  }
-
- private:
-  std::string source_;
-};
+using Reader = YamlReader;
 
 const std::vector<std::string> kTopKeys{"target",    "n",           "seed",      "start_date",
                                         "frequency", "time_column", "decimals",  "burn_in",
@@ -171,9 +58,9 @@ void read_noise(const Reader& rd, const YAML::Node& node, SimulationSpec& spec) 
   rd.check_map(node, "noise", kNoiseKeys);
   auto coefficients = [&](const char* key, std::vector<double>& out) {
     if (const auto n = node[key]) {
-      out = rd.get_list(n, child("noise", key));
+      out = rd.get_list(n, key_path("noise", key));
       if (out.size() > kMaxCoefficients)
-        rd.fail(n, child("noise", key),
+        rd.fail(n, key_path("noise", key),
                 fmt::format("{} coefficients; at most {}", out.size(), kMaxCoefficients));
     }
   };
@@ -232,64 +119,64 @@ SimulatedInput read_input(const Reader& rd, const YAML::Node& node, const std::s
   rd.check_map(node, path, kInputKeys);
   SimulatedInput in;
   if (!node["name"]) rd.fail(node, path, "missing key `name` (the column or event name)");
-  in.name = rd.get_string(node["name"], child(path, "name"));
+  in.name = rd.get_string(node["name"], key_path(path, "name"));
   if (in.name == spec.target)
-    rd.fail(node["name"], child(path, "name"),
+    rd.fail(node["name"], key_path(path, "name"),
             fmt::format("'{}' is the target's name; give the input another", in.name));
   if (const auto ev = node["event"]) {
     in.is_event = true;
     const auto choices = enum_choices<EventShape>();
-    rd.require_scalar(ev, child(path, "event"), "one of " + join(choices));
+    rd.require_scalar(ev, key_path(path, "event"), "one of " + join_comma(choices));
     const auto shape = parse_enum<EventShape>(ev.Scalar());
     if (!shape) {
       const auto guess = closest_match(ev.Scalar(), choices);
-      rd.fail(ev, child(path, "event"),
+      rd.fail(ev, key_path(path, "event"),
               fmt::format("unknown shape '{}'; {}choose one of: {}", ev.Scalar(),
                           guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
-                          join(choices)));
+                          join_comma(choices)));
     }
     in.shape = *shape;
     if (!node["at"])
       rd.fail(node, path, "an event needs `at`: a 0-based row, or a date with start_date");
-    in.at_row = event_row(rd, node["at"], child(path, "at"), spec, start_node);
+    in.at_row = event_row(rd, node["at"], key_path(path, "at"), spec, start_node);
     if (in.at_row >= spec.n)
-      rd.fail(node["at"], child(path, "at"),
+      rd.fail(node["at"], key_path(path, "at"),
               fmt::format("row {} is not inside the {} simulated rows (0..{})", in.at_row, spec.n,
                           spec.n - 1));
     for (const char* key : {"mean", "ar", "sd", "cycle"})
       if (node[key])
-        rd.fail(node[key], child(path, key),
+        rd.fail(node[key], key_path(path, key),
                 "only for random inputs; an event has fixed values (remove it)");
   } else {
     if (node["at"])
-      rd.fail(node["at"], child(path, "at"), "only for events (add `event: step|pulse|ramp`)");
-    if (const auto n = node["mean"]) in.mean = rd.get_double(n, child(path, "mean"));
+      rd.fail(node["at"], key_path(path, "at"), "only for events (add `event: step|pulse|ramp`)");
+    if (const auto n = node["mean"]) in.mean = rd.get_double(n, key_path(path, "mean"));
     if (const auto n = node["ar"]) {
-      in.ar = rd.get_double(n, child(path, "ar"));
+      in.ar = rd.get_double(n, key_path(path, "ar"));
       if (!(std::abs(in.ar) < 1.0))
-        rd.fail(n, child(path, "ar"), fmt::format("{} must lie strictly between -1 and 1", in.ar));
+        rd.fail(n, key_path(path, "ar"), fmt::format("{} must lie strictly between -1 and 1", in.ar));
     }
     if (const auto n = node["sd"]) {
-      in.sd = rd.get_double(n, child(path, "sd"));
-      if (in.sd < 0.0) rd.fail(n, child(path, "sd"), "must be >= 0 (a standard deviation)");
+      in.sd = rd.get_double(n, key_path(path, "sd"));
+      if (in.sd < 0.0) rd.fail(n, key_path(path, "sd"), "must be >= 0 (a standard deviation)");
     }
     if (const auto c = node["cycle"]) {
-      const auto cpath = child(path, "cycle");
+      const auto cpath = key_path(path, "cycle");
       rd.check_map(c, cpath, kCycleKeys);
       if (!c["amplitude"] || !c["period"])
         rd.fail(c, cpath, "a cycle needs `amplitude` and `period` (rows per cycle)");
-      in.cycle_amplitude = rd.get_double(c["amplitude"], child(cpath, "amplitude"));
-      in.cycle_period = rd.get_double(c["period"], child(cpath, "period"));
+      in.cycle_amplitude = rd.get_double(c["amplitude"], key_path(cpath, "amplitude"));
+      in.cycle_period = rd.get_double(c["period"], key_path(cpath, "period"));
       if (!(in.cycle_period > 0.0))
-        rd.fail(c["period"], child(cpath, "period"), "must be > 0 (rows per cycle)");
-      if (const auto n = c["peak"]) in.cycle_peak = rd.get_double(n, child(cpath, "peak"));
+        rd.fail(c["period"], key_path(cpath, "period"), "must be > 0 (rows per cycle)");
+      if (const auto n = c["peak"]) in.cycle_peak = rd.get_double(n, key_path(cpath, "peak"));
     }
   }
   if (const auto n = node["delay"])
-    in.order.delay = rd.get_int(n, child(path, "delay"), 0, kMaxDelay);
-  if (const auto n = node["omega"]) in.params.omega = rd.get_list(n, child(path, "omega"));
+    in.order.delay = rd.get_int(n, key_path(path, "delay"), 0, kMaxDelay);
+  if (const auto n = node["omega"]) in.params.omega = rd.get_list(n, key_path(path, "omega"));
   if (in.params.omega.empty()) in.params.omega = {0.0};  // no omega: an irrelevant input
-  if (const auto n = node["delta"]) in.params.delta = rd.get_list(n, child(path, "delta"));
+  if (const auto n = node["delta"]) in.params.delta = rd.get_list(n, key_path(path, "delta"));
   if (in.params.omega.size() > kMaxCoefficients || in.params.delta.size() > 4)
     rd.fail(node, path, fmt::format("at most {} omega and 4 delta values", kMaxCoefficients));
   in.order.numerator = static_cast<int>(in.params.omega.size()) - 1;

@@ -41,35 +41,58 @@ void multiply_t_right(const Eigen::VectorXd& ar, const Eigen::MatrixXd& in, Eige
   }
 }
 
-// State recursion of every column with the gains already computed: a_{t+1} = T a_t + K_t v_t,
-// v_t = y_t - a_t(0), storing v_t / sqrt(F_t). Steps from `transient` on use the steady gain
-// (the last row of `gains`). M > 0 fixes the state dimension at compile time so the state lives
-// in registers (the common small models); M = 0 handles any m through `buffer`.
+// State recursion of G columns from column c0 with the gains already computed:
+// a_{t+1} = T a_t + K_t v_t, v_t = y_t - a_t(0), storing v_t / sqrt(F_t). Steps from `transient`
+// on use the steady gain (the last row of `gains`). Each column's recursion is a serial chain of
+// dependent multiply-adds, so G independent columns advance together to keep the floating-point
+// units busy (and row-major `y` makes their values at one step contiguous); every column sees
+// the same operations in the same order as when filtered alone. M > 0 fixes the state dimension
+// at compile time so the states live in registers; M = 0 handles any m through `buffer` (G x m).
+template <int M, int G>
+void filter_group(const RowMatrix& y, Eigen::Index c0, int m, const double* ar,
+                  const RowMatrix& gains, const Eigen::VectorXd& inv_sqrt_f,
+                  Eigen::Index transient, Eigen::MatrixXd& scaled, double* buffer) {
+  const Eigen::Index n = y.rows();
+  const Eigen::Index cols = y.cols();
+  const int dim = M > 0 ? M : m;
+  double local[G][M > 0 ? M : 1];
+  double* a[G];
+  double* w[G];
+  for (int g = 0; g < G; ++g) {
+    a[g] = M > 0 ? local[g] : buffer + g * m;
+    for (int i = 0; i < dim; ++i) a[g][i] = 0.0;
+    w[g] = scaled.col(c0 + g).data();
+  }
+  auto step = [&](Eigen::Index t, const double* k, double scale) {
+    const double* yt = y.data() + t * cols + c0;
+    for (int g = 0; g < G; ++g) {
+      double* ag = a[g];
+      const double v = yt[g] - ag[0];
+      w[g][t] = v * scale;
+      const double a0 = ag[0];
+      for (int i = 0; i + 1 < dim; ++i) ag[i] = ar[i] * a0 + ag[i + 1] + k[i] * v;
+      ag[dim - 1] = ar[dim - 1] * a0 + k[dim - 1] * v;
+    }
+  };
+  for (Eigen::Index t = 0; t < transient; ++t) step(t, gains.data() + t * m, inv_sqrt_f(t));
+  const double* k = gains.data() + (transient - 1) * m;
+  const double scale = inv_sqrt_f(transient - 1);
+  for (Eigen::Index t = transient; t < n; ++t) step(t, k, scale);
+}
+
+constexpr int kColumnGroup = 4;
+
 template <int M>
 void filter_columns(const RowMatrix& y, int m, const double* ar, const RowMatrix& gains,
                     const Eigen::VectorXd& inv_sqrt_f, Eigen::Index transient,
                     Eigen::MatrixXd& scaled, double* buffer) {
-  const Eigen::Index n = y.rows();
   const Eigen::Index cols = y.cols();
-  const int dim = M > 0 ? M : m;
-  double local[M > 0 ? M : 1];
-  double* a = M > 0 ? local : buffer;
-  for (Eigen::Index c = 0; c < cols; ++c) {
-    for (int i = 0; i < dim; ++i) a[i] = 0.0;
-    const double* yc = y.data() + c;
-    double* wc = scaled.col(c).data();
-    auto step = [&](Eigen::Index t, const double* k, double scale) {
-      const double v = yc[t * cols] - a[0];
-      wc[t] = v * scale;
-      const double a0 = a[0];
-      for (int i = 0; i + 1 < dim; ++i) a[i] = ar[i] * a0 + a[i + 1] + k[i] * v;
-      a[dim - 1] = ar[dim - 1] * a0 + k[dim - 1] * v;
-    };
-    for (Eigen::Index t = 0; t < transient; ++t) step(t, gains.data() + t * m, inv_sqrt_f(t));
-    const double* k = gains.data() + (transient - 1) * m;
-    const double scale = inv_sqrt_f(transient - 1);
-    for (Eigen::Index t = transient; t < n; ++t) step(t, k, scale);
-  }
+  Eigen::Index c = 0;
+  for (; c + kColumnGroup <= cols; c += kColumnGroup)
+    filter_group<M, kColumnGroup>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
+  for (; c + 2 <= cols; c += 2)
+    filter_group<M, 2>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
+  for (; c < cols; ++c) filter_group<M, 1>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
 }
 
 }  // namespace
@@ -168,7 +191,7 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
     case 3: filter_columns<3>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
     case 4: filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
     default:
-      ws.states.resize(m, 1);
+      ws.states.resize(kColumnGroup, m);
       filter_columns<0>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled,
                         ws.states.data());
   }
