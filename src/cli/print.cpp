@@ -16,7 +16,8 @@ const SeriesData& pick_series(const LoadedRun& run, const std::string& name) {
     if (s.target_name == name) return s;
     names += (names.empty() ? "" : ", ") + s.target_name;
   }
-  throw InputError(fmt::format("--series {}: not a target of this config (targets: {})", name, names));
+  throw InputError(
+      fmt::format("--series {}: not a target of this config (targets: {})", name, names));
 }
 
 namespace {
@@ -36,7 +37,9 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", "parameter", "estimate", "std. error", "ratio");
   for (const auto& e : fit.estimates)
     fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", e.name, num(e.value, 6), num(e.std_error, 3),
-               std::isfinite(e.std_error) && e.std_error > 0 ? fmt::format("{:.1f}", e.value / e.std_error) : "—");
+               std::isfinite(e.std_error) && e.std_error > 0
+                   ? fmt::format("{:.1f}", e.value / e.std_error)
+                   : "—");
   fmt::print("  {:<28} {:>12}\n\n", "sigma^2 (innovations)", num(fit.sigma2, 6));
   fmt::print("log-likelihood {}   k = {} (sigma^2 counted)   AIC {}   AICc {}   BIC {}\n",
              num(fit.loglik, 8), fit.n_params, num(fit.aic, 8), num(fit.aicc, 8), num(fit.bic, 8));
@@ -50,6 +53,15 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
     for (const auto& lb : fit.diagnostics.ljung_box)
       fmt::print("  up to lag {:>3}: Q = {:>8}  df {:>3}  p = {}\n", lb.lag, num(lb.statistic, 5),
                  lb.df, num(lb.p_value, 3));
+  }
+  if (!fit.diagnostics.residual_input.empty()) {
+    fmt::print(
+        "\nresiduals against each prewhitened input (small p = a lag the transfer function "
+        "misses):\n");
+    for (const auto& c : fit.diagnostics.residual_input)
+      fmt::print("  {:<20} S = {:>8}  df {:>3}  p = {:<9}  largest at lag {} (r = {}, band ±{})\n",
+                 c.input, num(c.statistic, 5), c.df, num(c.p_value, 3), c.largest_lag,
+                 num(c.values[static_cast<size_t>(c.largest_lag + c.max_lag)], 3), num(c.band, 3));
   }
   if (!fit.diagnostics.roots.empty()) {
     fmt::print("\nsmallest root modulus (must exceed 1; near 1 = near a unit root):\n");

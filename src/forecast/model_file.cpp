@@ -331,6 +331,20 @@ json fit_to_json(const FitResult& fit) {
       d["residual_acf"]["values"].push_back(r[k]);
     }
   }
+  // Residuals against each prewhitened input: lags -L..L (input at t-k against residual at t),
+  // the portmanteau over lags 0..L.
+  d["residual_input_ccf"] = json::array();
+  for (const auto& c : fit.diagnostics.residual_input)
+    d["residual_input_ccf"].push_back({{"input", c.input},
+                                       {"lags", c.lags},
+                                       {"values", c.values},
+                                       {"band", c.band},
+                                       {"statistic", c.statistic},
+                                       {"df", c.df},
+                                       {"p_value", c.p_value},
+                                       {"ar_order", c.ar_order},
+                                       {"n", c.n},
+                                       {"largest_lag", c.largest_lag}});
   j["diagnostics"] = d;
   return j;
 }

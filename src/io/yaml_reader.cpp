@@ -62,7 +62,8 @@ void YamlReader::check_map(const YAML::Node& node, const std::string& path,
 
 void YamlReader::require_scalar(const YAML::Node& node, const std::string& path,
                                 const std::string& expected) const {
-  if (!node.IsScalar()) fail(node, path, fmt::format("expected {}, got {}", expected, describe(node)));
+  if (!node.IsScalar())
+    fail(node, path, fmt::format("expected {}, got {}", expected, describe(node)));
 }
 
 long long YamlReader::get_integer(const YAML::Node& node, const std::string& path,

@@ -10,7 +10,7 @@
 
 namespace lagsieve {
 
-std::string join_comma(const std::vector<std::string>& items);       // "a, b, c"
+std::string join_comma(const std::vector<std::string>& items);          // "a, b, c"
 std::string key_path(const std::string& path, const std::string& key);  // "path.key" or "key"
 
 class YamlReader {

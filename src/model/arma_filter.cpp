@@ -50,8 +50,8 @@ void multiply_t_right(const Eigen::VectorXd& ar, const Eigen::MatrixXd& in, Eige
 // at compile time so the states live in registers; M = 0 handles any m through `buffer` (G x m).
 template <int M, int G>
 void filter_group(const RowMatrix& y, Eigen::Index c0, int m, const double* ar,
-                  const RowMatrix& gains, const Eigen::VectorXd& inv_sqrt_f,
-                  Eigen::Index transient, Eigen::MatrixXd& scaled, double* buffer) {
+                  const RowMatrix& gains, const Eigen::VectorXd& inv_sqrt_f, Eigen::Index transient,
+                  Eigen::MatrixXd& scaled, double* buffer) {
   const Eigen::Index n = y.rows();
   const Eigen::Index cols = y.cols();
   const int dim = M > 0 ? M : m;
@@ -92,7 +92,8 @@ void filter_columns(const RowMatrix& y, int m, const double* ar, const RowMatrix
     filter_group<M, kColumnGroup>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
   for (; c + 2 <= cols; c += 2)
     filter_group<M, 2>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
-  for (; c < cols; ++c) filter_group<M, 1>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
+  for (; c < cols; ++c)
+    filter_group<M, 1>(y, c, m, ar, gains, inv_sqrt_f, transient, scaled, buffer);
 }
 
 }  // namespace
@@ -186,10 +187,18 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
   ws.scaled.resize(n, cols);
   const double* ar_coef = ws.ar_full.data();
   switch (m) {
-    case 1: filter_columns<1>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
-    case 2: filter_columns<2>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
-    case 3: filter_columns<3>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
-    case 4: filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr); break;
+    case 1:
+      filter_columns<1>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 2:
+      filter_columns<2>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 3:
+      filter_columns<3>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 4:
+      filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
     default:
       ws.states.resize(kColumnGroup, m);
       filter_columns<0>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled,

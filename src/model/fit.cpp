@@ -146,41 +146,76 @@ double max_abs_pacf(std::span<const double> z) {
   return m;
 }
 
-// Numerical Hessian of the log-likelihood in natural coordinates of (nonlinear, linear).
-Eigen::MatrixXd numerical_hessian(const LikelihoodProblem& problem, std::span<const double> x0,
-                                  int n_nonlinear, LikelihoodWorkspace& ws) {
-  const int d = static_cast<int>(x0.size());
-  std::vector<double> x(x0.begin(), x0.end());
-  auto f = [&](const std::vector<double>& v) {
-    const auto p = unpack(problem.spec, std::span<const double>(v).first(n_nonlinear),
-                          std::span<const double>(v).subspan(n_nonlinear), 1.0);
-    return loglik_at(problem, p, ws);
-  };
-  std::vector<double> h(d);
-  for (int i = 0; i < d; ++i) h[i] = 1e-4 * std::max(std::abs(x0[i]), 0.05);
-  const double f0 = f(x);
-  Eigen::MatrixXd hess(d, d);
-  for (int i = 0; i < d; ++i) {
-    x[i] = x0[i] + h[i];
-    const double fp = f(x);
-    x[i] = x0[i] - h[i];
-    const double fm = f(x);
-    x[i] = x0[i];
-    hess(i, i) = (fp - 2.0 * f0 + fm) / (h[i] * h[i]);
-    for (int j = 0; j < i; ++j) {
-      double acc = 0.0;
-      for (int si : {1, -1})
-        for (int sj : {1, -1}) {
-          x[i] = x0[i] + si * h[i];
-          x[j] = x0[j] + sj * h[j];
-          acc += si * sj * f(x);
-        }
-      x[i] = x0[i];
-      x[j] = x0[j];
-      hess(i, j) = hess(j, i) = acc / (4.0 * h[i] * h[j]);
-    }
+// Covariance of every estimate from the profile log-likelihood, without a Hessian over the
+// linear parameters. With H the negative Hessian of the full log-likelihood, split into the
+// nonlinear (theta) and linear (beta) blocks, the inverse of the negative profile Hessian S is
+// exactly the theta block of H^-1; the linear estimates beta(theta) are the GLS solution, so
+// with J = d beta / d theta the other blocks are J S^-1 and C^-1 + J S^-1 J', where
+// C^-1 = sigma^2 (X' Sigma^-1 X)^-1 is the GLS covariance at fixed theta. S costs
+// 1 + 2d + d(d - 1)/2 profile evaluations for d nonlinear parameters (central differences on
+// the diagonal, a one-sided cross difference off it) and J comes free from the diagonal steps,
+// against 1 + 2D + 2D(D - 1) for a central Hessian over all D = d + linear parameters.
+// Returns false when a step leaves the admissible region or the curvature is not definite.
+bool profile_covariance(const LikelihoodProblem& problem, std::span<const double> theta0,
+                        const ProfileValue& at_optimum, LikelihoodWorkspace& ws,
+                        Eigen::MatrixXd& covariance) {
+  const int d = static_cast<int>(theta0.size());
+  const auto k = at_optimum.linear.size();
+  Eigen::LDLT<Eigen::MatrixXd> gls(at_optimum.linear_information);
+  const Eigen::MatrixXd c_inv =
+      k > 0 ? Eigen::MatrixXd(at_optimum.sigma2 * gls.solve(Eigen::MatrixXd::Identity(k, k)))
+            : Eigen::MatrixXd(0, 0);
+  if (d == 0) {
+    covariance = c_inv;
+    return c_inv.allFinite();
   }
-  return hess;
+  std::vector<double> x(theta0.begin(), theta0.end());
+  bool ok = true;
+  auto eval = [&]() {
+    auto v = profile_loglik(problem, x, ws);
+    ok = ok && v.ok;
+    return v;
+  };
+  std::vector<double> h(d), f_plus(d);
+  for (int i = 0; i < d; ++i) h[i] = 1e-4 * std::max(std::abs(theta0[i]), 0.05);
+  const double f0 = at_optimum.loglik;
+  Eigen::MatrixXd s(d, d);
+  Eigen::MatrixXd jac(k, d);
+  for (int i = 0; i < d; ++i) {
+    x[i] = theta0[i] + h[i];
+    const auto plus = eval();
+    x[i] = theta0[i] - h[i];
+    const auto minus = eval();
+    x[i] = theta0[i];
+    if (!ok) return false;
+    f_plus[i] = plus.loglik;
+    s(i, i) = -(plus.loglik - 2.0 * f0 + minus.loglik) / (h[i] * h[i]);
+    if (k > 0) jac.col(i) = (plus.linear - minus.linear) / (2.0 * h[i]);
+  }
+  for (int i = 0; i < d; ++i)
+    for (int j = 0; j < i; ++j) {
+      x[i] = theta0[i] + h[i];
+      x[j] = theta0[j] + h[j];
+      const double f_ij = eval().loglik;
+      x[i] = theta0[i];
+      x[j] = theta0[j];
+      if (!ok) return false;
+      s(i, j) = s(j, i) = -(f_ij - f_plus[i] - f_plus[j] + f0) / (h[i] * h[j]);
+    }
+  Eigen::LDLT<Eigen::MatrixXd> ldlt(s);
+  if (!s.allFinite() || ldlt.info() != Eigen::Success || !ldlt.isPositive() ||
+      ldlt.vectorD().minCoeff() <= 0.0)
+    return false;
+  const Eigen::MatrixXd s_inv = ldlt.solve(Eigen::MatrixXd::Identity(d, d));
+  covariance.resize(d + k, d + k);
+  covariance.topLeftCorner(d, d) = s_inv;
+  if (k > 0) {
+    const Eigen::MatrixXd cross = jac * s_inv;
+    covariance.bottomLeftCorner(k, d) = cross;
+    covariance.topRightCorner(d, k) = cross.transpose();
+    covariance.bottomRightCorner(k, k) = c_inv + cross * jac.transpose();
+  }
+  return covariance.allFinite();
 }
 
 void add_roots(FitDiagnostics& diag, const std::string& name, std::span<const double> a,
@@ -271,6 +306,25 @@ void compute_diagnostics(const LikelihoodProblem& problem, FitResult& fit,
     delta_offset += static_cast<int>(ip.delta.size());
     omega_offset += static_cast<int>(ip.omega.size());
   }
+
+  // Residuals against each prewhitened input over the likelihood sample (rows start..N-1 of the
+  // differenced input pair with the residuals row by row).
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    const auto& term = spec.inputs[i];
+    const std::span<const double> u(problem.u[i]);
+    auto check = residual_input_correlation(term.name, fit.residuals, u.subspan(problem.start),
+                                            term.order.numerator + term.order.denominator + 1);
+    if (!check) continue;
+    if (check->p_value < ResidualInputOptions{}.warn_level)
+      diag.warnings.push_back(fmt::format(
+          "residual_input_correlation: residuals still correlate with prewhitened {} (S = {:.1f}, "
+          "df {}, p = {:.2g}; largest at lag {}: {:.2f}, band {:.2f}); its transfer function "
+          "misses a lag or has the wrong delay",
+          term.name, check->statistic, check->df, check->p_value, check->largest_lag,
+          check->values[check->largest_lag + check->max_lag], check->band));
+    diag.residual_input.push_back(std::move(*check));
+  }
+
   add_roots(diag, "ar", p.phi, -1.0);
   add_roots(diag, "ma", p.theta, +1.0);
   add_roots(diag, "seasonal_ar", p.seasonal_phi, -1.0);
@@ -364,7 +418,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
                           : "closed form: no nonlinear parameters";
   }
 
-  // Estimates, covariance from the numerical Hessian of the full log-likelihood.
+  // Estimates, covariance from the curvature of the profile log-likelihood.
   const auto nl_names = nonlinear_names(problem.spec);
   const auto l_names = linear_names(problem.spec);
   std::vector<double> all(natural);
@@ -372,13 +426,10 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
   fit.covariance.resize(0, 0);
   std::vector<double> se(all.size(), std::numeric_limits<double>::quiet_NaN());
   if (options.standard_errors && !all.empty()) {
-    const Eigen::MatrixXd hess = numerical_hessian(problem, all, dim, ws);
-    Eigen::LDLT<Eigen::MatrixXd> ldlt(-hess);
-    if (hess.allFinite() && ldlt.info() == Eigen::Success && ldlt.isPositive() &&
-        ldlt.vectorD().minCoeff() > 0.0) {
-      fit.covariance = ldlt.solve(Eigen::MatrixXd::Identity(all.size(), all.size()));
+    if (profile_covariance(problem, natural, value, ws, fit.covariance)) {
       for (size_t i = 0; i < all.size(); ++i) se[i] = std::sqrt(fit.covariance(i, i));
     } else {
+      fit.covariance.resize(0, 0);
       fit.diagnostics.warnings.emplace_back(
           "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
           "standard errors are not available");

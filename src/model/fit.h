@@ -16,6 +16,7 @@
 #include "core/spec.h"
 #include "model/likelihood.h"
 #include "model/params.h"
+#include "model/residual_input.h"
 
 namespace lagsieve {
 
@@ -28,8 +29,8 @@ struct FitOptions {
   int max_evaluations = 0;              // 0: 300 + 150 * (number of nonlinear parameters)
   double relative_tolerance = 1e-10;    // stop when the log-likelihood changes less (relative)
   double boundary_pacf = 0.995;         // |partial autocorrelation| beyond: on the boundary
-  bool standard_errors = true;          // numerical Hessian (2 d^2 likelihood evaluations)
-  bool diagnostics = true;              // residuals, Ljung-Box, roots, gains
+  bool standard_errors = true;          // profile-likelihood curvature (about d^2/2 evaluations)
+  bool diagnostics = true;              // residuals, Ljung-Box, roots, gains, residual-input ccf
   std::optional<ModelParams> warm_start;  // start here instead of the regression start values
 };
 
@@ -62,6 +63,9 @@ struct FitDiagnostics {
   std::vector<LjungBoxResult> ljung_box;
   std::vector<InputGain> gains;
   std::vector<PolynomialRoots> roots;
+  // Per input (spec order; an input is left out where the check is undefined, e.g. constant
+  // over the sample): residuals against the prewhitened input, see model/residual_input.h.
+  std::vector<ResidualInputCorrelation> residual_input;
   std::vector<std::string> warnings;  // fixed codes with numbers, e.g. "near_cancellation: ..."
 };
 

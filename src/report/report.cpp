@@ -1395,6 +1395,66 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
     bc.frame.width = kWideChart;
     s.blocks.push_back(b.figure(bar_chart_svg(bc), b.stem("residual_acf", sf), ""));
   }
+  // Residuals against each prewhitened input (absent from fit files written before the check).
+  if (d.contains("residual_input_ccf") && d["residual_input_ccf"].is_array() &&
+      !d["residual_input_ccf"].empty()) {
+    HtmlTable t;
+    t.caption = "Residual\u2013input cross-correlation test";
+    t.columns = {{"Input", "", NumberFormat::automatic, 3},
+                 {"Lags", "", NumberFormat::automatic, 0},
+                 {"Degrees of freedom", "", NumberFormat::automatic, 0},
+                 {"Statistic", "", NumberFormat::fixed, 2},
+                 {"p-value", "", NumberFormat::p_value, 3},
+                 {"Largest at lag", "", NumberFormat::automatic, 0}};
+    for (size_t i = 0; i < d["residual_input_ccf"].size(); ++i) {
+      const json& e = d["residual_input_ccf"][i];
+      const std::string path = fmt::format("diagnostics.residual_input_ccf[{}].", i);
+      const std::string name = f.text(e, "input", path);
+      BarChart bc;
+      bc.x = f.numbers(e, "lags", path);
+      bc.values = f.numbers(e, "values", path);
+      if (bc.x.size() != bc.values.size()) f.fail(path + "lags", "does not match values in length");
+      const double band = f.number(e, "band", path);
+      const double stat = f.number(e, "statistic", path), p = f.number(e, "p_value", path);
+      const double df = f.number(e, "df", path);
+      if (std::isfinite(band)) bc.band = {band};
+      bc.band_label = fmt::format("\u00b1{} (1.96/\u221an)", short_num(band));
+      // The lag k >= 0 with the largest |r|: where a missing term would sit.
+      double max_lag = 0.0, largest = -1.0, largest_lag = kNaN;
+      for (size_t k = 0; k < bc.x.size(); ++k) {
+        max_lag = std::max(max_lag, bc.x[k]);
+        if (bc.x[k] >= 0 && std::isfinite(bc.values[k]) && std::fabs(bc.values[k]) > largest)
+          largest = std::fabs(bc.values[k]), largest_lag = bc.x[k];
+      }
+      bc.frame.title = fmt::format(
+          "Residuals vs {}: bars beyond the band at k \u2265 0 mark lags its transfer function "
+          "misses",
+          name);
+      const std::string prewhitened =
+          e.contains("ar_order")
+              ? fmt::format("{} prewhitened by AR({:.0f})", name, f.number(e, "ar_order", path))
+              : fmt::format("{} prewhitened", name);
+      bc.frame.subtitle = fmt::format(
+          "{}; test over lags 0\u2013{:.0f}: S = {}, df {:.0f}, p = {}{}; bars at k < 0 "
+          "(residual first) point to feedback",
+          prewhitened, max_lag, short_num(stat), df, p < 0.001 ? "< 0.001" : short_num(p),
+          p < 0.01 ? " (significant)" : "");
+      bc.frame.x_title =
+          fmt::format("Lag k (steps; {} at t\u2212k against the residual at t)", name);
+      bc.frame.y_title = "Cross-correlation";
+      bc.frame.width = kWideChart;
+      s.blocks.push_back(b.figure(bar_chart_svg(bc), b.stem("residual_ccf_" + name, sf), ""));
+      t.rows.push_back(
+          {cell(name), cell(fmt::format("0\u2013{:.0f}", max_lag)),
+           std::isfinite(df) ? cell(static_cast<int>(df)) : cell(kNaN), cell(stat), cell(p),
+           std::isfinite(largest_lag) ? cell(static_cast<int>(largest_lag)) : cell(kNaN)});
+    }
+    t.note =
+        "Portmanteau over lags 0 to L of the residuals against the prewhitened input, with "
+        "L + 1 \u2212 (r + s + 1) degrees of freedom. A small p-value: try another delay or more "
+        "numerator or denominator lags.";
+    s.blocks.push_back(std::move(t));
+  }
   if (d.contains("ljung_box") && d["ljung_box"].is_array() && !d["ljung_box"].empty()) {
     HtmlTable t;
     t.caption = "Ljung-Box test of the residuals";

@@ -1,45 +1,21 @@
 // The built binary against malformed configs and data: every case must exit 2, print a message
 // that points at the problem, and write nothing.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
 
-#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <string>
 #include <vector>
 
+#include "run_binary.h"
+
 namespace {
 
 namespace fs = std::filesystem;
 
-struct Result {
-  int code = -1;
-  std::string out;
-  std::string err;
-};
-
-std::string slurp(const fs::path& p) {
-  std::ifstream in(p);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
-
-// Runs `lagsieve <args>` in `dir`, capturing both streams.
-Result run(const fs::path& dir, const std::string& args) {
-  const std::string cmd = "cd '" + dir.string() + "' && '" + LAGSIEVE_BINARY + "' " + args +
-                          " > stdout.txt 2> stderr.txt";
-  const int status = std::system(cmd.c_str());
-  Result r;
-  r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  r.out = slurp(dir / "stdout.txt");
-  r.err = slurp(dir / "stderr.txt");
-  fs::remove(dir / "stdout.txt");
-  fs::remove(dir / "stderr.txt");
-  return r;
-}
+using lagsieve::testing::slurp;
+const auto run = lagsieve::testing::run_lagsieve;
 
 // 60 daily rows: a target driven by temperature, a price column, no gaps.
 std::string good_csv(int n = 60) {

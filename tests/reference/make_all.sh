@@ -24,6 +24,7 @@ $R $ref/dm_test/make_dm_test.R
 $PY $ref/dm_test/make_dm_test.py
 $R $ref/ljung_box/make_ljung_box.R
 $PY $ref/ljung_box/make_ljung_box.py
+$R $ref/residual_ccf/make_residual_ccf.R
 echo "all fixtures regenerated"
 
 # Fixtures kept by other topics beside their tests.

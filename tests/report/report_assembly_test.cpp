@@ -147,7 +147,7 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   const std::vector<std::string> files = {
       "ccf_temp.svg", "impulse_temp.svg", "ccf_price.svg", "impulse_price.svg", "forecast_fan.svg",
       "backtest_error_by_horizon.svg", "backtest_inputs_known_vs_forecast.svg", "coverage.svg",
-      "backtest_one_step.svg", "residual_acf.svg"};
+      "backtest_one_step.svg", "residual_acf.svg", "residual_ccf_temp.svg"};
   ASSERT_EQ(r.charts.size(), files.size());
   for (size_t i = 0; i < files.size(); ++i) {
     EXPECT_EQ(r.charts[i], dir / "charts" / files[i]);
@@ -344,6 +344,28 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   }
   expect_same(lags, {1, 2, 3, 4, 5}, "acf lags");
   expect_same(values, {0.05, -0.21, 0.1, 0.0, -0.03}, "acf");
+  // Residuals against the prewhitened input: the bars, band and test are fit.json's.
+  const json fit = test::fit_json("demand");
+  const json& rc = fit["diagnostics"]["residual_input_ccf"][0];
+  const auto ccf_svg = chart(dir, "residual_ccf_temp.svg", html);
+  lags.clear();
+  values.clear();
+  for (const auto& b : find_all(ccf_svg, "rect", "bar")) {
+    lags.push_back(std::stod(b.attrs.at("data-x")));
+    values.push_back(std::stod(b.attrs.at("data-value")));
+  }
+  expect_same(lags, from_json(rc["lags"]), "residual-input lags");
+  expect_same(values, from_json(rc["values"]), "residual-input ccf");
+  const std::string ccf_text = read_file(dir / "charts" / "residual_ccf_temp.svg");
+  EXPECT_NE(ccf_text.find("transfer function misses"), std::string::npos);
+  EXPECT_NE(ccf_text.find(
+                "temp prewhitened by AR(1); test over lags 0\u20133: S = 11.5, df 2, p = 0.00315 "
+                "(significant)"),
+            std::string::npos);
+  const auto rct = table_cells(html, "Residual\u2013input cross-correlation test");
+  ASSERT_EQ(rct.size(), 1u);
+  EXPECT_EQ(rct[0], (std::vector<std::string>{"temp", "0\u20133", "2", "11.52", "0.003", "2"}));
+
   const auto lbx = table_cells(html, "Ljung-Box test");
   ASSERT_EQ(lbx.size(), 2u);
   EXPECT_EQ(lbx[1], (std::vector<std::string>{"24", "23", "20.25", "0.626"}));
@@ -354,6 +376,23 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   const auto roots = table_cells(html, "Polynomial roots");
   ASSERT_EQ(roots.size(), 2u);
   EXPECT_EQ(roots[0][2], "2.000");
+}
+
+TEST(Report, FitFileWithoutResidualInputCheckStillLoads) {
+  // fit.json written before the residual-input check: the rest of the diagnostics as before.
+  const fs::path dir = fresh_dir("old-fit");
+  test::write_full_run(dir);
+  json fit = test::fit_json("demand");
+  fit["diagnostics"].erase("residual_input_ccf");
+  write_text(dir / "fit.json", fit.dump(1));
+  const ReportResult r = write_report(dir);
+  const std::string html = read_file(r.path);
+  ASSERT_TRUE(parse_markup(html).ok);
+  EXPECT_TRUE(fs::exists(dir / "charts" / "residual_acf.svg"));
+  EXPECT_FALSE(fs::exists(dir / "charts" / "residual_ccf_temp.svg"));
+  EXPECT_TRUE(table_cells(html, "Residual\u2013input cross-correlation test").empty());
+  EXPECT_EQ(table_cells(html, "Ljung-Box test").size(), 2u);
+  fs::remove_all(dir);
 }
 
 TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {

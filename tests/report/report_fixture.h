@@ -131,7 +131,12 @@ inline json fit_json(const std::string& series) {
                        {{"polynomial", "phi"}, {"min_modulus", 3.333}, {"roots", {{3.333, 0.0}}}}}},
             {"warnings", {"omega of temp is large"}},
             {"residual_acf", {{"lags", {1, 2, 3, 4, 5}}, {"values", {0.05, -0.21, 0.1, 0.0, -0.03}},
-                              {"band", 0.2}}}}}};
+                              {"band", 0.2}}},
+            {"residual_input_ccf",
+             {{{"input", "temp"}, {"lags", {-3, -2, -1, 0, 1, 2, 3}},
+               {"values", {0.02, -0.05, 0.01, 0.04, 0.03, 0.31, -0.06}}, {"band", 0.2},
+               {"statistic", 11.52}, {"df", 2}, {"p_value", 0.00315}, {"ar_order", 1}, {"n", 95},
+               {"largest_lag", 2}}}}}}};
 }
 
 inline json forecast_json(const std::string& series) {

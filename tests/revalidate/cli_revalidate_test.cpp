@@ -3,12 +3,9 @@
 // the same process, 10 or 11 after a change (matching the verdict in revalidation.json), 2 for a
 // revised history, and go on with --allow-revised-history.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
 
-#include <cstdlib>
 #include <filesystem>
 #include <fstream>
-#include <sstream>
 #include <string>
 
 #include <nlohmann/json.hpp>
@@ -20,29 +17,6 @@ namespace {
 
 namespace fs = std::filesystem;
 using namespace lagsieve::testing;
-
-struct Result {
-  int code = -1;
-  std::string out, err;
-};
-
-std::string slurp(const fs::path& p) {
-  std::ifstream in(p);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
-
-Result run(const fs::path& dir, const std::string& args) {
-  const std::string cmd = "cd '" + dir.string() + "' && '" + LAGSIEVE_BINARY + "' " + args +
-                          " > stdout.txt 2> stderr.txt";
-  const int status = std::system(cmd.c_str());
-  Result r;
-  r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  r.out = slurp(dir / "stdout.txt");
-  r.err = slurp(dir / "stderr.txt");
-  return r;
-}
 
 std::string yaml(const std::string& csv, const std::string& out) {
   return "data: {file: " + csv + ", time: t}\n"
@@ -75,22 +49,22 @@ TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   const std::uint64_t seed = 7001;
   const SeriesData same = simulate(truth(seed));
   const SeriesData changed = spliced(same, simulate(truth(seed, 1.0, 2)));
-  write_csv(dir / "train.csv", head(same, kTrainingRows));
-  write_csv(dir / "same.csv", same);
-  write_csv(dir / "changed.csv", changed);
+  write_series_csv(dir / "train.csv", head(same, kTrainingRows));
+  write_series_csv(dir / "same.csv", same);
+  write_series_csv(dir / "changed.csv", changed);
   SeriesData revised = same;
   revised.target[40] += 0.25;
-  write_csv(dir / "revised.csv", revised);
+  write_series_csv(dir / "revised.csv", revised);
   write(dir / "train.yaml", yaml("train.csv", "run"));
   for (const char* name : {"same", "changed", "revised"})
     write(dir / (std::string(name) + ".yaml"), yaml(std::string(name) + ".csv", "unused"));
 
-  const Result search = run(dir, "search train.yaml --quiet");
+  const CommandResult search = run_lagsieve(dir, "search train.yaml --quiet");
   ASSERT_EQ(search.code, 0) << search.err;
   const auto model = nlohmann::json::parse(slurp(dir / "run" / "model.json"));
   ASSERT_TRUE(model.contains("backtest"));
 
-  const Result keep = run(dir, "revalidate run/model.json same.yaml --out same_out --quiet");
+  const CommandResult keep = run_lagsieve(dir, "revalidate run/model.json same.yaml --out same_out --quiet");
   EXPECT_EQ(keep.code, 0) << keep.out << keep.err;
   EXPECT_EQ(verdict_in(dir / "same_out"), "keep");
   EXPECT_NE(keep.out.find("Verdict: keep"), std::string::npos) << keep.out;
@@ -99,19 +73,19 @@ TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   const auto doc = nlohmann::json::parse(slurp(dir / "same_out" / "revalidation.json"));
   EXPECT_EQ(doc["performance"]["baseline"], "model file");
 
-  const Result change = run(dir, "revalidate run/model.json changed.yaml --out changed_out --quiet --json");
+  const CommandResult change = run_lagsieve(dir, "revalidate run/model.json changed.yaml --out changed_out --quiet --json");
   ASSERT_TRUE(change.code == 10 || change.code == 11) << change.code << change.err;
   EXPECT_EQ(change.code, code_of(verdict_in(dir / "changed_out")));
   EXPECT_EQ(nlohmann::json::parse(change.out)["verdict"], verdict_in(dir / "changed_out"));
   EXPECT_TRUE(fs::exists(dir / "changed_out" / "challenger_model.json"));
 
-  const Result refused = run(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet");
+  const CommandResult refused = run_lagsieve(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet");
   EXPECT_EQ(refused.code, 2);
   EXPECT_NE(refused.err.find("are not the data the model was trained on"), std::string::npos) << refused.err;
   EXPECT_FALSE(fs::exists(dir / "revised_out" / "revalidation.json"));
 
-  const Result allowed =
-      run(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet --allow-revised-history");
+  const CommandResult allowed =
+      run_lagsieve(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet --allow-revised-history");
   EXPECT_NE(allowed.code, 2) << allowed.err;
   EXPECT_EQ(allowed.code, code_of(verdict_in(dir / "revised_out")));
   EXPECT_EQ(nlohmann::json::parse(slurp(dir / "revised_out" / "revalidation.json"))["history"]["history_revised"],

@@ -14,6 +14,7 @@
 #include "model/fit.h"
 #include "model/likelihood.h"
 #include "model/simulate.h"
+#include "run_binary.h"
 
 namespace lagsieve::testing {
 
@@ -88,19 +89,6 @@ inline FittedModel deployed_model(const SeriesData& training, const RunConfig& c
   spec.constant = true;
   const FitResult fit = fit_model(make_problem(training, spec));
   return make_fitted_model(fit, config, training);
-}
-
-// CSV with an integer time column `t`, the target `y` and every input, at full precision.
-inline void write_csv(const std::filesystem::path& file, const SeriesData& data) {
-  std::ofstream out(file);
-  out << "t,y";
-  for (const auto& name : data.input_names) out << "," << name;
-  out << "\n";
-  for (int t = 0; t < data.rows(); ++t) {
-    out << (t + 1) << "," << fmt::format("{:.17g}", data.target[t]);
-    for (const auto& column : data.inputs) out << "," << fmt::format("{:.17g}", column[t]);
-    out << "\n";
-  }
 }
 
 }  // namespace lagsieve::testing

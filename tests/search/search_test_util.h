@@ -12,6 +12,7 @@
 #include "core/config.h"
 #include "core/series.h"
 #include "model/simulate.h"
+#include "run_binary.h"
 
 namespace lagsieve::testing {
 
@@ -85,19 +86,6 @@ inline RunConfig config_of(const SearchCase& c, int threads) {
   config.search.criterion = Criterion::bic;
   config.search.threads = threads;
   return config;
-}
-
-// CSV with an integer time column `t`, the target `y` and every input, at full precision.
-inline void write_series_csv(const std::filesystem::path& file, const SeriesData& data) {
-  std::ofstream out(file);
-  out << "t,y";
-  for (const auto& name : data.input_names) out << "," << name;
-  out << "\n";
-  for (int t = 0; t < data.rows(); ++t) {
-    out << (t + 1) << "," << fmt::format("{:.17g}", data.target[t]);
-    for (const auto& column : data.inputs) out << "," << fmt::format("{:.17g}", column[t]);
-    out << "\n";
-  }
 }
 
 }  // namespace lagsieve::testing

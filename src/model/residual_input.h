@@ -1,0 +1,50 @@
+#pragma once
+// Cross-correlation of a fitted model's residuals with one of its inputs, the Box-Jenkins check
+// of the transfer-function part: a term the model misses (a wrong delay, too few numerator or
+// denominator lags) leaves residuals that still correlate with the input's past. The input is
+// prewhitened first, as the screen does (AR by AIC, screen/correlation.h), so that the input's own
+// autocorrelation does not smear one missing lag over its neighbours; the residuals are already
+// white when the noise model is right, so they are used as they are.
+#include <optional>
+#include <span>
+#include <string>
+#include <vector>
+
+namespace lagsieve {
+
+struct ResidualInputOptions {
+  int max_lag = 24;          // L = min(max_lag, m / 4), m = pairs after prewhitening
+  int ar_max_order = 10;     // prewhitening AR order chosen by AIC over 0..min(this, n / 5)
+  double band_z = 1.96;      // band = band_z / sqrt(m): pointwise 95% under no correlation
+  double warn_level = 0.01;  // the fit adds a warning when the portmanteau p-value is below
+};
+
+struct ResidualInputCorrelation {
+  std::string input;
+  int ar_order = 0;       // prewhitening AR order used
+  int n = 0;              // pairs: residual sample length minus the AR order
+  int max_lag = 0;        // L
+  std::vector<int> lags;  // -L..L
+  // r(k) = corr(alpha_{t-k}, e_t) (the screen's ccf with the input first): k >= 0 is where a
+  // missing transfer-function term shows; k < 0 (residual before input) points to feedback.
+  std::vector<double> values;
+  double band = 0.0;
+  // S = m (m + 2) sum_{k=0..L} r(k)^2 / (m - k), chi-square with df = max(1, L + 1 - (r + s + 1))
+  // when the transfer function is adequate (Box & Jenkins' cross-correlation check, with the
+  // Ljung-Box small-sample weights).
+  double statistic = 0.0;
+  int df = 0;
+  double p_value = 1.0;
+  int largest_lag = 0;  // k in 0..L with the largest |r(k)|
+};
+
+// `residuals` e_t and `input` u_t (the differenced input) over the same rows, t = 0..n-1: row t of
+// one is paired with row t of the other. `fitted_terms` = r + s + 1 of the input's transfer
+// function. Pairs lost to the AR filter are dropped from the start of both. Returns nullopt when
+// the check is undefined: fewer than 12 rows, fewer than 4 pairs per lag, or a constant series.
+std::optional<ResidualInputCorrelation> residual_input_correlation(
+    const std::string& input, std::span<const double> residuals,
+    std::span<const double> input_values, int fitted_terms,
+    const ResidualInputOptions& options = {});
+
+}  // namespace lagsieve
