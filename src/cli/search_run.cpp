@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <memory>
@@ -125,11 +126,14 @@ int run_search_command(const SearchArgs& args) {
                "{:.1f} s; ranked by {} on {} common observations\n",
                r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
                r.seconds, to_string(config.search.criterion), r.rows.empty() ? 0 : r.rows.front().n_obs);
-    fmt::print("  {:>4}  {:<58} {:>11} {:>9} {:>8} {:>9}  {}\n", "rank", "model", to_string(config.search.criterion),
-               "loglik", "LB p", "backtest", "status");
-    for (size_t i = 0; i < r.rows.size() && i < 10; ++i) {
+    const size_t shown = std::min<size_t>(r.rows.size(), 10);
+    size_t width = 5;  // the model column fits the longest label shown
+    for (size_t i = 0; i < shown; ++i) width = std::max(width, r.rows[i].key.size());
+    fmt::print("  {:>4}  {:<{}} {:>11} {:>9} {:>8} {:>9}  {}\n", "rank", "model", width,
+               to_string(config.search.criterion), "loglik", "LB p", "backtest", "status");
+    for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
-      fmt::print("  {:>4}  {:<58} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key,
+      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
                  row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
