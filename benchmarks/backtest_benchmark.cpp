@@ -31,8 +31,8 @@
 #include "data/load.h"
 #include "io/config.h"
 #include "model/simulate.h"
-#include "search/candidates.h"
 #include "search/search.h"
+#include "search/shortlist.h"
 
 namespace lagsieve {
 namespace {
@@ -277,7 +277,7 @@ int main_impl(int argc, char** argv) {
   const RunConfig config = load_config(workdir / "bench.yaml");
   const SeriesData data = load_series(config).front();
 
-  // The shortlist as the search builds it (search/shortlist.cpp): top N rankable rows, the best
+  // The shortlist as the search builds it (search/shortlist.h): top N rankable rows, the best
   // model without inputs, the seasonal naive forecast.
   SearchOptions so;
   so.strategy = config.search.strategy;
@@ -287,25 +287,11 @@ int main_impl(int argc, char** argv) {
   const SearchResult search = run_search(data, config, so);
   const double search_seconds =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - s0).count();
-  std::vector<BacktestCandidate> candidates;
-  for (const auto& row : search.rows)
-    if (row.rankable() && static_cast<int>(candidates.size()) < top)
-      candidates.push_back(candidate_from_spec(row.key, row.spec, config));
-  if (candidates.empty()) throw std::runtime_error("the search found no usable candidate");
-  ModelSpec no_inputs = search.rows.front().spec;
-  no_inputs.inputs.clear();
-  for (const auto& row : search.rows)
-    if (row.rankable() && row.spec.inputs.empty()) {
-      no_inputs = row.spec;
-      break;
-    }
-  auto bench = candidate_from_spec("benchmark: " + candidate_key(no_inputs), no_inputs, config);
-  bench.benchmark = true;
-  const int shortlisted = static_cast<int>(candidates.size());
-  candidates.push_back(bench);
-  BacktestOptions options = backtest_options(config, data.rows());
-  candidates.push_back(seasonal_naive_candidate(options.season));
-  options.start = search.start;
+  ShortlistBacktest plan = shortlist_plan(data, config, search, top, 2);
+  if (plan.candidates.empty()) throw std::runtime_error("the search found no usable candidate");
+  std::vector<BacktestCandidate>& candidates = plan.candidates;
+  BacktestOptions& options = plan.options;
+  const int shortlisted = static_cast<int>(candidates.size()) - 2;  // the last two: benchmarks
 
   int model_candidates = 0, forecast_inputs = 0;
   for (const auto& c : candidates) {

@@ -13,9 +13,15 @@ struct ShortlistBacktest {
   BacktestResult result;
 };
 
-// Backtests the shortlist, fills backtest_score / backtest_rank of its rows, re-ranks the rows
-// (backtested rows first, by score), re-fits the new leader with standard errors, and measures
-// the value of each of the leader's inputs.
+// The backtest plan of a search's shortlist without running it: the options from the config
+// and the candidates, the top `size` usable rows in rank order (named by their keys), then the
+// two benchmarks. Benchmarks time run_backtest on it.
+ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config,
+                                 const SearchResult& search, int size, int threads);
+
+// Backtests the shortlist (config.backtest.shortlist rows), fills backtest_score / backtest_rank of
+// its rows, re-ranks the rows (backtested rows first, by score), re-fits the new leader with
+// standard errors, and measures the value of each of the leader's inputs.
 ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& config,
                                      SearchResult& search, int threads);
 
