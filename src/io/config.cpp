@@ -77,8 +77,8 @@ class Reader : public YamlReader {
       for (size_t i = 0; i < node.size(); ++i)
         levels.push_back(get_double(node[i], fmt::format("{}[{}]", path, i)));
     } else {
-      fail(node, path, fmt::format("expected a list of levels such as [0.8, 0.95], got {}",
-                                   describe(node)));
+      fail(node, path,
+           fmt::format("expected a list of levels such as [0.8, 0.95], got {}", describe(node)));
     }
     for (double level : levels)
       if (!(level > 0.0 && level < 1.0))
@@ -118,9 +118,9 @@ void read_target(const Reader& rd, const YAML::Node& node, TargetConfig& target)
     target.columns.push_back(rd.get_string(one, "target.column"));
   } else {
     if (!many.IsSequence() || many.size() == 0)
-      rd.fail(many, "target.columns",
-              fmt::format("expected a non-empty list of column names, got {}",
-                          Reader::describe(many)));
+      rd.fail(
+          many, "target.columns",
+          fmt::format("expected a non-empty list of column names, got {}", Reader::describe(many)));
     std::set<std::string> seen;
     for (size_t i = 0; i < many.size(); ++i) {
       const auto key = fmt::format("target.columns[{}]", i);
@@ -181,15 +181,17 @@ void read_input(const Reader& rd, const YAML::Node& node, const std::string& pat
   const auto column = node["column"];
   const auto event = node["event"];
   if (column && event)
-    rd.fail(node, path, "give either `column` (a data column) or `event` (a generated input), "
-                        "not both");
+    rd.fail(node, path,
+            "give either `column` (a data column) or `event` (a generated input), "
+            "not both");
   if (!column && !event)
     rd.fail(node, path, "missing key `column` (a data column) or `event` (a generated input)");
   in.is_event = static_cast<bool>(event);
   in.name = in.is_event ? rd.get_string(event, key_path(path, "event"))
                         : rd.get_string(column, key_path(path, "column"));
   if (in.is_event) {
-    if (const auto n = node["shape"]) in.shape = rd.get_enum<EventShape>(n, key_path(path, "shape"));
+    if (const auto n = node["shape"])
+      in.shape = rd.get_enum<EventShape>(n, key_path(path, "shape"));
     if (!node["at"])
       rd.fail(node, path, "an event needs `at`: a time stamp of the data or a row index (from 0)");
     in.at = rd.get_string(node["at"], key_path(path, "at"));
@@ -210,7 +212,8 @@ void read_input(const Reader& rd, const YAML::Node& node, const std::string& pat
   if (const auto n = node["denominator"])
     in.denominator = rd.get_range(n, key_path(path, "denominator"), kMaxDenominator);
   if (const auto n = node["optional"]) in.optional = rd.get_bool(n, key_path(path, "optional"));
-  if (const auto n = node["future"]) in.future = rd.get_enum<FutureMode>(n, key_path(path, "future"));
+  if (const auto n = node["future"])
+    in.future = rd.get_enum<FutureMode>(n, key_path(path, "future"));
   if (const auto n = node["known_steps"]) {
     in.known_steps = rd.get_int(n, key_path(path, "known_steps"));
     if (in.future != FutureMode::forecast)
@@ -224,7 +227,8 @@ void read_input(const Reader& rd, const YAML::Node& node, const std::string& pat
     auto order = [&](const char* key) -> std::optional<int> {
       if (!n[key]) return std::nullopt;
       const int v = rd.get_int(n[key], key_path(mpath, key));
-      if (v > 5) rd.fail(n[key], key_path(mpath, key), fmt::format("{} is above the limit of 5", v));
+      if (v > 5)
+        rd.fail(n[key], key_path(mpath, key), fmt::format("{} is above the limit of 5", v));
       return v;
     };
     in.own_model.p = order("ar");
@@ -252,7 +256,8 @@ void read_noise(const Reader& rd, const YAML::Node& node, NoiseConfig& noise) {
 
 void read_search(const Reader& rd, const YAML::Node& node, SearchConfig& search) {
   rd.check_map(node, "search", {"strategy", "criterion", "budget", "threads"});
-  if (const auto n = node["strategy"]) search.strategy = rd.get_enum<Strategy>(n, "search.strategy");
+  if (const auto n = node["strategy"])
+    search.strategy = rd.get_enum<Strategy>(n, "search.strategy");
   if (const auto n = node["criterion"])
     search.criterion = rd.get_enum<Criterion>(n, "search.criterion");
   if (const auto n = node["budget"]) search.budget = rd.get_int(n, "search.budget", 1);
@@ -319,8 +324,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
   cfg.config_file = config_file;
   const fs::path base = config_file.parent_path();
   for (const char* key : {"data", "target"})
-    if (!root[key])
-      rd.fail(root, "", fmt::format("missing section `{}`", key));
+    if (!root[key]) rd.fail(root, "", fmt::format("missing section `{}`", key));
 
   read_data(rd, root["data"], base, cfg.data);
   read_target(rd, root["target"], cfg.target);
@@ -328,9 +332,10 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
 
   if (const auto n = root["inputs"]; n && !n.IsNull()) {
     if (!n.IsSequence())
-      rd.fail(n, "inputs", fmt::format("expected a list of inputs (each `- column: ...` or "
-                                       "`- event: ...`), got {}",
-                                       Reader::describe(n)));
+      rd.fail(n, "inputs",
+              fmt::format("expected a list of inputs (each `- column: ...` or "
+                          "`- event: ...`), got {}",
+                          Reader::describe(n)));
     std::set<std::string> names;
     for (size_t i = 0; i < n.size(); ++i) {
       const auto path = fmt::format("inputs[{}]", i);
@@ -362,15 +367,15 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
 RunConfig load_config(const fs::path& config_file) {
   std::error_code ec;
   if (!fs::exists(config_file, ec))
-    throw InputError(fmt::format("config file '{}' does not exist; check the path",
-                                 config_file.string()));
+    throw InputError(
+        fmt::format("config file '{}' does not exist; check the path", config_file.string()));
   if (fs::is_directory(config_file, ec))
-    throw InputError(fmt::format("config file '{}' is a folder; give the YAML file",
-                                 config_file.string()));
+    throw InputError(
+        fmt::format("config file '{}' is a folder; give the YAML file", config_file.string()));
   std::ifstream in(config_file, std::ios::binary);
   if (!in)
-    throw InputError(fmt::format("cannot read config file '{}'; check its permissions",
-                                 config_file.string()));
+    throw InputError(
+        fmt::format("cannot read config file '{}'; check its permissions", config_file.string()));
   std::ostringstream buffer;
   buffer << in.rdbuf();
   return parse_config(buffer.str(), config_file);
@@ -383,7 +388,7 @@ long long candidate_grid_size(const RunConfig& config) {
     if (k <= 0) return;
     total = total > kCap / k ? kCap : total * k;
   };
-  auto width = [](const IntRange& r) { return static_cast<long long>(r.max - r.min + 1); };
+  auto width = [](const IntRange& r) { return static_cast<long long>(r.max) - r.min + 1; };
   for (const auto& in : config.inputs)
     times(width(in.delay) * width(in.numerator) * width(in.denominator) + (in.optional ? 1 : 0));
   const auto& nz = config.noise;

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstddef>
 
 namespace lagsieve {
 
@@ -55,11 +56,11 @@ void filter_group(const RowMatrix& y, Eigen::Index c0, int m, const double* ar,
   const Eigen::Index n = y.rows();
   const Eigen::Index cols = y.cols();
   const int dim = M > 0 ? M : m;
-  double local[G][M > 0 ? M : 1];
+  double local[G][std::max(M, 1)];
   double* a[G];
   double* w[G];
   for (int g = 0; g < G; ++g) {
-    a[g] = M > 0 ? local[g] : buffer + g * m;
+    a[g] = M > 0 ? local[g] : buffer + static_cast<std::ptrdiff_t>(g) * m;
     for (int i = 0; i < dim; ++i) a[g][i] = 0.0;
     w[g] = scaled.col(c0 + g).data();
   }
@@ -215,17 +216,15 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
 ArmaEndState arma_end_state(std::span<const double> ar, std::span<const double> ma,
                             std::span<const double> y, ArmaFilterWorkspace& ws) {
   const int m = state_dim(ar.size(), ma.size());
-  RowMatrix col(static_cast<Eigen::Index>(y.size()), 1);
-  for (size_t t = 0; t < y.size(); ++t) col(t, 0) = y[t];
   ArmaEndState end;
   if (!stationary_state_covariance(ar, ma, ws, ws.P)) return end;
   Eigen::VectorXd a = Eigen::VectorXd::Zero(m), next(m), gain(m);
   Eigen::MatrixXd tp(m, m), pn(m, m);
-  for (size_t t = 0; t < y.size(); ++t) {
+  for (const double yt : y) {
     const double f = ws.P(0, 0);
     multiply_t_left(ws.ar_full, ws.P.col(0), gain);
     gain /= f;
-    const double v = y[t] - a(0);
+    const double v = yt - a(0);
     multiply_t_left(ws.ar_full, a, next);
     a = next + gain * v;
     multiply_t_left(ws.ar_full, ws.P, tp);

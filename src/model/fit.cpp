@@ -1,10 +1,10 @@
 #include "model/fit.h"
 
+#include <fmt/format.h>
 #include <Eigen/Dense>
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <fmt/format.h>
 #include <limits>
 #include <nlopt.hpp>
 
@@ -15,11 +15,16 @@ namespace lagsieve {
 
 std::string_view to_string(FitStatus s) {
   switch (s) {
-    case FitStatus::ok: return "ok";
-    case FitStatus::no_convergence: return "no_convergence";
-    case FitStatus::boundary: return "boundary";
-    case FitStatus::numerical_failure: return "numerical_failure";
-    case FitStatus::rejected: return "rejected";
+    case FitStatus::ok:
+      return "ok";
+    case FitStatus::no_convergence:
+      return "no_convergence";
+    case FitStatus::boundary:
+      return "boundary";
+    case FitStatus::numerical_failure:
+      return "numerical_failure";
+    case FitStatus::rejected:
+      return "rejected";
   }
   return "unknown";
 }
@@ -112,9 +117,10 @@ struct OptimiserRun {
 
 OptimiserRun optimise(const LikelihoodProblem& problem, const std::vector<Block>& blocks,
                       std::vector<double> z0, const FitOptions& options, LikelihoodWorkspace& ws) {
-  const unsigned dim = static_cast<unsigned>(z0.size());
-  Objective obj{&problem, &blocks, &ws, std::vector<double>(dim), 0,
-                -std::numeric_limits<double>::infinity(), z0};
+  const auto dim = static_cast<unsigned>(z0.size());
+  Objective obj{
+      &problem, &blocks, &ws, std::vector<double>(dim), 0, -std::numeric_limits<double>::infinity(),
+      z0};
   for (auto& v : z0) v = std::clamp(v, -kBound + 1e-9, kBound - 1e-9);
   nlopt::opt opt(nlopt::LN_BOBYQA, dim);
   opt.set_lower_bounds(std::vector<double>(dim, -kBound));
@@ -408,9 +414,10 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
         options.boundary_pacf);
   } else if (code == nlopt::MAXEVAL_REACHED || code == nlopt::MAXTIME_REACHED) {
     fit.status = FitStatus::no_convergence;
-    fit.message = fmt::format("the optimiser stopped at its budget of {} evaluations before "
-                              "converging; the best point found is reported",
-                              fit.evaluations);
+    fit.message = fmt::format(
+        "the optimiser stopped at its budget of {} evaluations before "
+        "converging; the best point found is reported",
+        fit.evaluations);
   } else {
     fit.status = FitStatus::ok;
     fit.message = dim > 0 ? fmt::format("converged after {} likelihood evaluations ({} start{})",
@@ -436,8 +443,8 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     }
   }
   for (size_t i = 0; i < all.size(); ++i)
-    fit.estimates.push_back({i < nl_names.size() ? nl_names[i] : l_names[i - nl_names.size()],
-                             all[i], se[i]});
+    fit.estimates.push_back(
+        {i < nl_names.size() ? nl_names[i] : l_names[i - nl_names.size()], all[i], se[i]});
   if (options.diagnostics) compute_diagnostics(problem, fit, ws);
   fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return fit;

@@ -30,14 +30,13 @@ std::optional<ResidualInputCorrelation> residual_input_correlation(
   const int L = out.max_lag;
   const double m = out.n;
   out.lags.resize(2 * static_cast<size_t>(L) + 1);
-  for (int k = -L; k <= L; ++k) out.lags[static_cast<size_t>(k + L)] = k;
+  for (int k = -L; k <= L; ++k) out.lags[k + L] = k;
   out.band = options.band_z / std::sqrt(m);
   double s = 0.0;
   for (int k = 0; k <= L; ++k) {
-    const double r = out.values[static_cast<size_t>(k + L)];
+    const double r = out.values[k + L];
     s += r * r / (m - k);
-    if (std::fabs(r) > std::fabs(out.values[static_cast<size_t>(out.largest_lag + L)]))
-      out.largest_lag = k;
+    if (std::fabs(r) > std::fabs(out.values[out.largest_lag + L])) out.largest_lag = k;
   }
   out.statistic = m * (m + 2.0) * s;
   out.df = std::max(1, L + 1 - fitted_terms);

@@ -40,7 +40,7 @@ std::vector<double> centred(std::span<const double> x) {
 // (1/n) sum_t xc_t yc_{t+k} for k >= 0, or with the roles shifted for k < 0, of centred series.
 double cross_cov(const std::vector<double>& xc, const std::vector<double>& yc, int k) {
   const size_t n = xc.size();
-  const size_t shift = static_cast<size_t>(std::abs(k));
+  const auto shift = static_cast<size_t>(std::abs(k));
   const double s = k >= 0 ? dot(xc.data(), yc.data() + shift, n - shift)
                           : dot(xc.data() + shift, yc.data(), n - shift);
   return s / static_cast<double>(n);

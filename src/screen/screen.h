@@ -116,7 +116,7 @@ struct InputScreen {
   std::vector<int> feedback_lags;  // negative lags crossing the feedback band
   std::vector<std::string> notes;  // one-line findings for this input
 
-  double correlation_at(int k) const { return cross_correlation.at(static_cast<size_t>(k + max_lag)); }
+  double correlation_at(int k) const { return cross_correlation.at(k + max_lag); }
 };
 
 struct NoiseSuggestion {
