@@ -1,9 +1,10 @@
 #include "model/likelihood.h"
 
+#include <fmt/format.h>
 #include <Eigen/Cholesky>
+#include <Eigen/QR>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
 #include <numbers>
 
 #include "core/error.h"
@@ -31,6 +32,48 @@ int minimum_start(const ModelSpec& spec) {
   return start;
 }
 
+namespace {
+
+// Inputs whose values over the estimation sample are (nearly) a linear combination of the
+// constant and the inputs before them cannot have separate effects: the GLS step would fail with
+// no name attached. Gram-Schmidt over the columns (constant first, if any, then each input in
+// spec order) finds the first input that adds nothing new; a least-squares fit on the columns
+// before it names the ones it is made of.
+void check_inputs_separable(const LikelihoodProblem& problem) {
+  const int n = problem.n_obs();
+  const auto& spec = problem.spec;
+  std::vector<Eigen::VectorXd> columns, basis;
+  std::vector<std::string> names;
+  auto add = [&](const Eigen::VectorXd& column, const std::string& name) {
+    Eigen::VectorXd r = column;
+    for (const auto& q : basis) r -= q.dot(r) * q;  // modified Gram-Schmidt
+    const double norm = r.norm();
+    if (norm > 1e-9 * column.norm()) {
+      columns.push_back(column);
+      basis.emplace_back(r / norm);
+      names.push_back(name);
+      return;
+    }
+    Eigen::MatrixXd x(n, static_cast<Eigen::Index>(columns.size()));
+    for (size_t j = 0; j < columns.size(); ++j) x.col(static_cast<Eigen::Index>(j)) = columns[j];
+    const Eigen::VectorXd beta = x.colPivHouseholderQr().solve(column);
+    std::string parts;
+    for (size_t j = 0; j < columns.size(); ++j)
+      if (std::abs(beta(static_cast<Eigen::Index>(j))) * columns[j].norm() > 1e-6 * column.norm())
+        parts += (parts.empty() ? "" : ", ") + names[j];
+    throw InputError(fmt::format(
+        "{} is (nearly) a linear combination of {} over the estimation sample, so their effects "
+        "cannot be told apart; leave one of them out or check the columns",
+        name, parts));
+  };
+  if (spec.constant) add(Eigen::VectorXd::Ones(n), "the constant");
+  for (size_t i = 0; i < problem.u.size(); ++i)
+    add(Eigen::Map<const Eigen::VectorXd>(problem.u[i].data() + problem.start, n),
+        fmt::format("input '{}'", spec.inputs[i].name));
+}
+
+}  // namespace
+
 LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, int start) {
   LikelihoodProblem problem;
   problem.spec = spec;
@@ -39,8 +82,8 @@ LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, in
   for (const auto& term : spec.inputs) {
     const int index = data.input_index(term.name);
     if (index < 0)
-      throw InputError(fmt::format("input '{}' is not in the data of series '{}'", term.name,
-                                   data.target_name));
+      throw InputError(
+          fmt::format("input '{}' is not in the data of series '{}'", term.name, data.target_name));
     problem.u.push_back(difference(data.inputs[index], spec.differencing));
   }
   problem.start = start < 0 ? minimum_start(spec) : start;
@@ -61,6 +104,7 @@ LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, in
           "cannot be estimated; leave it out or check the column",
           spec.inputs[i].name));
   }
+  check_inputs_separable(problem);
   return problem;
 }
 
@@ -159,8 +203,8 @@ void filter_denominator(const std::vector<double>& u, std::span<const double> de
 void noise_polynomials(const NoiseOrder& ns, std::span<const double> noise, std::vector<double>& ar,
                        std::vector<double>& ma) {
   ar = expand_ar(noise.subspan(0, ns.p), noise.subspan(ns.p + ns.q, ns.seasonal_p), ns.period);
-  ma = expand_ma(noise.subspan(ns.p, ns.q), noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q),
-                 ns.period);
+  ma = expand_ma(noise.subspan(ns.p, ns.q),
+                 noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q), ns.period);
 }
 
 // Fills ws.columns: column 0 the target, then the constant and one column per omega. Returns
@@ -241,7 +285,8 @@ double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, Likelih
   }
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
-    filter_denominator(problem.u[i], std::span<const double>(nonlinear).subspan(k, order.denominator),
+    filter_denominator(problem.u[i],
+                       std::span<const double>(nonlinear).subspan(k, order.denominator),
                        ws.filtered);
     k += order.denominator;
     for (int j = 0; j <= order.numerator; ++j) {

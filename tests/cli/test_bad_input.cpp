@@ -80,6 +80,33 @@ std::string csv_with_constant_price() {
   return out;
 }
 
+// The good data with price = 2 outdoor_temp + 1 on every row: collinear with the temperature
+// and the constant.
+std::string csv_with_price_from_temperature() {
+  std::stringstream in(good_csv());
+  std::string line, out;
+  for (int r = 0; std::getline(in, line); ++r) {
+    if (r > 0) {
+      std::vector<std::string> cells;
+      std::stringstream ls(line);
+      for (std::string c; std::getline(ls, c, ',');) cells.push_back(c);
+      line = cells[0] + "," + cells[1] + "," + cells[2] + "," +
+             std::to_string(2 * std::stoi(cells[2]) + 1);
+    }
+    out += line + "\n";
+  }
+  return out;
+}
+
+// One model, every order a single value, as `fit` needs.
+const std::string kSingleModelYaml = R"(data: {file: data.csv, time: date}
+target: {column: heat}
+inputs:
+  - column: outdoor_temp
+  - column: price
+noise: {ar: 1}
+)";
+
 struct Case {
   std::string name;
   std::string command;   // the subcommand run on cfg.yaml
@@ -135,8 +162,7 @@ std::vector<Case> cases() {
        csv_with_cell(7, 1, "-4"),
        "data.csv:8: target column 'heat': value -4 is not positive, so the boxcox transform is "
        "undefined"},
-      {"too_short_for_the_lags", "validate",
-       replace(y, "delay: [0, 2]", "delay: [0, 50]"), c,
+      {"too_short_for_the_lags", "validate", replace(y, "delay: [0, 2]", "delay: [0, 50]"), c,
        "series 'heat' has 60 rows, too few for the largest candidate"},
       {"levels_out_of_range", "validate", y + "backtest: {levels: [0.8, 1.5]}\n", c,
        "cfg.yaml:9: backtest.levels: level 1.5 is outside (0, 1)"},
@@ -158,6 +184,9 @@ std::vector<Case> cases() {
        "data.csv:4: row has 5 cells but the header has 4 columns"},
       {"fit_unknown_key", "fit", replace(y, "delay:", "dealy:"), c,
        "cfg.yaml:5: inputs[0].dealy: unknown key; did you mean `delay`?"},
+      {"fit_collinear_inputs", "fit", kSingleModelYaml, csv_with_price_from_temperature(),
+       "input 'price' is (nearly) a linear combination of the constant, input 'outdoor_temp' over "
+       "the estimation sample"},
   };
 }
 
