@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "fixture.h"
+#include "series_m.h"
 #include "model/fit.h"
 #include "model/likelihood.h"
 
@@ -129,11 +130,7 @@ TEST(LikelihoodReference, SeriesMTransferFunctionMatchesBaseRProfile) {
   // Differenced BJsales on the differenced lead: b = 3, r = 1, s = 0, MA(1), constant. The base-R
   // reference filters the lead from a zero pre-sample state, exactly our start-up rule.
   const auto ref = load_fixture("series_m/series_m_r.json");
-  SeriesData data;
-  data.target_name = "sales";
-  data.target = testing::csv_column("data/bjsales.csv", "sales");
-  data.input_names = {"lead"};
-  data.inputs = {testing::csv_column("data/bjsales.csv", "lead")};
+  const SeriesData data = testing::read_series_m();
   ModelSpec spec;
   spec.inputs = {{"lead", {3, 0, 1}}};
   spec.noise = {0, 1, 0, 0, 1};

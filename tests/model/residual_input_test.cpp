@@ -15,6 +15,7 @@
 #include <vector>
 
 #include "fixture.h"
+#include "series_m.h"
 #include "model/fit.h"
 #include "model/likelihood.h"
 #include "model/simulate.h"
@@ -80,11 +81,7 @@ TEST(ResidualInputCorrelation, UndefinedChecksAreLeftOut) {
 // diagnostics agree with R's to well within 1e-4.
 TEST(ResidualInputCorrelation, FitDiagnosticsOfSeriesMMatchR) {
   const auto fx = load_fixture("residual_ccf/residual_ccf_r.json");
-  SeriesData data;
-  data.target_name = "sales";
-  data.target = testing::csv_column("data/bjsales.csv", "sales");
-  data.input_names = {"lead"};
-  data.inputs = {testing::csv_column("data/bjsales.csv", "lead")};
+  const SeriesData data = testing::read_series_m();
   const std::pair<int, const char*> models[] = {{3, "series_m_b3_s0_r0"}, {0, "series_m_b0_s0_r0"}};
   for (const auto& [delay, id] : models) {
     SCOPED_TRACE(id);

@@ -8,7 +8,7 @@
 #include "core/error.h"
 #include "data/transform.h"
 #include "screen/correlation.h"
-#include "screen_test_util.h"
+#include "series_m.h"
 
 namespace lagsieve {
 namespace {
@@ -20,7 +20,7 @@ struct Pair {
 };
 
 Pair differenced_series_m() {
-  const auto d = test::read_series_m();
+  const auto d = testing::read_series_m();
   const Differencing diff{1, 0, 1};
   return {difference(d.target, diff), difference(d.inputs[0], diff)};
 }

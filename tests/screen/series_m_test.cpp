@@ -11,7 +11,7 @@
 
 #include "core/config.h"
 #include "screen/screen.h"
-#include "screen_test_util.h"
+#include "series_m.h"
 
 namespace lagsieve {
 namespace {
@@ -26,7 +26,7 @@ RunConfig first_differences() {
 }
 
 TEST(ScreenSeriesM, LeadingIndicatorHasDelayThree) {
-  const auto data = test::read_series_m();
+  const auto data = testing::read_series_m();
   const auto res = screen_series(data, first_differences());
   ASSERT_EQ(res.inputs.size(), 1u);
   const auto& lead = res.inputs[0];
@@ -54,7 +54,7 @@ TEST(ScreenSeriesM, LeadingIndicatorHasDelayThree) {
 }
 
 TEST(ScreenSeriesM, JsonCarriesEverything) {
-  const auto res = screen_series(test::read_series_m(), first_differences());
+  const auto res = screen_series(testing::read_series_m(), first_differences());
   const auto j = to_json(res);
   const auto& in = j["inputs"][0];
   EXPECT_EQ(in["cross_correlation"].size(), 41u);
