@@ -214,17 +214,26 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
   const ModelSpec& spec = problem.spec;
   const int n = problem.n_obs();
   const int start = problem.start;
-  ws.columns.resize(n, 1 + problem.n_linear());
-  for (int t = 0; t < n; ++t) ws.columns(t, 0) = problem.w[start + t];
-  int col = 1;
-  if (spec.constant) ws.columns.col(col++).setOnes();
+  const Eigen::Index cols = 1 + problem.n_linear();
+  ws.columns.resize(n, cols);
+  ws.filtered.resize(spec.inputs.size());
+  // Where each regressor column reads: the filtered input shifted by its delay and lag.
+  ws.sources.clear();
   size_t k = 0;
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
-    filter_denominator(problem.u[i], nonlinear.subspan(k, order.denominator), ws.filtered);
+    filter_denominator(problem.u[i], nonlinear.subspan(k, order.denominator), ws.filtered[i]);
     k += order.denominator;
-    for (int j = 0; j <= order.numerator; ++j, ++col)
-      for (int t = 0; t < n; ++t) ws.columns(t, col) = ws.filtered[start + t - order.delay - j];
+    for (int j = 0; j <= order.numerator; ++j)
+      ws.sources.push_back(ws.filtered[i].data() + start - order.delay - j);
+  }
+  // Row by row: the row-major matrix is written contiguously.
+  const int first = spec.constant ? 2 : 1;
+  for (int t = 0; t < n; ++t) {
+    double* row = ws.columns.data() + static_cast<Eigen::Index>(t) * cols;
+    row[0] = problem.w[start + t];
+    if (spec.constant) row[1] = 1.0;
+    for (size_t c = 0; c < ws.sources.size(); ++c) row[first + c] = ws.sources[c][t];
   }
   noise_polynomials(spec.noise, nonlinear.subspan(k), ar, ma);
 }
@@ -283,15 +292,16 @@ double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, Likelih
     const double c = linear[l++];
     for (int t = 0; t < n; ++t) resid(t, 0) -= c * 1.0;
   }
+  ws.filtered.resize(spec.inputs.size());
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
     filter_denominator(problem.u[i],
                        std::span<const double>(nonlinear).subspan(k, order.denominator),
-                       ws.filtered);
+                       ws.filtered[i]);
     k += order.denominator;
     for (int j = 0; j <= order.numerator; ++j) {
       const double omega = linear[l++];
-      const double* x = ws.filtered.data() + start - order.delay - j;
+      const double* x = ws.filtered[i].data() + start - order.delay - j;
       for (int t = 0; t < n; ++t) resid(t, 0) -= omega * x[t];
     }
   }

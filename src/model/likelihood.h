@@ -27,8 +27,8 @@ struct LikelihoodProblem {
   std::vector<std::vector<double>> u;  // differenced inputs of spec.inputs, in spec order
   int start = 0;                       // first index of w inside the likelihood
   int n_obs() const { return static_cast<int>(w.size()) - start; }
-  int n_nonlinear() const;             // deltas, then phi, theta, Phi, Theta
-  int n_linear() const;                // constant (if any), then the omegas of each input
+  int n_nonlinear() const;  // deltas, then phi, theta, Phi, Theta
+  int n_linear() const;     // constant (if any), then the omegas of each input
   int n_params() const { return n_nonlinear() + n_linear() + 1; }  // + sigma^2
 };
 
@@ -51,8 +51,9 @@ ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
 
 struct LikelihoodWorkspace {
   ArmaFilterWorkspace filter;
-  RowMatrix columns;                   // n x (1 + n_linear): target, then regressors
-  std::vector<double> filtered;        // scratch for 1/delta(B)
+  RowMatrix columns;                          // n x (1 + n_linear): target, then regressors
+  std::vector<std::vector<double>> filtered;  // u_i / delta_i(B) of each input
+  std::vector<const double*> sources;         // first value of each regressor column in `filtered`
 };
 
 // Profile log-likelihood: linear parameters by GLS, sigma^2 by ML. Invalid parameters
