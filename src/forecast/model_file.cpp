@@ -8,7 +8,6 @@
 #include "core/names.h"
 #include "io/atomic_file.h"
 #include "model/spec_from_config.h"
-#include "screen/correlation.h"
 
 namespace lagsieve {
 
@@ -321,15 +320,11 @@ json fit_to_json(const FitResult& fit) {
     d["roots"].push_back({{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
   }
   d["warnings"] = fit.diagnostics.warnings;
-  const int n = static_cast<int>(fit.residuals.size());
-  if (n > 8) {
+  if (!fit.diagnostics.residual_acf.empty()) {
     // Residual autocorrelation at lags 1..L with the approximate 2/sqrt(n) band.
-    const auto r = acf(fit.residuals, std::min(24, n / 4));
-    d["residual_acf"] = {{"lags", json::array()}, {"values", json::array()}, {"band", 2.0 / std::sqrt(double(n))}};
-    for (size_t k = 1; k < r.size(); ++k) {
-      d["residual_acf"]["lags"].push_back(k);
-      d["residual_acf"]["values"].push_back(r[k]);
-    }
+    const auto& r = fit.diagnostics.residual_acf;
+    d["residual_acf"] = {{"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
+    for (size_t k = 1; k <= r.size(); ++k) d["residual_acf"]["lags"].push_back(k);
   }
   // Residuals against each prewhitened input: lags -L..L (input at t-k against residual at t),
   // the portmanteau over lags 0..L.

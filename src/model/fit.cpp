@@ -8,8 +8,10 @@
 #include <limits>
 #include <nlopt.hpp>
 
+#include "core/error.h"
 #include "evaluation/distributions.h"
 #include "model/polynomial.h"
+#include "screen/correlation.h"
 
 namespace lagsieve {
 
@@ -253,27 +255,32 @@ void compute_diagnostics(const LikelihoodProblem& problem, FitResult& fit,
   FitDiagnostics& diag = fit.diagnostics;
   fit.residuals = model_residuals(problem, p, ws);
 
-  // Ljung-Box at a few lags, degrees of freedom reduced by the ARMA parameter count.
+  // Residual autocorrelation, once: the report's lags 1..min(24, n/4) and Ljung-Box at a few
+  // lags, degrees of freedom reduced by the ARMA parameter count.
   const int n = static_cast<int>(fit.residuals.size());
   const int arma = spec.noise.p + spec.noise.q + spec.noise.seasonal_p + spec.noise.seasonal_q;
-  double mean = 0.0;
-  for (double e : fit.residuals) mean += e;
-  mean /= n;
-  double c0 = 0.0;
-  for (double e : fit.residuals) c0 += (e - mean) * (e - mean);
   std::vector<int> lags{6, 12, 24};
   if (spec.noise.period > 1) lags = {spec.noise.period, 2 * spec.noise.period};
-  for (int lag : lags) {
-    if (lag >= n / 2 || lag - arma <= 0) continue;
-    double q = 0.0;
-    for (int k = 1; k <= lag; ++k) {
-      double ck = 0.0;
-      for (int t = k; t < n; ++t) ck += (fit.residuals[t] - mean) * (fit.residuals[t - k] - mean);
-      const double r = ck / c0;
-      q += r * r / (n - k);
+  std::erase_if(lags, [&](int lag) { return lag >= n / 2 || lag - arma <= 0; });
+  const int shown = n > 8 ? std::min(24, n / 4) : 0;
+  const int max_lag = std::max(shown, lags.empty() ? 0 : lags.back());
+  std::vector<double> r;
+  if (max_lag > 0) {
+    try {
+      r = acf(fit.residuals, max_lag);
+    } catch (const NumericalError&) {
+      r.clear();  // constant residuals: no autocorrelation to report
     }
-    q *= n * (n + 2.0);
-    diag.ljung_box.push_back({lag, lag - arma, q, chi_square_upper_tail(q, lag - arma)});
+  }
+  if (static_cast<int>(r.size()) > max_lag) {
+    diag.residual_acf.assign(r.begin() + 1, r.begin() + 1 + shown);
+    diag.residual_acf_band = 2.0 / std::sqrt(double(n));
+    for (int lag : lags) {
+      double q = 0.0;
+      for (int k = 1; k <= lag; ++k) q += r[k] * r[k] / (n - k);
+      q *= n * (n + 2.0);
+      diag.ljung_box.push_back({lag, lag - arma, q, chi_square_upper_tail(q, lag - arma)});
+    }
   }
 
   // Roots and steady-state gains.

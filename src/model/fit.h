@@ -26,11 +26,11 @@ enum class FitStatus { ok, no_convergence, boundary, numerical_failure, rejected
 std::string_view to_string(FitStatus s);
 
 struct FitOptions {
-  int max_evaluations = 0;              // 0: 300 + 150 * (number of nonlinear parameters)
-  double relative_tolerance = 1e-10;    // stop when the log-likelihood changes less (relative)
-  double boundary_pacf = 0.995;         // |partial autocorrelation| beyond: on the boundary
-  bool standard_errors = true;          // profile-likelihood curvature (about d^2/2 evaluations)
-  bool diagnostics = true;              // residuals, Ljung-Box, roots, gains, residual-input ccf
+  int max_evaluations = 0;                // 0: 300 + 150 * (number of nonlinear parameters)
+  double relative_tolerance = 1e-10;      // stop when the log-likelihood changes less (relative)
+  double boundary_pacf = 0.995;           // |partial autocorrelation| beyond: on the boundary
+  bool standard_errors = true;            // profile-likelihood curvature (about d^2/2 evaluations)
+  bool diagnostics = true;                // residuals, Ljung-Box, roots, gains, residual-input ccf
   std::optional<ModelParams> warm_start;  // start here instead of the regression start values
 };
 
@@ -42,7 +42,7 @@ struct ParamEstimate {
 
 struct LjungBoxResult {
   int lag = 0;
-  int df = 0;              // lag minus the number of ARMA parameters
+  int df = 0;  // lag minus the number of ARMA parameters
   double statistic = 0.0;
   double p_value = 0.0;
 };
@@ -60,6 +60,10 @@ struct PolynomialRoots {
 };
 
 struct FitDiagnostics {
+  // Residual autocorrelation r(1..L), L = min(24, n / 4) (at least the largest Ljung-Box lag),
+  // with the approximate band 2 / sqrt(n); empty for fewer than 9 residuals.
+  std::vector<double> residual_acf;
+  double residual_acf_band = 0.0;
   std::vector<LjungBoxResult> ljung_box;
   std::vector<InputGain> gains;
   std::vector<PolynomialRoots> roots;
@@ -72,20 +76,20 @@ struct FitDiagnostics {
 struct FitResult {
   ModelSpec spec;
   FitStatus status = FitStatus::numerical_failure;
-  std::string message;                 // a sentence, with numbers
+  std::string message;  // a sentence, with numbers
   ModelParams params;
   std::vector<ParamEstimate> estimates;  // nonlinear then linear parameters (sigma^2 not here)
-  Eigen::MatrixXd covariance;          // of `estimates`, natural coordinates
+  Eigen::MatrixXd covariance;            // of `estimates`, natural coordinates
   double loglik = 0.0;
   double sigma2 = 0.0;
   double aic = 0.0, aicc = 0.0, bic = 0.0;
-  int n_obs = 0;                       // observations inside the likelihood
-  int n_params = 0;                    // every estimated parameter, sigma^2 included
-  int start = 0;                       // first differenced index inside the likelihood
-  std::vector<double> residuals;       // standardised innovations, variance sigma^2
+  int n_obs = 0;                  // observations inside the likelihood
+  int n_params = 0;               // every estimated parameter, sigma^2 included
+  int start = 0;                  // first differenced index inside the likelihood
+  std::vector<double> residuals;  // standardised innovations, variance sigma^2
   FitDiagnostics diagnostics;
   int evaluations = 0;
-  int starts = 0;                      // optimiser starts used (a restart follows a boundary)
+  int starts = 0;  // optimiser starts used (a restart follows a boundary)
   double seconds = 0.0;
 
   bool usable() const { return status != FitStatus::numerical_failure; }
