@@ -34,11 +34,12 @@ int minimum_start(const ModelSpec& spec) {
 
 namespace {
 
-// Inputs whose values over the estimation sample are (nearly) a linear combination of the
-// constant and the inputs before them cannot have separate effects: the GLS step would fail with
-// no name attached. Gram-Schmidt over the columns (constant first, if any, then each input in
-// spec order) finds the first input that adds nothing new; a least-squares fit on the columns
-// before it names the ones it is made of.
+// Inputs whose lagged values over the estimation sample are (nearly) a linear combination of the
+// constant and the columns before them cannot have separate effects: the GLS step would fail with
+// no name attached. Gram-Schmidt over the columns the omegas multiply (constant first, if any,
+// then each input's lags b..b+s in spec order; with a denominator the regressor is the filtered
+// input, whose lags are collinear when the raw ones are) finds the first column that adds nothing
+// new; a least-squares fit on the columns before it names the ones it is made of.
 void check_inputs_separable(const LikelihoodProblem& problem) {
   const int n = problem.n_obs();
   const auto& spec = problem.spec;
@@ -67,9 +68,15 @@ void check_inputs_separable(const LikelihoodProblem& problem) {
         name, parts));
   };
   if (spec.constant) add(Eigen::VectorXd::Ones(n), "the constant");
-  for (size_t i = 0; i < problem.u.size(); ++i)
-    add(Eigen::Map<const Eigen::VectorXd>(problem.u[i].data() + problem.start, n),
-        fmt::format("input '{}'", spec.inputs[i].name));
+  for (size_t i = 0; i < problem.u.size(); ++i) {
+    const auto& order = spec.inputs[i].order;
+    for (int j = 0; j <= order.numerator; ++j) {  // the lagged columns the omegas multiply
+      const int lag = order.delay + j;
+      add(Eigen::Map<const Eigen::VectorXd>(problem.u[i].data() + problem.start - lag, n),
+          lag == 0 ? fmt::format("input '{}'", spec.inputs[i].name)
+                   : fmt::format("input '{}' at lag {}", spec.inputs[i].name, lag));
+    }
+  }
 }
 
 }  // namespace

@@ -72,6 +72,26 @@ TEST(Problem, CollinearInputsAreNamed) {
   EXPECT_NE(msg.find("leave one of them out"), std::string::npos) << msg;
 }
 
+TEST(Problem, CollinearityIsJudgedOnTheLaggedColumns) {
+  auto d = base_data();
+  std::vector<double> mix(80), a_lag1(80, 0.0);
+  for (int t = 0; t < 80; ++t) mix[t] = 2.0 * d.inputs[0][t] - 0.5 * d.inputs[2][t];
+  for (int t = 1; t < 80; ++t) a_lag1[t] = d.inputs[0][t - 1];
+  add_input(d, "mix", mix);
+  add_input(d, "a_lag1", a_lag1);
+  // mix two steps late is not a combination of a and c now.
+  auto spec = spec_with({"a", "c", "mix"}, true);
+  spec.inputs[2].order.delay = 2;
+  EXPECT_EQ(message_of(d, spec), "");
+  // a at delay 1 is the column a_lag1 at delay 0.
+  spec = spec_with({"a", "a_lag1"}, true);
+  spec.inputs[0].order.delay = 1;
+  const auto msg = message_of(d, spec);
+  EXPECT_NE(msg.find("input 'a_lag1' is (nearly) a linear combination of input 'a' at lag 1 over"),
+            std::string::npos)
+      << msg;
+}
+
 TEST(Problem, AnInputThatIsTheConstantShiftedIsNamedWithTheConstant) {
   auto d = base_data();
   std::vector<double> shifted(80);
