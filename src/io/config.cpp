@@ -381,12 +381,16 @@ RunConfig load_config(const fs::path& config_file) {
   return parse_config(buffer.str(), config_file);
 }
 
-long long candidate_grid_size(const RunConfig& config) {
+long long saturating_product(long long total, long long k) {
   constexpr long long kCap = std::numeric_limits<long long>::max();
+  if (k <= 0 || total <= 0) return 0;
+  return total > kCap / k ? kCap : total * k;
+}
+
+long long candidate_grid_size(const RunConfig& config) {
   long long total = 1;
   auto times = [&](long long k) {
-    if (k <= 0) return;
-    total = total > kCap / k ? kCap : total * k;
+    if (k > 0) total = saturating_product(total, k);
   };
   auto width = [](const IntRange& r) { return static_cast<long long>(r.max) - r.min + 1; };
   for (const auto& in : config.inputs)

@@ -29,4 +29,7 @@ RunConfig parse_config(std::string_view yaml_text, const std::filesystem::path& 
 // `auto`. Saturates at INT64_MAX instead of overflowing.
 long long candidate_grid_size(const RunConfig& config);
 
+// total * k for counts >= 0, saturating at INT64_MAX (grid sizes of wide configs overflow).
+long long saturating_product(long long total, long long k);
+
 }  // namespace lagsieve

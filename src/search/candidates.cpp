@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <functional>
 
+#include "io/config.h"
 #include "model/spec_from_config.h"
 
 namespace lagsieve {
@@ -23,9 +24,15 @@ CandidateGrid full_grid(const RunConfig& config) {
   g.seasonal_ma = config.noise.seasonal_ma;
   g.period = config.noise.period;
   switch (config.noise.constant) {
-    case ConstantMode::yes: g.constant = {true}; break;
-    case ConstantMode::no: g.constant = {false}; break;
-    case ConstantMode::automatic: g.constant = {false, true}; break;
+    case ConstantMode::yes:
+      g.constant = {true};
+      break;
+    case ConstantMode::no:
+      g.constant = {false};
+      break;
+    case ConstantMode::automatic:
+      g.constant = {false, true};
+      break;
   }
   g.differencing = config.differencing;
   g.transform = config.target.transform;
@@ -36,7 +43,8 @@ namespace {
 
 IntRange around(const IntRange& range, int lo, int hi) {
   IntRange r{std::max(range.min, lo), std::min(range.max, hi)};
-  if (r.min > r.max) r = {std::clamp(lo, range.min, range.max), std::clamp(lo, range.min, range.max)};
+  if (r.min > r.max)
+    r = {std::clamp(lo, range.min, range.max), std::clamp(lo, range.min, range.max)};
   return r;
 }
 
@@ -102,11 +110,14 @@ std::vector<ModelSpec> enumerate(const CandidateGrid& grid) {
 }
 
 long long grid_size(const CandidateGrid& grid) {
-  auto span = [](const IntRange& r) { return static_cast<long long>(r.max - r.min + 1); };
-  long long n = span(grid.ar) * span(grid.ma) * span(grid.seasonal_ar) * span(grid.seasonal_ma) *
-                static_cast<long long>(grid.constant.size());
+  auto span = [](const IntRange& r) { return static_cast<long long>(r.max) - r.min + 1; };
+  long long n = static_cast<long long>(grid.constant.size());
+  for (const IntRange* r : {&grid.ar, &grid.ma, &grid.seasonal_ar, &grid.seasonal_ma})
+    n = saturating_product(n, span(*r));
   for (const auto& in : grid.inputs)
-    n *= (in.optional ? 1 : 0) + (in.allow_in ? span(in.delay) * span(in.numerator) * span(in.denominator) : 0);
+    n = saturating_product(
+        n, (in.optional ? 1 : 0) +
+               (in.allow_in ? span(in.delay) * span(in.numerator) * span(in.denominator) : 0));
   return n;
 }
 
@@ -121,12 +132,13 @@ ModelSpec suggested_spec(const RunConfig& config, const ScreenResult& screen) {
     InputOrder o;
     o.delay = std::clamp(s ? s->suggested_delay : in.delay.min, in.delay.min, in.delay.max);
     o.numerator = std::clamp(s ? s->suggested_numerator : 0, in.numerator.min, in.numerator.max);
-    o.denominator = std::clamp(s ? s->suggested_denominator : 0, in.denominator.min, in.denominator.max);
+    o.denominator =
+        std::clamp(s ? s->suggested_denominator : 0, in.denominator.min, in.denominator.max);
     spec.inputs.push_back({in.name, o});
   }
   spec.noise = {std::clamp(screen.noise.p, g.ar.min, g.ar.max),
-                std::clamp(screen.noise.q, g.ma.min, g.ma.max), g.seasonal_ar.min, g.seasonal_ma.min,
-                g.period};
+                std::clamp(screen.noise.q, g.ma.min, g.ma.max), g.seasonal_ar.min,
+                g.seasonal_ma.min, g.period};
   spec.constant = g.constant.back();
   return spec;
 }
@@ -173,8 +185,10 @@ std::vector<ModelSpec> neighbours(const ModelSpec& spec, const CandidateGrid& gr
   }
   for (int step : {-1, 1}) {
     const std::pair<int NoiseOrder::*, const IntRange*> fields[] = {
-        {&NoiseOrder::p, &grid.ar}, {&NoiseOrder::q, &grid.ma},
-        {&NoiseOrder::seasonal_p, &grid.seasonal_ar}, {&NoiseOrder::seasonal_q, &grid.seasonal_ma}};
+        {&NoiseOrder::p, &grid.ar},
+        {&NoiseOrder::q, &grid.ma},
+        {&NoiseOrder::seasonal_p, &grid.seasonal_ar},
+        {&NoiseOrder::seasonal_q, &grid.seasonal_ma}};
     for (const auto& [member, range] : fields) {
       ModelSpec m = spec;
       m.noise.*member += step;

@@ -7,9 +7,11 @@
 #include <bit>
 #include <cmath>
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
+#include "io/config.h"
 #include "search/candidates.h"
 #include "search/search.h"
 #include "search_test_util.h"
@@ -63,7 +65,8 @@ TEST(SearchDeterminism, LeaderboardIdenticalWithOneAndTwoThreads) {
     EXPECT_EQ(ra.rank, rb.rank);
     EXPECT_EQ(ra.status, rb.status) << ra.key;
     // Bitwise: the same arithmetic must run whatever thread picks the candidate up.
-    EXPECT_EQ(bits(ra.loglik), bits(rb.loglik)) << ra.key << ": " << ra.loglik << " vs " << rb.loglik;
+    EXPECT_EQ(bits(ra.loglik), bits(rb.loglik))
+        << ra.key << ": " << ra.loglik << " vs " << rb.loglik;
     EXPECT_EQ(bits(ra.bic), bits(rb.bic)) << ra.key;
     EXPECT_EQ(ra.n_obs, rb.n_obs) << ra.key;
     EXPECT_EQ(ra.evaluations, rb.evaluations) << ra.key;
@@ -142,6 +145,30 @@ TEST(SearchFailures, CandidateThatCannotBeFittedIsARowRankedLast) {
   EXPECT_EQ(failures, 2 * 4 * 4);
   EXPECT_TRUE(result.has_leader);
   std::printf("  failure row message: %s\n", result.rows.back().message.c_str());
+}
+
+}  // namespace
+}  // namespace lagsieve
+
+namespace lagsieve {
+namespace {
+
+// Five inputs at the widest orders the config allows span more than 2^63 candidates: the count
+// must saturate (and so exceed any budget), not wrap around to a small or negative number.
+TEST(CandidateGrid, SizeSaturatesInsteadOfOverflowing) {
+  RunConfig config;
+  for (int i = 0; i < 5; ++i) {
+    InputConfig in;
+    in.name = "x" + std::to_string(i);
+    in.delay = {0, 500};
+    in.numerator = {0, 24};
+    in.denominator = {0, 4};
+    config.inputs.push_back(in);
+  }
+  EXPECT_EQ(grid_size(full_grid(config)), std::numeric_limits<long long>::max());
+  EXPECT_EQ(candidate_grid_size(config), std::numeric_limits<long long>::max());
+  config.inputs.resize(1);
+  EXPECT_EQ(grid_size(full_grid(config)), candidate_grid_size(config));
 }
 
 }  // namespace
