@@ -248,8 +248,8 @@ bool near_common_root(std::span<const double> a, double sign_a, std::span<const 
   return best < tol;
 }
 
-void compute_diagnostics(const LikelihoodProblem& problem, FitResult& fit,
-                         LikelihoodWorkspace& ws) {
+void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& options,
+                         FitResult& fit, LikelihoodWorkspace& ws) {
   const ModelSpec& spec = problem.spec;
   const ModelParams& p = fit.params;
   FitDiagnostics& diag = fit.diagnostics;
@@ -322,7 +322,7 @@ void compute_diagnostics(const LikelihoodProblem& problem, FitResult& fit,
 
   // Residuals against each prewhitened input over the likelihood sample (rows start..N-1 of the
   // differenced input pair with the residuals row by row).
-  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+  for (size_t i = 0; options.residual_input_check && i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
     const std::span<const double> u(problem.u[i]);
     auto check = residual_input_correlation(term.name, fit.residuals, u.subspan(problem.start),
@@ -452,7 +452,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
   for (size_t i = 0; i < all.size(); ++i)
     fit.estimates.push_back(
         {i < nl_names.size() ? nl_names[i] : l_names[i - nl_names.size()], all[i], se[i]});
-  if (options.diagnostics) compute_diagnostics(problem, fit, ws);
+  if (options.diagnostics) compute_diagnostics(problem, options, fit, ws);
   fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return fit;
 }

@@ -26,11 +26,14 @@ enum class FitStatus { ok, no_convergence, boundary, numerical_failure, rejected
 std::string_view to_string(FitStatus s);
 
 struct FitOptions {
-  int max_evaluations = 0;                // 0: 300 + 150 * (number of nonlinear parameters)
-  double relative_tolerance = 1e-10;      // stop when the log-likelihood changes less (relative)
-  double boundary_pacf = 0.995;           // |partial autocorrelation| beyond: on the boundary
-  bool standard_errors = true;            // profile-likelihood curvature (about d^2/2 evaluations)
-  bool diagnostics = true;                // residuals, Ljung-Box, roots, gains, residual-input ccf
+  int max_evaluations = 0;            // 0: 300 + 150 * (number of nonlinear parameters)
+  double relative_tolerance = 1e-10;  // stop when the log-likelihood changes less (relative)
+  double boundary_pacf = 0.995;       // |partial autocorrelation| beyond: on the boundary
+  bool standard_errors = true;        // profile-likelihood curvature (about d^2/2 evaluations)
+  bool diagnostics = true;            // residuals, Ljung-Box, roots, gains, residual-input ccf
+  // With diagnostics: the residual-input cross-correlation of every input. A search's candidate
+  // fits turn it off (they read only Ljung-Box and warnings; the leader is refitted with it).
+  bool residual_input_check = true;
   std::optional<ModelParams> warm_start;  // start here instead of the regression start values
 };
 

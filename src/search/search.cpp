@@ -5,10 +5,10 @@
 #include <tbb/parallel_for.h>
 #include <tbb/task_arena.h>
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <fmt/format.h>
 #include <mutex>
 #include <set>
 
@@ -33,9 +33,12 @@ int group_of(FitStatus s) {
   switch (s) {
     case FitStatus::ok:
     case FitStatus::boundary:
-    case FitStatus::no_convergence: return 0;
-    case FitStatus::rejected: return 1;
-    case FitStatus::numerical_failure: return 2;
+    case FitStatus::no_convergence:
+      return 0;
+    case FitStatus::rejected:
+      return 1;
+    case FitStatus::numerical_failure:
+      return 2;
   }
   return 2;
 }
@@ -43,19 +46,24 @@ int group_of(FitStatus s) {
 }  // namespace
 
 json to_json(const CandidateRow& r) {
-  json j = {{"series", r.series},       {"key", r.key},           {"rank", r.rank},
-            {"status", to_string(r.status)}, {"message", r.message},
-            {"loglik", num(r.loglik)},  {"aic", num(r.aic)},      {"aicc", num(r.aicc)},
-            {"bic", num(r.bic)},        {"n_obs", r.n_obs},       {"n_params", r.n_params},
-            {"ljung_box_p", num(r.ljung_box_p)}, {"seconds", r.seconds},
-            {"evaluations", r.evaluations}};
+  json j = {{"series", r.series},     {"key", r.key},
+            {"rank", r.rank},         {"status", to_string(r.status)},
+            {"message", r.message},   {"loglik", num(r.loglik)},
+            {"aic", num(r.aic)},      {"aicc", num(r.aicc)},
+            {"bic", num(r.bic)},      {"n_obs", r.n_obs},
+            {"n_params", r.n_params}, {"ljung_box_p", num(r.ljung_box_p)},
+            {"seconds", r.seconds},   {"evaluations", r.evaluations}};
   json inputs = json::object();
   for (const auto& t : r.spec.inputs)
-    inputs[t.name] = {{"delay", t.order.delay}, {"numerator", t.order.numerator},
+    inputs[t.name] = {{"delay", t.order.delay},
+                      {"numerator", t.order.numerator},
                       {"denominator", t.order.denominator}};
   j["inputs"] = inputs;
-  j["noise"] = {{"p", r.spec.noise.p}, {"q", r.spec.noise.q}, {"seasonal_p", r.spec.noise.seasonal_p},
-                {"seasonal_q", r.spec.noise.seasonal_q}, {"period", r.spec.noise.period}};
+  j["noise"] = {{"p", r.spec.noise.p},
+                {"q", r.spec.noise.q},
+                {"seasonal_p", r.spec.noise.seasonal_p},
+                {"seasonal_q", r.spec.noise.seasonal_q},
+                {"period", r.spec.noise.period}};
   j["constant"] = r.spec.constant;
   if (std::isfinite(r.backtest_score)) {
     j["backtest_score"] = r.backtest_score;
@@ -109,6 +117,7 @@ CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int st
     const auto problem = make_problem(data, spec, start);
     FitOptions options;
     options.standard_errors = false;
+    options.residual_input_check = false;
     const FitResult fit = fit_model(problem, options);
     row.status = fit.status;
     row.message = fit.message;
@@ -120,7 +129,8 @@ CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int st
     row.n_params = fit.n_params;
     row.seconds = fit.seconds;
     row.evaluations = fit.evaluations;
-    if (!fit.diagnostics.ljung_box.empty()) row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
+    if (!fit.diagnostics.ljung_box.empty())
+      row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
     for (const auto& w : fit.diagnostics.warnings)
       if (w.rfind("near_cancellation", 0) == 0 && fit.usable()) {
         row.status = FitStatus::rejected;
@@ -193,7 +203,8 @@ class Evaluator {
 
 }  // namespace
 
-SearchResult run_search(const SeriesData& data, const RunConfig& config, const SearchOptions& options) {
+SearchResult run_search(const SeriesData& data, const RunConfig& config,
+                        const SearchOptions& options) {
   const auto t0 = std::chrono::steady_clock::now();
   SearchResult result;
   result.series = data.target_name;
