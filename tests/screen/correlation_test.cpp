@@ -86,3 +86,32 @@ TEST(Correlation, LagsAreCappedAtNMinusOne) {
 
 }  // namespace
 }  // namespace lagsieve
+
+namespace lagsieve {
+namespace {
+
+// The AR-by-AIC choice on three more series (the differenced Series M lead over the residual
+// samples of tests/reference/residual_ccf, computed there with base R `lm` per order on common
+// rows): every order's AIC, the chosen order and its coefficients.
+TEST(Correlation, AicOrderChoiceMatchesROnMoreSeries) {
+  const auto fx = testing::load_fixture("residual_ccf/residual_ccf_r.json");
+  ASSERT_EQ(fx["cases"].size(), 3u);
+  for (const auto& c : fx["cases"]) {
+    SCOPED_TRACE(c["id"].get<std::string>());
+    const auto x = testing::to_vector(c["x"]);
+    const auto& want = c["expected"];
+    const int n = static_cast<int>(x.size());
+    const auto fit = fit_ar_by_aic(x, std::min(10, n / 5));
+    EXPECT_EQ(fit.order, want["ar_order"].get<int>());
+    EXPECT_NEAR(fit.mean, want["ar_mean"].get<double>(), 1e-12);
+    const auto aic = testing::to_vector(want["aic"]);
+    ASSERT_EQ(fit.aic.size(), aic.size());
+    for (size_t p = 0; p < aic.size(); ++p) EXPECT_NEAR(fit.aic[p], aic[p], 1e-9) << "order " << p;
+    const auto phi = testing::to_vector(want["ar_phi"]);
+    ASSERT_EQ(fit.phi.size(), phi.size());
+    for (size_t j = 0; j < phi.size(); ++j) EXPECT_NEAR(fit.phi[j], phi[j], 1e-10) << "phi " << j;
+  }
+}
+
+}  // namespace
+}  // namespace lagsieve
