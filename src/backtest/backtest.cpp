@@ -4,14 +4,15 @@
 #include <tbb/parallel_for.h>
 #include <tbb/task_arena.h>
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
 
 #include "core/error.h"
 #include "core/names.h"
 #include "evaluation/distributions.h"
 #include "forecast/forecast.h"
+#include "io/csv.h"
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
 
@@ -30,7 +31,8 @@ SeriesData slice(const SeriesData& data, int from, int to) {
   return s;
 }
 
-std::vector<double> future_values(const SeriesData& data, const std::string& name, int from, int count) {
+std::vector<double> future_values(const SeriesData& data, const std::string& name, int from,
+                                  int count) {
   const int index = data.input_index(name);
   if (index < 0) return {};
   const auto& u = data.inputs[index];
@@ -38,8 +40,8 @@ std::vector<double> future_values(const SeriesData& data, const std::string& nam
 }
 
 // Fits the candidate's spec on one window; warm-started from `previous` when given.
-std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesData& window, int start,
-                                      const std::optional<FittedModel>& previous) {
+std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesData& window,
+                                      int start, const std::optional<FittedModel>& previous) {
   const auto problem = make_problem(window, c.spec, start);
   FitOptions options;
   options.standard_errors = false;
@@ -57,8 +59,8 @@ std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesDa
     if (use.is_event || use.future != FutureMode::forecast) continue;
     const int index = window.input_index(use.name);
     const auto& orders = i < c.input_orders.size() ? c.input_orders[i] : InputModelConfig{};
-    m.input_models.push_back(fit_input_model(use.name, window.inputs[index], c.spec.differencing,
-                                             orders.p, orders.q));
+    m.input_models.push_back(
+        fit_input_model(use.name, window.inputs[index], c.spec.differencing, orders.p, orders.q));
   }
   return m;
 }
@@ -130,7 +132,8 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       continue;
     }
     try {
-      const bool refit_now = !c.fixed && (o.refit > 0 ? k % static_cast<size_t>(o.refit) == 0 : k == 0);
+      const bool refit_now =
+          !c.fixed && (o.refit > 0 ? k % static_cast<size_t>(o.refit) == 0 : k == 0);
       if (refit_now) {
         auto fitted = fit_window(c, window, o.start, last_fit);
         if (fitted) {
@@ -152,8 +155,9 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
         if (use.is_event || use.future == FutureMode::known)
           production.push_back({use.name, actual});
         else if (use.known_steps > 0)
-          production.push_back({use.name, std::vector<double>(actual.begin(),
-                                                              actual.begin() + std::min(use.known_steps, horizon))});
+          production.push_back(
+              {use.name, std::vector<double>(actual.begin(),
+                                             actual.begin() + std::min(use.known_steps, horizon))});
       }
       add_records(out.production, origin, forecast(*current, window, production, fo), data, scale);
       fo.oracle_inputs = true;
@@ -173,8 +177,6 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
   return out;
 }
 
-std::string num(double v) { return std::isfinite(v) ? fmt::format("{:.10g}", v) : ""; }
-
 std::string level_name(double level) { return fmt::format("{:g}", 100.0 * level); }
 
 }  // namespace
@@ -191,20 +193,23 @@ BacktestOptions backtest_options(const RunConfig& config, int rows) {
   o.refit = b.refit;
   o.levels = b.levels;
   o.season = config.differencing.seasonal > 0 ? config.differencing.period
-             : config.noise.period > 1       ? config.noise.period
-                                             : 1;
+             : config.noise.period > 1        ? config.noise.period
+                                              : 1;
   if (o.horizon < 1) throw InputError(where + "horizon must be at least 1");
   if (o.step < 1) throw InputError(where + "step must be at least 1");
   if (o.first_origin >= rows)
-    throw InputError(fmt::format("{}first_origin {} is at or beyond the last row ({} rows); choose "
-                                 "an origin inside the data",
-                                 where, o.first_origin, rows));
+    throw InputError(
+        fmt::format("{}first_origin {} is at or beyond the last row ({} rows); choose "
+                    "an origin inside the data",
+                    where, o.first_origin, rows));
   if (o.first_origin < 3 * o.season + 10)
     throw InputError(fmt::format("{}first_origin {} leaves too little data to fit before it", where,
                                  o.first_origin));
   static const std::pair<const char*, AccuracyMeasure> scores[] = {
-      {"mase", AccuracyMeasure::mase}, {"rmse", AccuracyMeasure::rmse},
-      {"mae", AccuracyMeasure::mae}, {"interval_score", AccuracyMeasure::interval_score}};
+      {"mase", AccuracyMeasure::mase},
+      {"rmse", AccuracyMeasure::rmse},
+      {"mae", AccuracyMeasure::mae},
+      {"interval_score", AccuracyMeasure::interval_score}};
   bool found = false;
   for (const auto& [name, measure] : scores)
     if (b.score == name) {
@@ -212,11 +217,13 @@ BacktestOptions backtest_options(const RunConfig& config, int rows) {
       found = true;
     }
   if (!found)
-    throw InputError(fmt::format("{}score '{}' is not one of mase, rmse, mae, interval_score", where, b.score));
+    throw InputError(
+        fmt::format("{}score '{}' is not one of mase, rmse, mae, interval_score", where, b.score));
   return o;
 }
 
-BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& candidates,
+BacktestResult run_backtest(const SeriesData& data,
+                            const std::vector<BacktestCandidate>& candidates,
                             const BacktestOptions& options) {
   BacktestResult result;
   result.levels = options.levels;
@@ -259,7 +266,8 @@ std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
       if (losses.loss_a.size() < static_cast<size_t>(h) + 3) continue;
       DieboldMarianoOptions dmo;
       dmo.horizon = h;
-      rows.push_back({lead.name, other.name, h, "squared", diebold_mariano(losses.loss_a, losses.loss_b, dmo)});
+      rows.push_back({lead.name, other.name, h, "squared",
+                      diebold_mariano(losses.loss_a, losses.loss_b, dmo)});
     }
   }
   return rows;
@@ -268,7 +276,8 @@ std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
 namespace {
 
 // Per origin: the mean over horizons of |error| / scale (the quantity MASE averages).
-std::vector<double> scaled_error_by_origin(const ForecastRecords& records, const std::vector<int>& origins) {
+std::vector<double> scaled_error_by_origin(const ForecastRecords& records,
+                                           const std::vector<int>& origins) {
   std::vector<double> out;
   for (int origin : origins) {
     double sum = 0.0;
@@ -378,9 +387,11 @@ std::string backtest_csv(const BacktestResult& r) {
         size_t k = 0;
         while (k < r.origins.size() && r.origins[k] != rec.origin) ++k;
         const std::string otime = k < r.origin_times.size() ? r.origin_times[k] : "";
-        out += fmt::format("\"{}\",{},{},{},{},{},{},{}", m.name, mode, rec.origin, otime, rec.horizon,
-                           rec.origin + rec.horizon - 1, num(rec.forecast), num(rec.actual));
-        for (size_t l = 0; l < rec.lower.size(); ++l) out += fmt::format(",{},{}", num(rec.lower[l]), num(rec.upper[l]));
+        out += fmt::format("{},{},{},{},{},{},{},{}", csv_field(m.name), mode, rec.origin, otime,
+                           rec.horizon, rec.origin + rec.horizon - 1, csv_number(rec.forecast),
+                           csv_number(rec.actual));
+        for (size_t l = 0; l < rec.lower.size(); ++l)
+          out += fmt::format(",{},{}", csv_number(rec.lower[l]), csv_number(rec.upper[l]));
         out += "\n";
       }
     }
@@ -397,11 +408,11 @@ std::string accuracy_csv(const BacktestResult& r) {
       const bool prod = std::string(mode) == "production";
       const auto& table = prod ? m.production_accuracy : m.oracle_accuracy;
       auto emit = [&](const AccuracyRow& row) {
-        out += fmt::format("\"{}\",{},{},{},{},{},{}", m.name, mode, row.horizon, row.count, num(row.mae),
-                           num(row.rmse), num(row.mase));
-        for (double c : row.coverage) out += "," + num(c);
-        for (double s : row.interval_score) out += "," + num(s);
-        out += "," + (row.horizon == 0 && prod ? num(m.score) : std::string()) + "\n";
+        out += fmt::format("{},{},{},{},{},{},{}", csv_field(m.name), mode, row.horizon, row.count,
+                           csv_number(row.mae), csv_number(row.rmse), csv_number(row.mase));
+        for (double c : row.coverage) out += "," + csv_number(c);
+        for (double s : row.interval_score) out += "," + csv_number(s);
+        out += "," + (row.horizon == 0 && prod ? csv_number(m.score) : std::string()) + "\n";
       };
       if (table.by_horizon.empty()) continue;
       emit(table.overall);
@@ -413,19 +424,22 @@ std::string accuracy_csv(const BacktestResult& r) {
 std::string comparisons_csv(const BacktestResult& r) {
   std::string out = "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n";
   for (const auto& c : r.comparisons)
-    out += fmt::format("\"{}\",\"{}\",{},{},{},{},{},{},{}\n", c.leader, c.challenger, c.horizon, c.loss,
-                       c.test.n, num(c.test.mean_difference), num(c.test.statistic), num(c.test.p_value),
-                       c.test.status == DieboldMarianoStatus::ok ? "ok"
-                       : c.test.status == DieboldMarianoStatus::variance_fallback ? "variance_fallback"
-                                                                                 : "degenerate");
+    out +=
+        fmt::format("{},{},{},{},{},{},{},{},{}\n", csv_field(c.leader), csv_field(c.challenger),
+                    c.horizon, c.loss, c.test.n, csv_number(c.test.mean_difference),
+                    csv_number(c.test.statistic), csv_number(c.test.p_value),
+                    c.test.status == DieboldMarianoStatus::ok                  ? "ok"
+                    : c.test.status == DieboldMarianoStatus::variance_fallback ? "variance_fallback"
+                                                                               : "degenerate");
   return out;
 }
 
 std::string input_value_csv(const BacktestResult& r) {
   std::string out = "input,score_with,score_without,difference,statistic,p_value\n";
   for (const auto& v : r.input_value)
-    out += fmt::format("\"{}\",{},{},{},{},{}\n", v.input, num(v.score_with), num(v.score_without),
-                       num(v.score_without - v.score_with), num(v.test.statistic), num(v.test.p_value));
+    out += fmt::format("{},{},{},{},{},{}\n", csv_field(v.input), csv_number(v.score_with),
+                       csv_number(v.score_without), csv_number(v.score_without - v.score_with),
+                       csv_number(v.test.statistic), csv_number(v.test.p_value));
   return out;
 }
 
@@ -437,8 +451,12 @@ nlohmann::json accuracy_json(const ModelBacktest& m, const BacktestOptions& o) {
   j["origins"] = static_cast<int>(m.production.records.size());
   j["by_horizon"] = nlohmann::json::array();
   for (const auto& row : m.production_accuracy.by_horizon)
-    j["by_horizon"].push_back({{"horizon", row.horizon}, {"count", row.count}, {"mae", row.mae},
-                               {"rmse", row.rmse}, {"mase", row.mase}, {"coverage", row.coverage}});
+    j["by_horizon"].push_back({{"horizon", row.horizon},
+                               {"count", row.count},
+                               {"mae", row.mae},
+                               {"rmse", row.rmse},
+                               {"mase", row.mase},
+                               {"coverage", row.coverage}});
   return j;
 }
 

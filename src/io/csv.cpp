@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include <cmath>
+
 #include <fstream>
 #include <sstream>
 #include <unordered_set>
@@ -76,8 +78,9 @@ class Parser {
     const size_t begin = pos_;
     while (pos_ < text_.size() && text_[pos_] != ',' && !at_line_break()) {
       if (text_[pos_] == '"')
-        fail(line_, "a double quote inside an unquoted cell; put the whole cell in quotes and "
-                    "write an inner quote as \"\"");
+        fail(line_,
+             "a double quote inside an unquoted cell; put the whole cell in quotes and "
+             "write an inner quote as \"\"");
       ++pos_;
     }
     return std::string(trim(text_.substr(begin, pos_ - begin)));
@@ -138,20 +141,23 @@ CsvTable parse_csv(std::string_view text, const std::string& source) {
   Parser parser(text, table.source);
   int line = 0;
   if (!parser.next(table.header, line))
-    throw InputError(fmt::format("{}: the file is empty; it needs a header row of column names "
-                                 "and at least one data row",
-                                 source));
+    throw InputError(
+        fmt::format("{}: the file is empty; it needs a header row of column names "
+                    "and at least one data row",
+                    source));
   std::unordered_set<std::string> seen;
   for (size_t c = 0; c < table.header.size(); ++c) {
     const auto& name = table.header[c];
     if (name.empty())
-      throw InputError(fmt::format("{}:{}: column {} of the header has no name; give every "
-                                   "column a name",
-                                   source, line, c + 1));
+      throw InputError(
+          fmt::format("{}:{}: column {} of the header has no name; give every "
+                      "column a name",
+                      source, line, c + 1));
     if (!seen.insert(name).second)
-      throw InputError(fmt::format("{}:{}: column name '{}' appears twice in the header; column "
-                                   "names must be unique",
-                                   source, line, name));
+      throw InputError(
+          fmt::format("{}:{}: column name '{}' appears twice in the header; column "
+                      "names must be unique",
+                      source, line, name));
   }
   std::vector<std::string> fields;
   while (parser.next(fields, line)) {
@@ -169,19 +175,32 @@ CsvTable parse_csv(std::string_view text, const std::string& source) {
 CsvTable read_csv(const std::filesystem::path& file) {
   std::error_code ec;
   if (!std::filesystem::exists(file, ec))
-    throw InputError(fmt::format("data file '{}' does not exist; check `data.file` (paths are "
-                                 "relative to the config file)",
-                                 file.string()));
+    throw InputError(
+        fmt::format("data file '{}' does not exist; check `data.file` (paths are "
+                    "relative to the config file)",
+                    file.string()));
   if (std::filesystem::is_directory(file, ec))
     throw InputError(fmt::format("data file '{}' is a folder, not a CSV file; check `data.file`",
                                  file.string()));
   std::ifstream in(file, std::ios::binary);
   if (!in)
-    throw InputError(fmt::format("cannot read data file '{}'; check its permissions",
-                                 file.string()));
+    throw InputError(
+        fmt::format("cannot read data file '{}'; check its permissions", file.string()));
   std::ostringstream buffer;
   buffer << in.rdbuf();
   return parse_csv(buffer.str(), file.string());
 }
+
+std::string csv_field(const std::string& text) {
+  if (text.find_first_of(",\"\n\r") == std::string::npos) return text;
+  std::string out = "\"";
+  for (char c : text) {
+    if (c == '"') out += '"';
+    out += c;
+  }
+  return out + "\"";
+}
+
+std::string csv_number(double v) { return std::isfinite(v) ? fmt::format("{:.10g}", v) : ""; }
 
 }  // namespace lagsieve

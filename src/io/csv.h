@@ -31,4 +31,10 @@ CsvTable parse_csv(std::string_view text, const std::string& source = "<text>");
 // Reads and parses a file; a missing or unreadable file is an InputError naming the path.
 CsvTable read_csv(const std::filesystem::path& file);
 
+// Writing: a cell quoted (with quotes doubled) only when it holds a comma, quote or line break,
+// so names read back unchanged by parse_csv; a number with 10 significant digits, or an empty
+// cell when it is not finite.
+std::string csv_field(const std::string& text);
+std::string csv_number(double v);
+
 }  // namespace lagsieve

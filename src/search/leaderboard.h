@@ -9,9 +9,6 @@
 
 namespace lagsieve {
 
-// A CSV field, quoted when it holds a comma, quote or line break.
-std::string csv_field(const std::string& text);
-
 std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConfig& config);
 nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config);
 

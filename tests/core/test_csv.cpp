@@ -1,9 +1,11 @@
 // The CSV reader: quoting, line ends, byte-order mark, width, and its error messages.
 #include <gtest/gtest.h>
 
+#include <cmath>
 #include <filesystem>
 #include <fstream>
 #include <string>
+#include <vector>
 
 #include "core/error.h"
 #include "io/csv.h"
@@ -18,6 +20,23 @@ std::string error_of(const std::string& text) {
     return e.what();
   }
   return "(no error)";
+}
+
+// What the run folder writes reads back unchanged: names with commas, quotes and line breaks.
+TEST(Csv, WrittenFieldsReadBack) {
+  const std::vector<std::string> names{"plain", "a,b", "say \"hi\"", "two\nlines", ""};
+  std::string text = "name,value\n";
+  for (const auto& n : names) text += csv_field(n) + "," + csv_number(0.1) + "\n";
+  text += csv_field("nan") + "," + csv_number(std::nan("")) + "\n";
+  const auto table = parse_csv(text);
+  ASSERT_EQ(table.row_count(), 6);
+  for (size_t i = 0; i < names.size(); ++i) {
+    EXPECT_EQ(table.rows[i][0], names[i]);
+    EXPECT_EQ(table.rows[i][1], "0.1");
+  }
+  EXPECT_EQ(csv_field("plain"), "plain");
+  EXPECT_EQ(csv_field("a,b"), "\"a,b\"");
+  EXPECT_EQ(table.rows[5][1], "");
 }
 
 TEST(Csv, PlainTable) {
