@@ -1,12 +1,6 @@
 // `lagsieve search CONFIG`: the main job. Fits every candidate the config allows on one common
 // sample, ranks them, writes the leaderboard and the leader's model file.
-#include <fmt/format.h>
-#include <unistd.h>
-
-#include <chrono>
-#include <filesystem>
 #include <memory>
-#include <string>
 
 #include "cli/commands.h"
 #include "cli/common.h"

@@ -42,7 +42,6 @@ class YamlReader {
   // `0.7`, `[0.7, -0.2]` or `[]`: a list of finite numbers.
   std::vector<double> get_list(const YAML::Node& node, const std::string& path) const;
 
-  const std::string& source() const { return source_; }
 
  private:
   std::string source_;

@@ -20,12 +20,10 @@ using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::R
 struct ArmaFilterWorkspace {
   Eigen::MatrixXd P, TP, Pnext, lyap_a, lyap_tmp;
   Eigen::VectorXd gain, ar_full, ma_full;
-  RowMatrix states;     // m x columns
+  RowMatrix states;     // scratch states of one column group (4 x m) when m > 4
   RowMatrix gains;      // Kalman gain K_t of each step before the steady state (steps x m)
   Eigen::VectorXd inv_sqrt_f;  // 1 / sqrt(F_t) of the same steps
   Eigen::MatrixXd scaled;  // n x columns: standardised innovations v_t / sqrt(F_t)
-  Eigen::VectorXd innov;
-  Eigen::RowVectorXd row0;
 };
 
 struct ArmaFilterSummary {

@@ -363,7 +363,6 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
                                          : 1;
   o.start = -1;
   o.threads = threads;
-  out.comparison_options = o;
 
   // 4a. The challenger search on all rows (and the config's shortlist backtest).
   SearchOptions so;

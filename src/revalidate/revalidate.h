@@ -184,7 +184,6 @@ struct RevalidationResult {
   std::optional<FittedModel> refit_model;
   std::optional<FittedModel> challenger_model;
   SearchResult search;              // the challenger search (ranked rows)
-  BacktestOptions comparison_options;
   BacktestResult comparison;        // new-period origins: deployed, re-fitted, challenger, naive
   double seconds = 0.0;
 };

@@ -25,8 +25,6 @@ class Journal {
   const nlohmann::json* find(const std::string& series, const std::string& key) const;
   // Appends one row (thread-safe); written with one write() so a kill leaves whole lines.
   void append(const nlohmann::json& row);
-  int loaded() const { return static_cast<int>(rows_.size()); }
-  const std::filesystem::path& path() const { return path_; }
 
  private:
   std::filesystem::path path_;

@@ -93,7 +93,8 @@ TEST(LikelihoodReference, RegressionWithMaErrorsOptimumMatchesR) {
     for (const auto& e : fit.estimates)
       if (e.name == ours) {
         EXPECT_NEAR(e.value, coef[i], 1e-3) << ours;
-        // Standard errors from our numerical Hessian against R's: same quantity, 1% agreement.
+        // Standard errors from the profile-likelihood curvature against R's numerical Hessian:
+        // the same quantity, 1% agreement.
         EXPECT_LT(relative_difference(e.std_error, se[i]), 1e-2) << ours;
       }
   }

@@ -163,7 +163,7 @@ TEST(ResidualInputCorrelation, WrongDelayShowsItsLagAndTheRightOneDoesNot) {
     right_flagged += has_warning(right, "x") ? 1 : 0;
     right_below_05 += r.p_value < 0.05 ? 1 : 0;
     if (seed == 1) {
-      // The seed the brief check is stated for: clean pass, no warning.
+      // One seed checked on its own as well: a clean pass, no warning.
       EXPECT_GT(r.p_value, 0.01);
       EXPECT_FALSE(has_warning(right, "x"));
     }
