@@ -282,45 +282,6 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
   return out;
 }
 
-double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, LikelihoodWorkspace& ws,
-                 double* sigma2_out) {
-  const auto nonlinear = pack_nonlinear(problem.spec, p);
-  const auto linear = pack_linear(problem.spec, p);
-  // Residual column w - X beta, built directly (the regressor columns are not needed): the same
-  // operations in the same order as subtracting each column of build_columns in turn.
-  const ModelSpec& spec = problem.spec;
-  const int n = problem.n_obs();
-  const int start = problem.start;
-  RowMatrix& resid = ws.columns;
-  resid.resize(n, 1);
-  for (int t = 0; t < n; ++t) resid(t, 0) = problem.w[start + t];
-  size_t l = 0, k = 0;
-  if (spec.constant) {
-    const double c = linear[l++];
-    for (int t = 0; t < n; ++t) resid(t, 0) -= c * 1.0;
-  }
-  ws.filtered.resize(spec.inputs.size());
-  for (size_t i = 0; i < spec.inputs.size(); ++i) {
-    const auto& order = spec.inputs[i].order;
-    filter_denominator(problem.u[i],
-                       std::span<const double>(nonlinear).subspan(k, order.denominator),
-                       ws.filtered[i]);
-    k += order.denominator;
-    for (int j = 0; j <= order.numerator; ++j) {
-      const double omega = linear[l++];
-      const double* x = ws.filtered[i].data() + start - order.delay - j;
-      for (int t = 0; t < n; ++t) resid(t, 0) -= omega * x[t];
-    }
-  }
-  std::vector<double> ar, ma;
-  noise_polynomials(spec.noise, std::span<const double>(nonlinear).subspan(k), ar, ma);
-  const auto summary = arma_filter(ar, ma, resid, ws.filter);
-  if (!summary.ok) return -std::numeric_limits<double>::infinity();
-  const double ssr = summary.cross(0, 0);
-  if (sigma2_out) *sigma2_out = ssr / problem.n_obs();
-  return gaussian_loglik(problem.n_obs(), ssr, summary.sum_log_f);
-}
-
 std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelParams& p) {
   std::vector<double> noise(problem.w.begin(), problem.w.end());
   for (auto& v : noise) v -= p.constant;
@@ -331,15 +292,34 @@ std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelPar
   return noise;
 }
 
-std::vector<double> model_residuals(const LikelihoodProblem& problem, const ModelParams& p,
-                                    LikelihoodWorkspace& ws) {
+namespace {
+
+// The model's noise over the likelihood sample through the ARMA filter at the parameters of `p`.
+ArmaFilterSummary filter_noise(const LikelihoodProblem& problem, const ModelParams& p,
+                               LikelihoodWorkspace& ws, std::vector<double>* innovations) {
   const auto noise = model_noise(problem, p);
   RowMatrix col(problem.n_obs(), 1);
   for (int t = 0; t < problem.n_obs(); ++t) col(t, 0) = noise[problem.start + t];
   const auto ar = expand_ar(p.phi, p.seasonal_phi, problem.spec.noise.period);
   const auto ma = expand_ma(p.theta, p.seasonal_theta, problem.spec.noise.period);
+  return arma_filter(ar, ma, col, ws.filter, innovations);
+}
+
+}  // namespace
+
+double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, LikelihoodWorkspace& ws,
+                 double* sigma2_out) {
+  const auto summary = filter_noise(problem, p, ws, nullptr);
+  if (!summary.ok) return -std::numeric_limits<double>::infinity();
+  const double ssr = summary.cross(0, 0);
+  if (sigma2_out) *sigma2_out = ssr / problem.n_obs();
+  return gaussian_loglik(problem.n_obs(), ssr, summary.sum_log_f);
+}
+
+std::vector<double> model_residuals(const LikelihoodProblem& problem, const ModelParams& p,
+                                    LikelihoodWorkspace& ws) {
   std::vector<double> innovations;
-  arma_filter(ar, ma, col, ws.filter, &innovations);
+  filter_noise(problem, p, ws, &innovations);
   return innovations;
 }
 
