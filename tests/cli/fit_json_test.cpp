@@ -2,28 +2,22 @@
 // configs/demo_single.yaml): the diagnostics carry the residual-input cross-correlation of every
 // input, shaped as documented, and a wrong delay is flagged with its missing lag.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
 
 #include <cmath>
-#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <random>
-#include <sstream>
 #include <string>
+
+#include "run_binary.h"
 
 namespace {
 
 namespace fs = std::filesystem;
 using nlohmann::json;
 
-std::string slurp(const fs::path& p) {
-  std::ifstream in(p);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
+using lagsieve::testing::slurp;
 
 std::string replace_all(std::string s, const std::string& from, const std::string& to) {
   size_t at = s.find(from);
@@ -43,11 +37,9 @@ json fit_json(const std::string& from, const std::string& to) {
                      std::string(LAGSIEVE_SOURCE_DIR) + "/data/heat_demand.csv");
   if (!from.empty()) yaml = replace_all(yaml, from, to);
   std::ofstream(dir / "cfg.yaml") << yaml;
-  const std::string cmd = "cd '" + dir.string() + "' && '" + LAGSIEVE_BINARY +
-                          "' fit cfg.yaml --json > out.json 2> err.txt";
-  const int status = std::system(cmd.c_str());
-  EXPECT_TRUE(WIFEXITED(status) && WEXITSTATUS(status) == 0) << slurp(dir / "err.txt");
-  json j = json::parse(slurp(dir / "out.json"));
+  const auto run = lagsieve::testing::run_lagsieve(dir, "fit cfg.yaml --json");
+  EXPECT_EQ(run.code, 0) << run.err;
+  json j = json::parse(run.out);
   fs::remove_all(dir);
   return j;
 }

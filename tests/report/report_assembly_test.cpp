@@ -15,6 +15,7 @@
 #include "core/error.h"
 #include "markup_check.h"
 #include "report_fixture.h"
+#include "run_binary.h"
 
 namespace lagsieve {
 namespace {
@@ -27,12 +28,7 @@ using test::parse_markup;
 using test::write_text;
 namespace fs = std::filesystem;
 
-std::string read_file(const fs::path& file) {
-  std::ifstream in(file, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
+using lagsieve::testing::slurp;
 
 std::vector<double> numbers(const std::string& list) {
   std::vector<double> v;
@@ -48,7 +44,8 @@ std::vector<double> from_json(const json& a) {
   return v;
 }
 
-void expect_same(const std::vector<double>& got, const std::vector<double>& want, const std::string& what) {
+void expect_same(const std::vector<double>& got, const std::vector<double>& want,
+                 const std::string& what) {
   ASSERT_EQ(got.size(), want.size()) << what;
   for (size_t i = 0; i < got.size(); ++i) {
     if (std::isnan(want[i]))
@@ -60,7 +57,7 @@ void expect_same(const std::vector<double>& got, const std::vector<double>& want
 
 // A standalone chart: parsed, checked well-formed and offline, and found verbatim in the page.
 test::ParseResult chart(const fs::path& dir, const std::string& file, const std::string& html) {
-  const std::string svg = read_file(dir / "charts" / file);
+  const std::string svg = slurp(dir / "charts" / file);
   EXPECT_FALSE(svg.empty()) << file;
   EXPECT_NE(html.find(svg), std::string::npos) << file << " is not the chart in the page";
   EXPECT_EQ(test::external_urls(svg), 0) << file;
@@ -79,7 +76,9 @@ const Element* series_named(const test::ParseResult& r, const std::string& name)
 
 const Element* band_named(const test::ParseResult& r, const std::string& name) {
   for (const auto& e : r.elements)
-    if (e.attrs.count("data-band") && e.attrs.at("data-band") == name && e.attrs.count("data-lower")) return &e;
+    if (e.attrs.count("data-band") && e.attrs.at("data-band") == name &&
+        e.attrs.count("data-lower"))
+      return &e;
   return nullptr;
 }
 
@@ -90,7 +89,8 @@ std::vector<std::string> headings(const test::ParseResult& r) {
 }
 
 // Cells of the table whose caption starts with `caption`, row by row.
-std::vector<std::vector<std::string>> table_cells(const std::string& html, const std::string& caption) {
+std::vector<std::vector<std::string>> table_cells(const std::string& html,
+                                                  const std::string& caption) {
   const size_t at = html.find("<caption>" + caption);
   if (at == std::string::npos) return {};
   const size_t end = html.find("</table>", at);
@@ -118,7 +118,7 @@ class ReportFolder : public ::testing::Test {
 TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   const ReportResult r = write_report(dir);
   EXPECT_EQ(r.path, dir / "report.html");
-  const std::string html = read_file(r.path);
+  const std::string html = slurp(r.path);
   const auto doc = parse_markup(html);
   ASSERT_TRUE(doc.ok) << doc.error;
   EXPECT_EQ(test::external_urls(html), 0);
@@ -126,8 +126,10 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   EXPECT_EQ(html.find("<link"), std::string::npos);
   EXPECT_EQ(html.find("<img"), std::string::npos);
 
-  const std::vector<std::string> want = {"Run summary", "Inputs: cross-correlation and impulse response",
-                                         "Leaderboard", "Forecast", "Backtest", "Leader diagnostics"};
+  const std::vector<std::string> want = {
+      "Run summary", "Inputs: cross-correlation and impulse response",
+      "Leaderboard", "Forecast",
+      "Backtest",    "Leader diagnostics"};
   EXPECT_EQ(headings(doc), want);
   EXPECT_EQ(r.sections, want);
   EXPECT_TRUE(r.warnings.empty());
@@ -144,10 +146,17 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   EXPECT_NE(html.find("omega of temp is large"), std::string::npos);
 
   // One chart file per figure, every one of them embedded in the page.
-  const std::vector<std::string> files = {
-      "ccf_temp.svg", "impulse_temp.svg", "ccf_price.svg", "impulse_price.svg", "forecast_fan.svg",
-      "backtest_error_by_horizon.svg", "backtest_inputs_known_vs_forecast.svg", "coverage.svg",
-      "backtest_one_step.svg", "residual_acf.svg", "residual_ccf_temp.svg"};
+  const std::vector<std::string> files = {"ccf_temp.svg",
+                                          "impulse_temp.svg",
+                                          "ccf_price.svg",
+                                          "impulse_price.svg",
+                                          "forecast_fan.svg",
+                                          "backtest_error_by_horizon.svg",
+                                          "backtest_inputs_known_vs_forecast.svg",
+                                          "coverage.svg",
+                                          "backtest_one_step.svg",
+                                          "residual_acf.svg",
+                                          "residual_ccf_temp.svg"};
   ASSERT_EQ(r.charts.size(), files.size());
   for (size_t i = 0; i < files.size(); ++i) {
     EXPECT_EQ(r.charts[i], dir / "charts" / files[i]);
@@ -157,7 +166,7 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
 }
 
 TEST_F(ReportFolder, CrossCorrelationBarsAreTheScreensNumbers) {
-  const std::string html = read_file(write_report(dir).path);
+  const std::string html = slurp(write_report(dir).path);
   const json screen = test::screen_json("demand");
   for (size_t i = 0; i < 2; ++i) {
     const json& in = screen["inputs"][i];
@@ -184,7 +193,7 @@ TEST_F(ReportFolder, CrossCorrelationBarsAreTheScreensNumbers) {
 }
 
 TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
-  const std::string html = read_file(write_report(dir).path);
+  const std::string html = slurp(write_report(dir).path);
   const json temp = test::screen_json("demand")["inputs"][0];
   const auto svg = chart(dir, "impulse_temp.svg", html);
   const Element* est = series_named(svg, "screen estimate");
@@ -193,7 +202,8 @@ TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
   expect_same(numbers(est->attrs.at("data-values")), from_json(temp["impulse"]), "screen estimate");
   const Element* shape = series_named(svg, "screen shape b1 s0 r1");
   ASSERT_NE(shape, nullptr);
-  expect_same(numbers(shape->attrs.at("data-values")), from_json(temp["impulse_fitted"]), "screen shape");
+  expect_same(numbers(shape->attrs.at("data-values")), from_json(temp["impulse_fitted"]),
+              "screen shape");
   // Closed form of omega_0 B / (1 - 0.5 B) with omega_0 = 2: 0, 2, 1, 0.5.
   const Element* leader = series_named(svg, "leader b1 s0 r1");
   ASSERT_NE(leader, nullptr);
@@ -214,13 +224,14 @@ TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
 }
 
 TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
-  const std::string html = read_file(write_report(dir).path);
+  const std::string html = slurp(write_report(dir).path);
   const json fj = test::forecast_json("demand");
   const json& fc = fj["forecast"];
   const auto svg = chart(dir, "forecast_fan.svg", html);
   const Element* hist = series_named(svg, "History");
   ASSERT_NE(hist, nullptr);
-  expect_same(numbers(hist->attrs.at("data-values")), from_json(fj["history"]["values"]), "history");
+  expect_same(numbers(hist->attrs.at("data-values")), from_json(fj["history"]["values"]),
+              "history");
   expect_same(numbers(hist->attrs.at("data-x")), {-4, -3, -2, -1, 0}, "history x");
   const Element* point = series_named(svg, "Forecast");
   ASSERT_NE(point, nullptr);
@@ -251,7 +262,7 @@ TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
 }
 
 TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
-  const std::string html = read_file(write_report(dir).path);
+  const std::string html = slurp(write_report(dir).path);
   const std::string leader = "temp b1 s0 r1 + ARMA(1,0)";
   const auto err = chart(dir, "backtest_error_by_horizon.svg", html);
   const Element* l = series_named(err, leader + " (leader)");
@@ -267,7 +278,8 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
     const Element& g = err.elements[i];
     if (g.name != "g" || !g.attrs.count("data-values")) continue;
     const bool dashed = err.elements[i + 1].attrs.count("stroke-dasharray") > 0;
-    EXPECT_EQ(dashed, g.attrs.at("data-series") == "benchmark: no inputs") << g.attrs.at("data-series");
+    EXPECT_EQ(dashed, g.attrs.at("data-series") == "benchmark: no inputs")
+        << g.attrs.at("data-series");
   }
 
   const auto oc = chart(dir, "backtest_inputs_known_vs_forecast.svg", html);
@@ -286,7 +298,8 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   expect_same(got["benchmark: no inputs"], {0.8, 0.95}, "benchmark coverage");
   const auto sampling = find_all(cov, "rect", "sampling");
   ASSERT_EQ(sampling.size(), 2u);  // n = 40 from the leader's count
-  EXPECT_NEAR(std::stod(sampling[0].attrs.at("data-upper")) - 0.8, 1.96 * std::sqrt(0.8 * 0.2 / 40), 1e-12);
+  EXPECT_NEAR(std::stod(sampling[0].attrs.at("data-upper")) - 0.8, 1.96 * std::sqrt(0.8 * 0.2 / 40),
+              1e-12);
 
   // Leader, production, horizon 1, in file order: origins 80, 81, 82.
   const auto one = chart(dir, "backtest_one_step.svg", html);
@@ -304,37 +317,40 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   // One row per model: leader, runner-up, benchmark; the oracle MASE in the last column.
   const auto acc = table_cells(html, "Accuracy over all horizons");
   ASSERT_EQ(acc.size(), 3u);
-  EXPECT_EQ(acc[0], (std::vector<std::string>{leader + " (leader)", "40", "1.250", "1.500", "0.8100", "77.5%",
-                                              "92.5%", "8.250", "0.7300"}));
+  EXPECT_EQ(acc[0], (std::vector<std::string>{leader + " (leader)", "40", "1.250", "1.500",
+                                              "0.8100", "77.5%", "92.5%", "8.250", "0.7300"}));
   EXPECT_EQ(acc[2][0], "benchmark: no inputs");
   EXPECT_EQ(acc[2][8], "\u2014");  // no oracle rows
   // Per challenger: where the leader (negative difference, p < 0.05) or the challenger wins.
   const auto dm = table_cells(html, "Is the leader better than each challenger?");
   ASSERT_EQ(dm.size(), 2u);
-  EXPECT_EQ(dm[0], (std::vector<std::string>{"temp b1 s1 r0 + ARMA(1,0)", "2", "none", "1", "0.020", "-0.1250",
-                                             "0.218", ""}));
-  EXPECT_EQ(dm[1], (std::vector<std::string>{"benchmark: no inputs", "4", "1\u20132, 4", "none", "< 0.001",
-                                             "-0.7500", "0.001", "variance_fallback at 2"}));
+  EXPECT_EQ(dm[0], (std::vector<std::string>{"temp b1 s1 r0 + ARMA(1,0)", "2", "none", "1", "0.020",
+                                             "-0.1250", "0.218", ""}));
+  EXPECT_EQ(dm[1],
+            (std::vector<std::string>{"benchmark: no inputs", "4", "1\u20132, 4", "none", "< 0.001",
+                                      "-0.7500", "0.001", "variance_fallback at 2"}));
   const auto iv = table_cells(html, "What each input is worth");
   ASSERT_EQ(iv.size(), 1u);
-  EXPECT_EQ(iv[0], (std::vector<std::string>{"temp", "0.8100", "1.250", "0.4400", "3.25", "0.002"}));
+  EXPECT_EQ(iv[0],
+            (std::vector<std::string>{"temp", "0.8100", "1.250", "0.4400", "3.25", "0.002"}));
 }
 
 TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
-  const std::string html = read_file(write_report(dir).path);
+  const std::string html = slurp(write_report(dir).path);
   const auto doc = parse_markup(html);
   const auto lb = table_cells(html, "Top 3 of 3 candidates");
   ASSERT_EQ(lb.size(), 3u);
   EXPECT_EQ(lb[0][1], "temp b1 s0 r1 + ARMA(1,0)");
   EXPECT_EQ(lb[0][2], "301.20");
-  EXPECT_EQ(lb[1][3], "1.25");    // delta BIC
+  EXPECT_EQ(lb[1][3], "1.25");     // delta BIC
   EXPECT_EQ(lb[1][5], "< 0.001");  // Ljung-Box p
   EXPECT_EQ(lb[0][8], "ok");
   EXPECT_EQ(lb[1][8], "boundary: delta near 1");
-  EXPECT_EQ(lb[2][2], "\u2014");   // failed fit: no criterion
+  EXPECT_EQ(lb[2][2], "\u2014");  // failed fit: no criterion
   EXPECT_EQ(lb[2][8], "numerical_failure: singular <matrix>");
-  EXPECT_EQ(find_all(doc, "table", "sortable").size(), 4u);  // leaderboard, accuracy, DM, input value
-  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 2u);    // the leader: leaderboard and accuracy
+  EXPECT_EQ(find_all(doc, "table", "sortable").size(),
+            4u);                                           // leaderboard, accuracy, DM, input value
+  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 2u);  // the leader: leaderboard and accuracy
 
   const auto svg = chart(dir, "residual_acf.svg", html);
   std::vector<double> lags, values;
@@ -356,7 +372,7 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   }
   expect_same(lags, from_json(rc["lags"]), "residual-input lags");
   expect_same(values, from_json(rc["values"]), "residual-input ccf");
-  const std::string ccf_text = read_file(dir / "charts" / "residual_ccf_temp.svg");
+  const std::string ccf_text = slurp(dir / "charts" / "residual_ccf_temp.svg");
   EXPECT_NE(ccf_text.find("transfer function misses"), std::string::npos);
   EXPECT_NE(ccf_text.find(
                 "temp prewhitened by AR(1); test over lags 0\u20133: S = 11.5, df 2, p = 0.00315 "
@@ -386,7 +402,7 @@ TEST(Report, FitFileWithoutResidualInputCheckStillLoads) {
   fit["diagnostics"].erase("residual_input_ccf");
   write_text(dir / "fit.json", fit.dump(1));
   const ReportResult r = write_report(dir);
-  const std::string html = read_file(r.path);
+  const std::string html = slurp(r.path);
   ASSERT_TRUE(parse_markup(html).ok);
   EXPECT_TRUE(fs::exists(dir / "charts" / "residual_acf.svg"));
   EXPECT_FALSE(fs::exists(dir / "charts" / "residual_ccf_temp.svg"));
@@ -414,22 +430,29 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   write_text(dir / "accuracy.csv", acc);
 
   const ReportResult r = write_report(dir);
-  const std::vector<std::string> want = {
-      "Run summary", "Inputs: cross-correlation and impulse response · north", "Leaderboard · north",
-      "Forecast · north", "Backtest · north", "Leader diagnostics · north",
-      "Inputs: cross-correlation and impulse response · south", "Leaderboard · south",
-      "Forecast · south", "Leader diagnostics · south"};
+  const std::vector<std::string> want = {"Run summary",
+                                         "Inputs: cross-correlation and impulse response · north",
+                                         "Leaderboard · north",
+                                         "Forecast · north",
+                                         "Backtest · north",
+                                         "Leader diagnostics · north",
+                                         "Inputs: cross-correlation and impulse response · south",
+                                         "Leaderboard · south",
+                                         "Forecast · south",
+                                         "Leader diagnostics · south"};
   EXPECT_EQ(r.sections, want);
-  const std::string html = read_file(r.path);
+  const std::string html = slurp(r.path);
   ASSERT_TRUE(parse_markup(html).ok);
   for (const std::string s : {"north", "south"}) {
     EXPECT_TRUE(fs::exists(dir / "charts" / ("forecast_fan_" + s + ".svg"))) << s;
     EXPECT_TRUE(fs::exists(dir / "charts" / ("ccf_temp_" + s + ".svg"))) << s;
   }
-  // north has accuracy rows; south has none, so no backtest section and no chart of north's numbers.
-  const auto north = parse_markup(read_file(dir / "charts" / "backtest_error_by_horizon_north.svg"));
-  EXPECT_EQ(numbers(series_named(north, "temp b1 s0 r1 + ARMA(1,0) (leader)")->attrs.at("data-values")),
-            (std::vector<double>{1.0, 1.5}));
+  // north has accuracy rows; south has none, so no backtest section and no chart of north's
+  // numbers.
+  const auto north = parse_markup(slurp(dir / "charts" / "backtest_error_by_horizon_north.svg"));
+  EXPECT_EQ(
+      numbers(series_named(north, "temp b1 s0 r1 + ARMA(1,0) (leader)")->attrs.at("data-values")),
+      (std::vector<double>{1.0, 1.5}));
   EXPECT_FALSE(fs::exists(dir / "charts" / "backtest_error_by_horizon_south.svg"));
   fs::remove_all(dir);
 }
@@ -448,7 +471,7 @@ TEST(Report, RevalidationVerdictComesFirst) {
   const ReportResult r = write_report(dir);
   ASSERT_FALSE(r.sections.empty());
   EXPECT_EQ(r.sections.front(), "Verdict");
-  const std::string html = read_file(r.path);
+  const std::string html = slurp(r.path);
   const auto doc = parse_markup(html);
   ASSERT_TRUE(doc.ok) << doc.error;
   const auto notices = find_all(doc, "div", "notice");
@@ -480,13 +503,14 @@ TEST(Report, OnlyTheSectionsWhoseFilesExist) {
   options.write_charts = false;
   options.leaderboard_rows = 2;
   const ReportResult r = write_report(dir, options);
-  EXPECT_EQ(r.sections, (std::vector<std::string>{"Run summary", "Inputs: cross-correlation and impulse response",
+  EXPECT_EQ(r.sections, (std::vector<std::string>{"Run summary",
+                                                  "Inputs: cross-correlation and impulse response",
                                                   "Leaderboard", "Forecast"}));
   EXPECT_TRUE(r.charts.empty());
   EXPECT_FALSE(fs::exists(dir / "charts"));
   ASSERT_EQ(r.warnings.size(), 1u);  // a leader without its model or fit file
   EXPECT_NE(r.warnings[0].find("model.json"), std::string::npos);
-  const std::string html = read_file(r.path);
+  const std::string html = slurp(r.path);
   ASSERT_TRUE(parse_markup(html).ok);
   EXPECT_EQ(table_cells(html, "Top 2 of 3 candidates").size(), 2u);
   EXPECT_NE(html.find("price needs future values"), std::string::npos);
@@ -499,7 +523,8 @@ void expect_input_error(const fs::path& dir, const std::vector<std::string>& par
     write_report(dir);
     ADD_FAILURE() << "no InputError for " << dir;
   } catch (const InputError& e) {
-    for (const auto& p : parts) EXPECT_NE(std::string(e.what()).find(p), std::string::npos) << e.what();
+    for (const auto& p : parts)
+      EXPECT_NE(std::string(e.what()).find(p), std::string::npos) << e.what();
   }
 }
 
@@ -557,15 +582,16 @@ TEST(Report, CommandLine) {
   const fs::path dir = fresh_dir("cli");
   test::write_full_run(dir);
   const std::string out = (dir / "out.txt").string();
-  int rc = std::system((binary.string() + " report " + dir.string() + " > " + out + " 2>&1").c_str());
-  EXPECT_EQ(WEXITSTATUS(rc), 0) << read_file(out);
+  int rc =
+      std::system((binary.string() + " report " + dir.string() + " > " + out + " 2>&1").c_str());
+  EXPECT_EQ(WEXITSTATUS(rc), 0) << slurp(out);
   EXPECT_TRUE(fs::exists(dir / "report.html"));
-  EXPECT_NE(read_file(out).find("report.html"), std::string::npos);
+  EXPECT_NE(slurp(out).find("report.html"), std::string::npos);
   const fs::path empty = dir / "empty";
   fs::create_directories(empty);
   rc = std::system((binary.string() + " report " + empty.string() + " > " + out + " 2>&1").c_str());
   EXPECT_EQ(WEXITSTATUS(rc), 2);
-  EXPECT_NE(read_file(out).find("not a run folder"), std::string::npos) << read_file(out);
+  EXPECT_NE(slurp(out).find("not a run folder"), std::string::npos) << slurp(out);
   fs::remove_all(dir);
 }
 

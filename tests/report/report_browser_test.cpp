@@ -10,6 +10,7 @@
 
 #include "report/report.h"
 #include "report_fixture.h"
+#include "run_binary.h"
 
 namespace lagsieve {
 namespace {
@@ -17,12 +18,7 @@ namespace {
 namespace fs = std::filesystem;
 const fs::path kChromium = "/usr/bin/chromium";
 
-std::string read_file(const fs::path& file) {
-  std::ifstream in(file, std::ios::binary);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
+using lagsieve::testing::slurp;
 
 struct Render {
   int exit_code = -1;
@@ -38,18 +34,19 @@ Render render(const fs::path& page, const std::string& what, const fs::path& wor
       " --headless --no-sandbox --disable-gpu --disable-quic --no-first-run"
       " --disable-background-networking --disable-component-update --disable-sync"
       " --disable-dev-shm-usage --enable-logging=stderr --v=0 --window-size=1200,2400"
-      " --user-data-dir=" + profile.string() + " " + what + " file://" + page.string() +
-      " > " + log.string() + " 2>&1";
+      " --user-data-dir=" +
+      profile.string() + " " + what + " file://" + page.string() + " > " + log.string() + " 2>&1";
   Render r;
   const int rc = std::system(cmd.c_str());
   r.exit_code = WIFEXITED(rc) ? WEXITSTATUS(rc) : -1;
-  r.log = read_file(log);
+  r.log = slurp(log);
   return r;
 }
 
 // Console errors and uncaught exceptions of the page (not chromium's own start-up noise).
 bool console_error(const std::string& log) {
-  return log.find("Uncaught") != std::string::npos || log.find("ERROR:CONSOLE") != std::string::npos ||
+  return log.find("Uncaught") != std::string::npos ||
+         log.find("ERROR:CONSOLE") != std::string::npos ||
          log.find(":CONSOLE(") != std::string::npos;
 }
 
@@ -57,7 +54,8 @@ class Browser : public ::testing::Test {
  protected:
   void SetUp() override {
     if (!fs::exists(kChromium))
-      GTEST_SKIP() << kChromium << " not found: install Debian's chromium (apt-get install -y chromium) "
+      GTEST_SKIP() << kChromium
+                   << " not found: install Debian's chromium (apt-get install -y chromium) "
                    << "to run the browser test";
     work = test::fresh_dir("browser");
     run = work / "run";
@@ -76,7 +74,7 @@ TEST_F(Browser, RendersToPngWithoutConsoleErrors) {
   const Render r = render(page, "--screenshot=" + png.string(), work);
   ASSERT_EQ(r.exit_code, 0) << r.log;
   EXPECT_FALSE(console_error(r.log)) << r.log;
-  const std::string bytes = read_file(png);
+  const std::string bytes = slurp(png);
   ASSERT_GT(bytes.size(), 20000u) << "a blank page is a few kB";
   EXPECT_EQ(bytes.substr(1, 3), "PNG");
 }
@@ -86,7 +84,7 @@ TEST_F(Browser, PrintsToPdfWithoutConsoleErrors) {
   const Render r = render(page, "--no-pdf-header-footer --print-to-pdf=" + pdf.string(), work);
   ASSERT_EQ(r.exit_code, 0) << r.log;
   EXPECT_FALSE(console_error(r.log)) << r.log;
-  const std::string bytes = read_file(pdf);
+  const std::string bytes = slurp(pdf);
   ASSERT_GT(bytes.size(), 20000u);
   EXPECT_EQ(bytes.substr(0, 5), "%PDF-");
 }
@@ -94,7 +92,9 @@ TEST_F(Browser, PrintsToPdfWithoutConsoleErrors) {
 // The check itself can fail: a page with a script error is caught.
 TEST_F(Browser, DetectsAScriptError) {
   const fs::path broken = work / "broken.html";
-  test::write_text(broken, "<!DOCTYPE html><html><body><p>x</p><script>undefinedFunction();</script></body></html>");
+  test::write_text(
+      broken,
+      "<!DOCTYPE html><html><body><p>x</p><script>undefinedFunction();</script></body></html>");
   const Render r = render(broken, "--screenshot=" + (work / "broken.png").string(), work);
   EXPECT_TRUE(console_error(r.log)) << r.log;
 }

@@ -1,11 +1,11 @@
 // Resuming the `lagsieve search` binary: a run killed part-way (SIGKILL, SIGINT) and resumed with
 // --resume ends with the same leaderboard as an uninterrupted run (fit times aside); a torn last
 // journal line is tolerated; the journal of another config is refused with exit code 2.
+#include <fcntl.h>
 #include <gtest/gtest.h>
 #include <signal.h>
 #include <sys/wait.h>
 #include <unistd.h>
-#include <fcntl.h>
 
 #include <chrono>
 #include <filesystem>
@@ -21,13 +21,6 @@ namespace lagsieve {
 namespace {
 
 namespace fs = std::filesystem;
-
-std::string read_text(const fs::path& file) {
-  std::ifstream in(file);
-  std::stringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
 
 int line_count(const fs::path& file) {
   std::ifstream in(file);
@@ -60,7 +53,7 @@ pid_t start(const std::vector<std::string>& args, const fs::path& out, const fs:
 
 struct Exit {
   bool signalled = false;
-  int code = -1;    // exit code, or the signal
+  int code = -1;  // exit code, or the signal
 };
 
 Exit wait_for(pid_t pid) {
@@ -118,7 +111,9 @@ std::string leaderboard_without_times(const fs::path& folder) {
 
 std::string config_text(const std::string& x1_delay) {
   return "data:\n  file: data.csv\n  time: t\ntarget:\n  column: y\ninputs:\n"
-         "  - column: x1\n    delay: " + x1_delay + "\n    numerator: [0, 1]\n    denominator: [0, 1]\n"
+         "  - column: x1\n    delay: " +
+         x1_delay +
+         "\n    numerator: [0, 1]\n    denominator: [0, 1]\n"
          "  - column: x2\n    delay: [0, 2]\n    numerator: [0, 1]\n    optional: true\n"
          "  - column: x3\n    delay: [0, 1]\n    optional: true\n"
          "noise:\n  ar: [0, 1]\n  ma: [0, 1]\n  constant: true\n"
@@ -147,8 +142,9 @@ class SearchResume : public ::testing::Test {
     // 16 x 7 x 3 x 4 candidates.
     total_ = 16 * 7 * 3 * 4;
     fs::create_directories(root_ / "full");
-    const Exit e = run({"search", (root_ / "run.yaml").string(), "--out", (root_ / "full").string(), "--quiet"},
-                       root_ / "full");
+    const Exit e = run(
+        {"search", (root_ / "run.yaml").string(), "--out", (root_ / "full").string(), "--quiet"},
+        root_ / "full");
     full_ok_ = !e.signalled && e.code == 0;
   }
   static void TearDownTestSuite() { fs::remove_all(root_); }
@@ -158,7 +154,8 @@ class SearchResume : public ::testing::Test {
   static fs::path interrupt_and_resume(const std::string& name, int signal, bool tear) {
     const fs::path dir = root_ / name;
     fs::create_directories(dir);
-    const std::vector<std::string> args = {"search", (root_ / "run.yaml").string(), "--out", dir.string(), "--quiet"};
+    const std::vector<std::string> args = {"search", (root_ / "run.yaml").string(), "--out",
+                                           dir.string(), "--quiet"};
     const pid_t pid = start(args, dir / "stdout1.txt", dir / "stderr1.txt");
     const fs::path journal = dir / "journal.jsonl";
     const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
@@ -176,10 +173,10 @@ class SearchResume : public ::testing::Test {
     resume.push_back("--resume");
     const Exit e = run(resume, dir);
     EXPECT_FALSE(e.signalled);
-    EXPECT_EQ(e.code, 0) << read_text(dir / "stderr.txt");
+    EXPECT_EQ(e.code, 0) << testing::slurp(dir / "stderr.txt");
     // The resumed run took the interrupted run's rows from the journal.
     // The summary line reads "... (F fitted, R from the journal, ...".
-    const std::string out = read_text(dir / "stdout.txt");
+    const std::string out = testing::slurp(dir / "stdout.txt");
     const size_t at = out.find(" fitted, ");
     const size_t open = out.rfind('(', at);
     EXPECT_TRUE(at != std::string::npos && open != std::string::npos) << out;
@@ -187,8 +184,8 @@ class SearchResume : public ::testing::Test {
       const int fitted = std::stoi(out.substr(open + 1, at - open - 1));
       const int resumed = std::stoi(out.substr(at + 9));
       EXPECT_NE(out.find(std::to_string(resumed) + " from the journal"), std::string::npos) << out;
-      std::printf("  %s: stopped with %d journal lines; resumed %d rows, fitted %d\n", name.c_str(), lines,
-                  resumed, fitted);
+      std::printf("  %s: stopped with %d journal lines; resumed %d rows, fitted %d\n", name.c_str(),
+                  lines, resumed, fitted);
       EXPECT_GE(resumed, total_ / 6);
       EXPECT_EQ(fitted + resumed, total_);
     }
@@ -201,33 +198,36 @@ class SearchResume : public ::testing::Test {
 };
 
 TEST_F(SearchResume, KilledRunResumesToTheSameLeaderboardDespiteATornLine) {
-  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
   const std::string expected = leaderboard_without_times(root_ / "full");
   ASSERT_EQ(std::count(expected.begin(), expected.end(), '\n'), total_ + 1);
   const fs::path dir = interrupt_and_resume("killed", SIGKILL, true);
   EXPECT_EQ(leaderboard_without_times(dir), expected);
-  EXPECT_EQ(read_text(dir / "model.json"), read_text(root_ / "full" / "model.json"));
+  EXPECT_EQ(testing::slurp(dir / "model.json"), testing::slurp(root_ / "full" / "model.json"));
 }
 
 TEST_F(SearchResume, InterruptedRunResumesToTheSameLeaderboard) {
-  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
   const fs::path dir = interrupt_and_resume("interrupted", SIGINT, false);
   EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
 }
 
 TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
-  ASSERT_TRUE(full_ok_) << read_text(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
   const fs::path dir = root_ / "other";
   fs::create_directories(dir);
   fs::copy_file(root_ / "full" / "journal.jsonl", dir / "journal.jsonl");
-  const std::string before = read_text(dir / "journal.jsonl");
-  const Exit e = run({"search", (root_ / "other.yaml").string(), "--out", dir.string(), "--quiet", "--resume"}, dir);
+  const std::string before = testing::slurp(dir / "journal.jsonl");
+  const Exit e =
+      run({"search", (root_ / "other.yaml").string(), "--out", dir.string(), "--quiet", "--resume"},
+          dir);
   EXPECT_FALSE(e.signalled);
   EXPECT_EQ(e.code, 2);
-  const std::string err = read_text(dir / "stderr.txt");
+  const std::string err = testing::slurp(dir / "stderr.txt");
   EXPECT_NE(err.find("journal.jsonl"), std::string::npos) << err;
   EXPECT_NE(err.find("another run"), std::string::npos) << err;
-  EXPECT_EQ(read_text(dir / "journal.jsonl"), before) << "a refused journal must be left as it was";
+  EXPECT_EQ(testing::slurp(dir / "journal.jsonl"), before)
+      << "a refused journal must be left as it was";
   EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
 }
 

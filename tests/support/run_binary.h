@@ -22,7 +22,7 @@ struct CommandResult {
 };
 
 inline std::string slurp(const std::filesystem::path& p) {
-  std::ifstream in(p);
+  std::ifstream in(p, std::ios::binary);
   std::stringstream ss;
   ss << in.rdbuf();
   return ss.str();
