@@ -10,6 +10,7 @@
 #include <nlohmann/json.hpp>
 
 #include "core/error.h"
+#include "evaluation/distributions.h"
 #include "core/names.h"
 #include "data/transform.h"
 
@@ -20,16 +21,9 @@ namespace {
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr int kMinObservations = 10;
 
-// z with P(|Z| > z) = two_sided_tail for a standard normal Z, by bisection on erfc (monotone;
-// 60 halvings of [0, 40] reach double precision).
+// z with P(|Z| > z) = two_sided_tail for a standard normal Z.
 double normal_two_sided_quantile(double two_sided_tail) {
-  double lo = 0.0, hi = 40.0;
-  for (int i = 0; i < 60; ++i) {
-    const double mid = 0.5 * (lo + hi);
-    if (std::erfc(mid / std::sqrt(2.0)) > two_sided_tail) lo = mid;
-    else hi = mid;
-  }
-  return 0.5 * (lo + hi);
+  return -normal_quantile(0.5 * two_sided_tail);
 }
 
 double mean_of(const std::vector<double>& x) {
