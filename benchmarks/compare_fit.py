@@ -28,6 +28,11 @@ import tempfile
 import time
 import warnings
 
+# One BLAS thread, as in the other comparison scripts, so the CPU ratios compare one core with
+# one core (R and lagsieve are single-threaded here).
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ[_var] = "1"
+
 # Delays of the two simulated inputs (see fit_benchmark.cpp) and the lag window used for them.
 DELAYS = {"x1": 1, "x2": 2}
 WINDOW = 6  # lags b .. b + 5

@@ -25,9 +25,9 @@ $PY $ref/dm_test/make_dm_test.py
 $R $ref/ljung_box/make_ljung_box.R
 $PY $ref/ljung_box/make_ljung_box.py
 $R $ref/residual_ccf/make_residual_ccf.R
-echo "all fixtures regenerated"
 
 # Fixtures kept by other topics beside their tests.
 $R $ref/distributions/make_distributions.R
 $R tests/revalidate/reference/make_checks.R
 $R $ref/screen/make_correlation.R
+echo "all fixtures regenerated"
