@@ -99,8 +99,8 @@ TEST(ScreenSimulation, DelaysRecoveredAndZeroGainInputsFlagged) {
               "= %.3f\n",
               delay_right, relevant_total, delay_rate, relevant_missed, zero_flagged, zero_total,
               flag_rate);
-  EXPECT_GE(delay_rate, 0.90);
-  EXPECT_GE(flag_rate, 0.80);
+  EXPECT_GE(delay_rate, 0.95);  // 176 / 180 with this seed
+  EXPECT_GE(flag_rate, 0.90);   // 112 / 120 with this seed
 }
 
 // Series built by hand from a seeded generator.
@@ -221,6 +221,20 @@ TEST(ScreenEvents, StepEventWithDelayTwoIsFound) {
   EXPECT_TRUE(s.relevant);
   EXPECT_EQ(s.suggested_delay, 2);
   EXPECT_NEAR(s.impulse[2], 4.0, 1.0);  // the shift plus one step of the random walk
+  // Exactly: an event is not prewhitened, so v_2 = c_{du,dy}(2) / c_{du,du}(0) of the differenced
+  // series (Box & Jenkins' identity v_k = r_k s_y / s_x).
+  std::vector<double> du, dy;
+  for (size_t t = 1; t < y.size(); ++t) {
+    du.push_back(step[t] - step[t - 1]);
+    dy.push_back(y[t] - y[t - 1]);
+  }
+  const double m = static_cast<double>(du.size());
+  double mu = 0.0, my = 0.0;
+  for (size_t t = 0; t < du.size(); ++t) mu += du[t] / m, my += dy[t] / m;
+  double cuu = 0.0, cuy = 0.0;
+  for (size_t t = 0; t < du.size(); ++t) cuu += (du[t] - mu) * (du[t] - mu);
+  for (size_t t = 0; t + 2 < du.size(); ++t) cuy += (du[t] - mu) * (dy[t + 2] - my);
+  EXPECT_NEAR(s.impulse[2], cuy / cuu, 1e-12);
 }
 
 }  // namespace
