@@ -280,8 +280,6 @@ int main_impl(int argc, char** argv) {
   // The shortlist as the search builds it (search/shortlist.h): top N rankable rows, the best
   // model without inputs, the seasonal naive forecast.
   SearchOptions so;
-  so.strategy = config.search.strategy;
-  so.criterion = config.search.criterion;
   so.threads = 2;
   const auto s0 = std::chrono::steady_clock::now();
   const SearchResult search = run_search(data, config, so);

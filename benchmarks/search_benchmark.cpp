@@ -132,9 +132,6 @@ struct Timing {
 
 Timing time_search(const RunConfig& config, const std::vector<SeriesData>& series, int threads) {
   SearchOptions options;
-  options.strategy = config.search.strategy;
-  options.criterion = config.search.criterion;
-  options.budget = config.search.budget;
   options.threads = threads;
   Timing t;
   const double c0 = cpu_seconds();

@@ -66,9 +66,6 @@ int run_search_command(const SearchArgs& args) {
   Journal journal(out / run_files::kJournal, run_fingerprint(config, run.series), args.resume);
 
   SearchOptions options;
-  options.strategy = config.search.strategy;
-  options.criterion = config.search.criterion;
-  options.budget = config.search.budget;
   options.threads = args.threads.value_or(config.search.threads);
   options.journal = &journal;
 

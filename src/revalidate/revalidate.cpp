@@ -366,9 +366,6 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
 
   // 4a. The challenger search on all rows (and the config's shortlist backtest).
   SearchOptions so;
-  so.strategy = config.search.strategy;
-  so.criterion = config.search.criterion;
-  so.budget = config.search.budget;
   so.threads = threads;
   so.progress = options.progress;
   out.search = run_search(data, config, so);

@@ -213,31 +213,31 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   Evaluator evaluator(data, result.start, options, threads);
   const CandidateGrid grid = full_grid(config);
 
-  if (options.strategy != Strategy::exhaustive) result.screen = screen_series(data, config);
+  if (config.search.strategy != Strategy::exhaustive) result.screen = screen_series(data, config);
 
-  if (options.strategy == Strategy::stepwise) {
+  if (config.search.strategy == Strategy::stepwise) {
     // Greedy moves from the screen's suggestion; every neighbour of the current model is fitted
     // (in parallel), the best strictly better one becomes current, until none improves or the
     // budget is spent. Deterministic: the choice depends on the full set of neighbours.
     std::set<std::string> seen;
     ModelSpec current = suggested_spec(config, *result.screen);
-    auto first = evaluator.evaluate({current}, options.budget);
+    auto first = evaluator.evaluate({current}, config.search.budget);
     seen.insert(first[0].key);
     result.rows.push_back(first[0]);
     CandidateRow best = first[0];
-    while (static_cast<int>(seen.size()) < options.budget) {
+    while (static_cast<int>(seen.size()) < config.search.budget) {
       std::vector<ModelSpec> next;
       for (auto& m : neighbours(current, grid)) {
         const auto key = candidate_key(m);
         if (seen.insert(key).second) next.push_back(std::move(m));
-        if (static_cast<int>(seen.size()) >= options.budget) break;
+        if (static_cast<int>(seen.size()) >= config.search.budget) break;
       }
       if (next.empty()) break;
-      auto rows = evaluator.evaluate(next, options.budget);
+      auto rows = evaluator.evaluate(next, config.search.budget);
       result.rows.insert(result.rows.end(), rows.begin(), rows.end());
       std::vector<CandidateRow> pool = rows;
       pool.push_back(best);
-      rank_rows(pool, options.criterion);
+      rank_rows(pool, config.search.criterion);
       if (pool.front().key == best.key || !pool.front().rankable()) break;
       best = pool.front();
       current = best.spec;
@@ -245,19 +245,19 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
     result.grid_size = static_cast<long long>(seen.size());
   } else {
     const CandidateGrid g =
-        options.strategy == Strategy::guided ? guided_grid(config, *result.screen) : grid;
+        config.search.strategy == Strategy::guided ? guided_grid(config, *result.screen) : grid;
     result.grid_size = grid_size(g);
-    if (result.grid_size > options.budget)
+    if (result.grid_size > config.search.budget)
       throw InputError(fmt::format(
           "{}: search.budget: the {} grid has {} candidates, more than the budget of {}; raise "
           "search.budget, narrow the ranges, or use `strategy: stepwise`",
-          config.config_file.filename().string(), to_string(options.strategy), result.grid_size,
-          options.budget));
+          config.config_file.filename().string(), to_string(config.search.strategy), result.grid_size,
+          config.search.budget));
     result.rows = evaluator.evaluate(enumerate(g), static_cast<int>(result.grid_size));
   }
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
-  rank_rows(result.rows, options.criterion);
+  rank_rows(result.rows, config.search.criterion);
 
   if (!result.rows.empty() && result.rows.front().rankable()) {
     const auto problem = make_problem(data, result.rows.front().spec, result.start);

@@ -21,7 +21,7 @@ namespace lagsieve {
 // One candidate's outcome: a leaderboard row (the fitted values themselves are not kept).
 struct CandidateRow {
   std::string series;
-  std::string key;           // model label; unique within a series
+  std::string key;  // model label; unique within a series
   ModelSpec spec;
   FitStatus status = FitStatus::numerical_failure;
   std::string message;
@@ -34,40 +34,41 @@ struct CandidateRow {
   double ljung_box_p = std::numeric_limits<double>::quiet_NaN();  // at the largest lag tested
   double seconds = 0.0;
   int evaluations = 0;
-  int rank = 0;              // 1 = best; failures ranked last
+  int rank = 0;  // 1 = best; failures ranked last
   // Filled by the backtest stage for the shortlist (NaN elsewhere).
   double backtest_score = std::numeric_limits<double>::quiet_NaN();
   int backtest_rank = 0;
 
-  double criterion(Criterion c) const { return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic; }
+  double criterion(Criterion c) const {
+    return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic;
+  }
   bool rankable() const {
-    return status == FitStatus::ok || status == FitStatus::boundary || status == FitStatus::no_convergence;
+    return status == FitStatus::ok || status == FitStatus::boundary ||
+           status == FitStatus::no_convergence;
   }
 };
 
 nlohmann::json to_json(const CandidateRow& row);
 CandidateRow candidate_row_from_json(const nlohmann::json& j, const ModelSpec& spec);
 
+// How to run a search; what to search (strategy, criterion, budget) is the config's `search`.
 struct SearchOptions {
-  Strategy strategy = Strategy::exhaustive;
-  Criterion criterion = Criterion::bic;
-  int budget = 20000;                 // candidates at most
-  int threads = 0;                    // 0: all cores
-  Journal* journal = nullptr;         // rows found there are reused; new rows are appended
+  int threads = 0;             // 0: all cores
+  Journal* journal = nullptr;  // rows found there are reused; new rows are appended
   // Called after every finished candidate (from worker threads, serialised by the search).
   std::function<void(int done, int total)> progress;
 };
 
 struct SearchResult {
   std::string series;
-  std::vector<CandidateRow> rows;     // ranked
-  int start = 0;                      // common first differenced index of every likelihood
-  long long grid_size = 0;            // candidates the strategy considered
-  int fitted = 0;                     // fitted in this run
-  int resumed = 0;                    // taken from the journal
+  std::vector<CandidateRow> rows;  // ranked
+  int start = 0;                   // common first differenced index of every likelihood
+  long long grid_size = 0;         // candidates the strategy considered
+  int fitted = 0;                  // fitted in this run
+  int resumed = 0;                 // taken from the journal
   double seconds = 0.0;
-  std::optional<ScreenResult> screen; // guided and stepwise
-  FitResult leader;                   // the top row re-fitted with standard errors
+  std::optional<ScreenResult> screen;  // guided and stepwise
+  FitResult leader;                    // the top row re-fitted with standard errors
   bool has_leader = false;
 };
 
@@ -77,7 +78,8 @@ void rank_rows(std::vector<CandidateRow>& rows, Criterion criterion);
 // Fits one candidate into a row (never throws for numerical trouble; bad data is a failure row).
 CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start);
 
-SearchResult run_search(const SeriesData& data, const RunConfig& config, const SearchOptions& options);
+SearchResult run_search(const SeriesData& data, const RunConfig& config,
+                        const SearchOptions& options);
 
 }  // namespace lagsieve
 

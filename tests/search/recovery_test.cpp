@@ -163,8 +163,6 @@ TEST(SearchRecovery, TopBicCandidateHasTrueStructureInMostCases) {
     const long long size = grid_size(full_grid(config));
     ASSERT_LE(size, 600) << c.name << ": keep the test grid small";
     SearchOptions options;
-    options.strategy = config.search.strategy;
-    options.criterion = config.search.criterion;
     options.threads = config.search.threads;
     const auto t1 = std::chrono::steady_clock::now();
     const SearchResult result = run_search(data, config, options);

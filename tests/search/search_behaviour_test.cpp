@@ -40,8 +40,6 @@ SearchCase small_case(int n, std::uint64_t seed) {
 
 SearchOptions options_of(const RunConfig& config) {
   SearchOptions options;
-  options.strategy = config.search.strategy;
-  options.criterion = config.search.criterion;
   options.threads = config.search.threads;
   return options;
 }
