@@ -100,7 +100,7 @@ int run_search_command(const SearchArgs& args) {
     const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
     write_file_atomic(out / run_files::per_series(run_files::kScreen, r.series, several),
                       to_json(screen).dump(1) + "\n");
-    if (!r.has_leader) continue;
+    if (!r.has_leader()) continue;
     FittedModel model = make_fitted_model(r.leader, config, data);
     if (backtests[k] && backtests[k]->result.leader >= 0)
       model.backtest = accuracy_json(backtests[k]->result.models[backtests[k]->result.leader],

@@ -262,7 +262,6 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   if (!result.rows.empty() && result.rows.front().rankable()) {
     const auto problem = make_problem(data, result.rows.front().spec, result.start);
     result.leader = fit_model(problem);
-    result.has_leader = result.leader.usable();
   }
   result.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return result;

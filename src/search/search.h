@@ -69,7 +69,7 @@ struct SearchResult {
   double seconds = 0.0;
   std::optional<ScreenResult> screen;  // guided and stepwise
   FitResult leader;                    // the top row re-fitted with standard errors
-  bool has_leader = false;
+  bool has_leader() const { return leader.usable(); }
 };
 
 // Ranks rows in place: rankable rows by criterion (ties by key), then rejected, then failures.

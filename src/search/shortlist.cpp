@@ -65,9 +65,8 @@ ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& co
 
   if (out.result.leader >= 0) {
     const auto& lead = out.candidates[out.result.leader];
-    if (!search.has_leader || !(lead.spec == search.leader.spec)) {
+    if (!search.has_leader() || !(lead.spec == search.leader.spec)) {
       search.leader = fit_model(make_problem(data, lead.spec, search.start));
-      search.has_leader = search.leader.usable();
     }
     out.result.input_value =
         input_value(data, lead, out.result.models[out.result.leader], out.options);

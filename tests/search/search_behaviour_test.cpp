@@ -71,7 +71,7 @@ TEST(SearchDeterminism, LeaderboardIdenticalWithOneAndTwoThreads) {
     fitted += ra.rankable() ? 1 : 0;
   }
   EXPECT_GT(fitted, static_cast<int>(a.rows.size()) * 9 / 10);
-  ASSERT_TRUE(a.has_leader && b.has_leader);
+  ASSERT_TRUE(a.has_leader() && b.has_leader());
   EXPECT_EQ(bits(a.leader.loglik), bits(b.leader.loglik));
 }
 
@@ -141,7 +141,7 @@ TEST(SearchFailures, CandidateThatCannotBeFittedIsARowRankedLast) {
   }
   // promo in at delay 0 or 1, times x1 (2 delays x 2 denominators) x noise (2 x 2).
   EXPECT_EQ(failures, 2 * 4 * 4);
-  EXPECT_TRUE(result.has_leader);
+  EXPECT_TRUE(result.has_leader());
   std::printf("  failure row message: %s\n", result.rows.back().message.c_str());
 }
 
