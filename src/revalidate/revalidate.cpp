@@ -381,7 +381,7 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
   for (const auto& row : out.search.rows) {
     if (!row.rankable()) continue;
     if (ch.leader_key.empty()) ch.leader_key = row.key;
-    if (row.key == ch.deployed_key && row.spec.differencing == model.spec.differencing) continue;
+    if (row.spec == model.spec) continue;  // the deployed structure itself
     ch.has_challenger = true;
     ch.challenger_key = row.key;
     ch.challenger_spec = row.spec;
