@@ -20,17 +20,6 @@ namespace lagsieve {
 
 namespace {
 
-SeriesData slice(const SeriesData& data, int from, int to) {
-  SeriesData s;
-  s.target_name = data.target_name;
-  s.source_file = data.source_file;
-  s.input_names = data.input_names;
-  s.target.assign(data.target.begin() + from, data.target.begin() + to);
-  if (!data.time.empty()) s.time.assign(data.time.begin() + from, data.time.begin() + to);
-  for (const auto& u : data.inputs) s.inputs.emplace_back(u.begin() + from, u.begin() + to);
-  return s;
-}
-
 std::vector<double> future_values(const SeriesData& data, const std::string& name, int from,
                                   int count) {
   const int index = data.input_index(name);
@@ -125,7 +114,7 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
     const int origin = origins[k];
     const int from = o.window == WindowKind::sliding ? std::max(0, origin - o.window_length) : 0;
     const int horizon = std::min(o.horizon, data.rows() - origin);
-    const SeriesData window = slice(data, from, origin);
+    const SeriesData window = slice_rows(data, from, origin);
     const double scale = mase_scale(window.target, o.season);
     if (c.kind == BacktestCandidate::Kind::seasonal_naive) {
       seasonal_naive(out, data, origin, from, horizon, o.season, o.levels, scale);

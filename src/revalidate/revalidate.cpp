@@ -110,14 +110,6 @@ HistoryCheck check_history(const FittedModel& model, const SeriesData& data, con
   return h;
 }
 
-SeriesData head_rows(const SeriesData& data, int rows) {
-  SeriesData s = data;
-  s.target.resize(rows);
-  if (!s.time.empty()) s.time.resize(rows);
-  for (auto& u : s.inputs) u.resize(rows);
-  return s;
-}
-
 // The training-time accuracy: the model file's, or the deployed structure backtested on the
 // training rows as the search would have done (refit as the config says).
 nlohmann::json baseline_accuracy(const FittedModel& model, const SeriesData& data,
@@ -129,7 +121,7 @@ nlohmann::json baseline_accuracy(const FittedModel& model, const SeriesData& dat
   RunConfig c = config;
   if (c.backtest.first_origin >= model.training.rows) c.backtest.first_origin = 0;
   try {
-    const SeriesData train = head_rows(data, model.training.rows);
+    const SeriesData train = slice_rows(data, 0, model.training.rows);
     BacktestOptions o = backtest_options(c, train.rows());
     o.threads = threads;
     BacktestCandidate cand = candidate_from_model("deployed structure", model);

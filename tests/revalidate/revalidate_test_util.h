@@ -49,13 +49,8 @@ inline SeriesData spliced(const SeriesData& before, const SeriesData& after) {
   return out;
 }
 
-inline SeriesData head(const SeriesData& data, int rows) {
-  SeriesData s = data;
-  s.target.resize(rows);
-  s.time.resize(rows);
-  for (auto& u : s.inputs) u.resize(rows);
-  return s;
-}
+// The first `rows` rows.
+inline SeriesData head(const SeriesData& data, int rows) { return slice_rows(data, 0, rows); }
 
 // A small grid around the truth; backtest of horizon 3 re-fitted every 10th origin.
 inline RunConfig small_config() {
