@@ -159,14 +159,28 @@ double max_abs_pacf(std::span<const double> z) {
 // nonlinear (theta) and linear (beta) blocks, the inverse of the negative profile Hessian S is
 // exactly the theta block of H^-1; the linear estimates beta(theta) are the GLS solution, so
 // with J = d beta / d theta the other blocks are J S^-1 and C^-1 + J S^-1 J', where
-// C^-1 = sigma^2 (X' Sigma^-1 X)^-1 is the GLS covariance at fixed theta. S costs
-// 1 + 2d + d(d - 1)/2 profile evaluations for d nonlinear parameters (central differences on
-// the diagonal, a one-sided cross difference off it) and J comes free from the diagonal steps,
-// against 1 + 2D + 2D(D - 1) for a central Hessian over all D = d + linear parameters.
-// Returns false when a step leaves the admissible region or the curvature is not definite.
+// C^-1 = sigma^2 (X' Sigma^-1 X)^-1 is the GLS covariance at fixed theta.
+//
+// Steps: a pilot pass measures each diagonal curvature at a small step, then every step is set
+// to kStepInSe of that parameter's conditional standard error 1 / sqrt(S_ii), so each second
+// difference moves the log-likelihood by about kStepInSe^2 / 2 whatever the scale of the data
+// (a fixed step in the coordinates is either lost in rounding where the curvature is small or
+// too coarse where it is large). Diagonal and J are central differences; a cross term uses the
+// points (+i, +j) and (-i, -j) with the diagonal ones, also O(h^2):
+//   S_ij = -[f(+i+j) + f(-i-j) - f(+i) - f(-i) - f(+j) - f(-j) + 2 f0] / (2 h_i h_j).
+// Cost: 1 + 4d + d(d - 1) profile evaluations for d nonlinear parameters, against
+// 1 + 2D + 2D(D - 1) for a central Hessian over all D = d + linear parameters. A step that
+// leaves the admissible region is halved (up to 20 times). Returns false when the curvature is
+// not definite or a point cannot be evaluated.
+constexpr double kStepInSe = 0.03;
+
+//
+// `newton_step` (if non-null) receives S^-1 g, g the central-difference gradient from the same
+// points: the step to the maximum of the quadratic, which the caller uses to polish an optimum
+// that the optimiser left a little short.
 bool profile_covariance(const LikelihoodProblem& problem, std::span<const double> theta0,
                         const ProfileValue& at_optimum, LikelihoodWorkspace& ws,
-                        Eigen::MatrixXd& covariance) {
+                        Eigen::MatrixXd& covariance, Eigen::VectorXd* newton_step = nullptr) {
   const int d = static_cast<int>(theta0.size());
   const auto k = at_optimum.linear.size();
   Eigen::LDLT<Eigen::MatrixXd> gls(at_optimum.linear_information);
@@ -178,43 +192,67 @@ bool profile_covariance(const LikelihoodProblem& problem, std::span<const double
     return c_inv.allFinite();
   }
   std::vector<double> x(theta0.begin(), theta0.end());
-  bool ok = true;
-  auto eval = [&]() {
+  const double f0 = at_optimum.loglik;
+  // The profile at theta0 + a e_i + b e_j (j < 0: none).
+  auto at = [&](int i, double a, int j, double b) {
+    x[i] = theta0[i] + a;
+    if (j >= 0) x[j] = theta0[j] + b;
     auto v = profile_loglik(problem, x, ws);
-    ok = ok && v.ok;
+    x[i] = theta0[i];
+    if (j >= 0) x[j] = theta0[j];
     return v;
   };
-  std::vector<double> h(d), f_plus(d);
-  for (int i = 0; i < d; ++i) h[i] = 1e-4 * std::max(std::abs(theta0[i]), 0.05);
-  const double f0 = at_optimum.loglik;
+  // Central second difference along i at step h (halved until both points are admissible).
+  struct Diagonal {
+    ProfileValue plus, minus;
+    double h = 0.0;
+    bool ok = false;
+  };
+  auto diagonal = [&](int i, double h) {
+    Diagonal out;
+    for (int tries = 0; tries < 20 && !out.ok; ++tries, h *= 0.5) {
+      out.plus = at(i, h, -1, 0.0);
+      out.minus = at(i, -h, -1, 0.0);
+      out.h = h;
+      out.ok = out.plus.ok && out.minus.ok;
+    }
+    return out;
+  };
+  std::vector<Diagonal> diag(d);
   Eigen::MatrixXd s(d, d);
   Eigen::MatrixXd jac(k, d);
+  Eigen::VectorXd gradient(d);
   for (int i = 0; i < d; ++i) {
-    x[i] = theta0[i] + h[i];
-    const auto plus = eval();
-    x[i] = theta0[i] - h[i];
-    const auto minus = eval();
-    x[i] = theta0[i];
-    if (!ok) return false;
-    f_plus[i] = plus.loglik;
-    s(i, i) = -(plus.loglik - 2.0 * f0 + minus.loglik) / (h[i] * h[i]);
-    if (k > 0) jac.col(i) = (plus.linear - minus.linear) / (2.0 * h[i]);
+    auto pilot = diagonal(i, 1e-4 * std::max(std::abs(theta0[i]), 0.05));
+    if (!pilot.ok) return false;
+    const double curvature =
+        -(pilot.plus.loglik - 2.0 * f0 + pilot.minus.loglik) / (pilot.h * pilot.h);
+    const double h = curvature > 0.0 && std::isfinite(curvature)
+                         ? std::min(kStepInSe / std::sqrt(curvature), 0.1)
+                         : pilot.h;
+    diag[i] = diagonal(i, h);
+    if (!diag[i].ok) return false;
+    const double hi = diag[i].h;
+    s(i, i) = -(diag[i].plus.loglik - 2.0 * f0 + diag[i].minus.loglik) / (hi * hi);
+    gradient(i) = (diag[i].plus.loglik - diag[i].minus.loglik) / (2.0 * hi);
+    if (k > 0) jac.col(i) = (diag[i].plus.linear - diag[i].minus.linear) / (2.0 * hi);
   }
   for (int i = 0; i < d; ++i)
     for (int j = 0; j < i; ++j) {
-      x[i] = theta0[i] + h[i];
-      x[j] = theta0[j] + h[j];
-      const double f_ij = eval().loglik;
-      x[i] = theta0[i];
-      x[j] = theta0[j];
-      if (!ok) return false;
-      s(i, j) = s(j, i) = -(f_ij - f_plus[i] - f_plus[j] + f0) / (h[i] * h[j]);
+      const double hi = diag[i].h, hj = diag[j].h;
+      const auto pp = at(i, hi, j, hj);
+      const auto mm = at(i, -hi, j, -hj);
+      if (!pp.ok || !mm.ok) return false;
+      s(i, j) = s(j, i) = -(pp.loglik + mm.loglik - diag[i].plus.loglik - diag[i].minus.loglik -
+                            diag[j].plus.loglik - diag[j].minus.loglik + 2.0 * f0) /
+                          (2.0 * hi * hj);
     }
   Eigen::LDLT<Eigen::MatrixXd> ldlt(s);
   if (!s.allFinite() || ldlt.info() != Eigen::Success || !ldlt.isPositive() ||
       ldlt.vectorD().minCoeff() <= 0.0)
     return false;
   const Eigen::MatrixXd s_inv = ldlt.solve(Eigen::MatrixXd::Identity(d, d));
+  if (newton_step) *newton_step = s_inv * gradient;
   covariance.resize(d + k, d + k);
   covariance.topLeftCorner(d, d) = s_inv;
   if (k > 0) {
@@ -398,12 +436,40 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     fit.evaluations = 1;
   }
 
-  const auto value = profile_loglik(problem, natural, ws);
+  auto value = profile_loglik(problem, natural, ws);
   if (!value.ok) {
     fit.status = FitStatus::numerical_failure;
     fit.message = "the GLS step failed: regressors are collinear or the noise variance is zero";
     fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     return fit;
+  }
+
+  // Covariance from the curvature of the profile log-likelihood. The optimiser stops when the
+  // log-likelihood changes by less than its tolerance, which can leave the point a little short
+  // of the maximum (1e-7 in log-likelihood moves standard errors in the fourth digit, and then
+  // they would depend on where the optimiser started); one Newton step from the same finite
+  // differences polishes it, and the curvature is measured again where it improved.
+  fit.covariance.resize(0, 0);
+  bool covariance_ok = false;
+  if (options.standard_errors && dim + problem.n_linear() > 0) {
+    Eigen::VectorXd step;
+    covariance_ok = profile_covariance(problem, natural, value, ws, fit.covariance, &step);
+    if (covariance_ok && dim > 0 && !boundary) {
+      std::vector<double> polished(natural);
+      for (int i = 0; i < dim; ++i) polished[i] += step(i);
+      const auto better = profile_loglik(problem, polished, ws);
+      ++fit.evaluations;
+      std::vector<double> z(dim);
+      if (better.ok && better.loglik > value.loglik + 1e-12 &&
+          to_unconstrained(blocks, polished, z) && max_abs_pacf(z) <= options.boundary_pacf) {
+        Eigen::MatrixXd cov;
+        if (profile_covariance(problem, polished, better, ws, cov)) {
+          natural = polished;
+          value = better;
+          fit.covariance = cov;
+        }
+      }
+    }
   }
   fit.loglik = value.loglik;
   fit.sigma2 = value.sigma2;
@@ -432,22 +498,19 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
                           : "closed form: no nonlinear parameters";
   }
 
-  // Estimates, covariance from the curvature of the profile log-likelihood.
+  // Estimates with their standard errors.
   const auto nl_names = nonlinear_names(problem.spec);
   const auto l_names = linear_names(problem.spec);
   std::vector<double> all(natural);
   all.insert(all.end(), linear.begin(), linear.end());
-  fit.covariance.resize(0, 0);
   std::vector<double> se(all.size(), std::numeric_limits<double>::quiet_NaN());
-  if (options.standard_errors && !all.empty()) {
-    if (profile_covariance(problem, natural, value, ws, fit.covariance)) {
-      for (size_t i = 0; i < all.size(); ++i) se[i] = std::sqrt(fit.covariance(i, i));
-    } else {
-      fit.covariance.resize(0, 0);
-      fit.diagnostics.warnings.emplace_back(
-          "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
-          "standard errors are not available");
-    }
+  if (covariance_ok) {
+    for (size_t i = 0; i < all.size(); ++i) se[i] = std::sqrt(fit.covariance(i, i));
+  } else if (options.standard_errors && !all.empty()) {
+    fit.covariance.resize(0, 0);
+    fit.diagnostics.warnings.emplace_back(
+        "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
+        "standard errors are not available");
   }
   for (size_t i = 0; i < all.size(); ++i)
     fit.estimates.push_back(

@@ -265,13 +265,31 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
   double ssr = m(0, 0);
   if (k > 0) {
     out.linear_information = m.bottomRightCorner(k, k);
-    Eigen::LDLT<Eigen::MatrixXd> ldlt(out.linear_information);
+    // Equilibrated normal equations: each whitened regressor scaled to unit length, so the
+    // pivots (and the collinearity test on them) do not depend on the units of the inputs.
+    const Eigen::VectorXd norm = out.linear_information.diagonal().cwiseSqrt();
+    if (!(norm.minCoeff() > 0.0) || !norm.allFinite()) return out;
+    const Eigen::VectorXd inv = norm.cwiseInverse();
+    const Eigen::MatrixXd a = inv.asDiagonal() * out.linear_information * inv.asDiagonal();
+    Eigen::LDLT<Eigen::MatrixXd> ldlt(a);
     if (ldlt.info() != Eigen::Success || !ldlt.isPositive()) return out;
-    out.linear = ldlt.solve(m.col(0).tail(k));
-    // A near-singular design (collinear regressors) shows up as a tiny pivot.
     const auto d = ldlt.vectorD();
-    if (d.minCoeff() <= 1e-12 * d.maxCoeff()) return out;
-    ssr -= m.col(0).tail(k).dot(out.linear);
+    if (d.minCoeff() <= 1e-12 * d.maxCoeff()) return out;  // collinear regressors
+    Eigen::VectorXd gamma = ldlt.solve(inv.cwiseProduct(m.col(0).tail(k)));
+    ssr -= m.col(0).tail(k).dot(inv.cwiseProduct(gamma));
+    // ssr = y'y - y'X beta cancels when the fit is close (a large constant, collinear trending
+    // regressors): the standard errors take second differences of this log-likelihood at tiny
+    // steps, so there the residuals are formed explicitly after one step of iterative
+    // refinement, which keeps ssr and beta accurate to working precision at O(n k) extra work.
+    if (m(0, 0) > 1e3 * ssr || d.minCoeff() < 1e-6 * d.maxCoeff()) {
+      const Eigen::MatrixXd& z = ws.filter.scaled;  // whitened target, then regressors
+      const auto x = z.rightCols(k);
+      Eigen::VectorXd e = z.col(0) - x * inv.cwiseProduct(gamma);
+      gamma += ldlt.solve(inv.cwiseProduct(x.transpose() * e));
+      e = z.col(0) - x * inv.cwiseProduct(gamma);
+      ssr = e.squaredNorm();
+    }
+    out.linear = inv.cwiseProduct(gamma);
   } else {
     out.linear.resize(0);
   }

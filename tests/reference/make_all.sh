@@ -12,6 +12,7 @@ $PY $ref/likelihood_fixed/make_likelihood_fixed.py
 $R $ref/ml_optimum/make_ml_optimum.R
 $PY $ref/ml_optimum/make_ml_optimum.py
 $R $ref/series_m/make_series_m.R
+$R $ref/standard_errors/make_standard_errors.R
 $R $ref/forecast_airline/make_forecast_airline.R
 $PY $ref/forecast_airline/make_forecast_airline.py
 $R $ref/forecast_regression/make_forecast_regression.R
