@@ -387,6 +387,14 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
         dist));
 }
 
+std::string starts_note(const FitResult& fit) {
+  if (fit.starts <= 1) return "1 start";
+  if (fit.lower_optima == 0)
+    return fmt::format("{} starts, all reaching the same optimum", fit.starts);
+  return fmt::format("{} starts that disagreed: {} ended at a lower optimum; the best is kept",
+                     fit.starts, fit.lower_optima);
+}
+
 }  // namespace
 
 FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options) {
@@ -412,17 +420,75 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     auto run = optimise(problem, blocks, z0, options, ws);
     fit.starts = 1;
     fit.evaluations = run.evaluations;
-    // Restart rule: a fit ending on the boundary or failing gets a second start from the
-    // neutral point (every partial autocorrelation zero), and the better optimum is kept.
-    const bool at_boundary = !run.z.empty() && max_abs_pacf(run.z) > options.boundary_pacf;
-    const bool failed = run.z.empty() || !std::isfinite(run.loglik) || run.code < 0;
     const bool neutral_start = std::all_of(z0.begin(), z0.end(), [](double v) { return v == 0.0; });
-    if ((at_boundary || failed) && !neutral_start) {
-      auto second = optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws);
-      fit.starts = 2;
+    std::vector<double> other_optima;  // log-likelihoods reached from the other starts
+    auto keep_better = [&](OptimiserRun second) {
+      ++fit.starts;
       fit.evaluations += second.evaluations;
+      if (!second.z.empty() && std::isfinite(second.loglik))
+        other_optima.push_back(std::min(second.loglik, run.loglik));
       if (second.loglik > run.loglik) run = std::move(second);
+    };
+    // Multi-start: with two or more ARMA coefficients the likelihood often has several local
+    // maxima (an AR root cancelling against an MA root, MA roots on the wrong side of the real
+    // axis), and the regression start can lead to the lower one. Such models also start from
+    // the neutral point (every partial autocorrelation zero) and from the start with every MA
+    // root mirrored (theta_j -> (-1)^j theta_j, i.e. the roots negated); the best optimum is
+    // kept and the message says whether the starts disagreed.
+    const auto& ns = problem.spec.noise;
+    const bool several_starts =
+        options.multi_start && ns.p + ns.q + ns.seasonal_p + ns.seasonal_q >= 2;
+    if (several_starts) {
+      if (!neutral_start)
+        keep_better(optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws));
+      if (ns.q + ns.seasonal_q > 0) {
+        std::vector<double> mirrored = start;
+        const int ma_offset = dim - (ns.p + ns.q + ns.seasonal_p + ns.seasonal_q) + ns.p;
+        for (int j = 0; j < ns.q; ++j)
+          if (j % 2 == 0) mirrored[ma_offset + j] = -mirrored[ma_offset + j];
+        const int sma_offset = ma_offset + ns.q + ns.seasonal_p;
+        for (int j = 0; j < ns.seasonal_q; ++j)
+          if (j % 2 == 0) mirrored[sma_offset + j] = -mirrored[sma_offset + j];
+        std::vector<double> z_mirrored(dim, 0.0);
+        if (mirrored != start && to_unconstrained(blocks, mirrored, z_mirrored))
+          keep_better(optimise(problem, blocks, z_mirrored, options, ws));
+      }
+      // The optimum of each nested neighbour (one AR or one MA term fewer), padded with a zero
+      // coefficient: a bigger ARMA can always reach what a nested one does, and its own starts
+      // may all fall into a lower basin (as an ARMA(2,2) whose better optimum has the AR roots
+      // of the ARMA(2,1) fit). Only for p + q >= 3, where this happens and the nested fits are
+      // a fraction of the cost.
+      if (ns.p + ns.q >= 3) {
+        FitOptions nested_options = options;
+        nested_options.multi_start = false;
+        nested_options.standard_errors = false;
+        nested_options.diagnostics = false;
+        nested_options.warm_start.reset();
+        for (int drop = 0; drop < 2; ++drop) {
+          LikelihoodProblem nested = problem;
+          (drop == 0 ? nested.spec.noise.q : nested.spec.noise.p) -= 1;
+          if (nested.spec.noise.p < 0 || nested.spec.noise.q < 0) continue;
+          const auto sub = fit_model(nested, nested_options);
+          fit.evaluations += sub.evaluations;
+          if (!sub.usable()) continue;
+          ModelParams padded = sub.params;
+          padded.phi.resize(ns.p, 0.0);
+          padded.theta.resize(ns.q, 0.0);
+          std::vector<double> z_nested(dim, 0.0);
+          if (to_unconstrained(blocks, pack_nonlinear(problem.spec, padded), z_nested))
+            keep_better(optimise(problem, blocks, z_nested, options, ws));
+        }
+      }
+    } else {
+      // Restart rule: a fit ending on the boundary or failing gets a second start from the
+      // neutral point, and the better optimum is kept.
+      const bool at_boundary = !run.z.empty() && max_abs_pacf(run.z) > options.boundary_pacf;
+      const bool failed = run.z.empty() || !std::isfinite(run.loglik) || run.code < 0;
+      if ((at_boundary || failed) && !neutral_start)
+        keep_better(optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws));
     }
+    for (double other : other_optima)
+      if (other < run.loglik - 1e-4) ++fit.lower_optima;
     if (run.z.empty() || !std::isfinite(run.loglik)) {
       fit.status = FitStatus::numerical_failure;
       fit.message = "the likelihood could not be evaluated at any point tried";
@@ -493,8 +559,8 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
         fit.evaluations);
   } else {
     fit.status = FitStatus::ok;
-    fit.message = dim > 0 ? fmt::format("converged after {} likelihood evaluations ({} start{})",
-                                        fit.evaluations, fit.starts, fit.starts > 1 ? "s" : "")
+    fit.message = dim > 0 ? fmt::format("converged after {} likelihood evaluations ({})",
+                                        fit.evaluations, starts_note(fit))
                           : "closed form: no nonlinear parameters";
   }
 

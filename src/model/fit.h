@@ -35,6 +35,9 @@ struct FitOptions {
   // fits turn it off (they read only Ljung-Box and warnings; the leader is refitted with it).
   bool residual_input_check = true;
   std::optional<ModelParams> warm_start;  // start here instead of the regression start values
+  // With two or more ARMA coefficients, also start from the neutral point and from the start
+  // with its MA roots mirrored, keeping the best optimum (see FitResult::starts).
+  bool multi_start = true;
 };
 
 struct ParamEstimate {
@@ -92,7 +95,8 @@ struct FitResult {
   std::vector<double> residuals;  // standardised innovations, variance sigma^2
   FitDiagnostics diagnostics;
   int evaluations = 0;
-  int starts = 0;  // optimiser starts used (a restart follows a boundary)
+  int starts = 0;        // optimiser starts used (multi-start, or a restart after a boundary)
+  int lower_optima = 0;  // starts that ended more than 1e-4 below the best (kept) optimum
   double seconds = 0.0;
 
   bool usable() const { return status != FitStatus::numerical_failure; }
