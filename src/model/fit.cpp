@@ -85,6 +85,10 @@ bool to_unconstrained(const std::vector<Block>& blocks, std::span<const double> 
   return true;
 }
 
+// A start that ends this far (log-likelihood units) below the best ended at another optimum;
+// smaller gaps are the coarse tolerance of the extra starts.
+constexpr double kDistinctOptimum = 1e-2;
+
 constexpr double kBound = 7.0;  // |z| <= 7 keeps |partial autocorrelation| <= 0.999998
 
 struct Objective {
@@ -422,6 +426,21 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     fit.evaluations = run.evaluations;
     const bool neutral_start = std::all_of(z0.begin(), z0.end(), [](double v) { return v == 0.0; });
     std::vector<double> other_optima;  // log-likelihoods reached from the other starts
+    // Extra starts run at a coarse tolerance and budget (most end in the basin already found,
+    // and the last digits are where an optimiser spends its evaluations); one that ends above
+    // the best so far is then polished at the full tolerance from where it stopped.
+    FitOptions coarse = options;
+    coarse.relative_tolerance = std::max(options.relative_tolerance, 1e-6);
+    coarse.max_evaluations = 100 + 50 * dim;
+    auto explore = [&](const std::vector<double>& z_start) {
+      auto trial = optimise(problem, blocks, z_start, coarse, ws);
+      if (!trial.z.empty() && std::isfinite(trial.loglik) && trial.loglik > run.loglik + 1e-6) {
+        auto polished = optimise(problem, blocks, trial.z, options, ws);
+        polished.evaluations += trial.evaluations;
+        if (polished.loglik >= trial.loglik) return polished;
+      }
+      return trial;
+    };
     auto keep_better = [&](OptimiserRun second) {
       ++fit.starts;
       fit.evaluations += second.evaluations;
@@ -439,8 +458,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     const bool several_starts =
         options.multi_start && ns.p + ns.q + ns.seasonal_p + ns.seasonal_q >= 2;
     if (several_starts) {
-      if (!neutral_start)
-        keep_better(optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws));
+      if (!neutral_start) keep_better(explore(std::vector<double>(dim, 0.0)));
       if (ns.q + ns.seasonal_q > 0) {
         std::vector<double> mirrored = start;
         const int ma_offset = dim - (ns.p + ns.q + ns.seasonal_p + ns.seasonal_q) + ns.p;
@@ -451,7 +469,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
           if (j % 2 == 0) mirrored[sma_offset + j] = -mirrored[sma_offset + j];
         std::vector<double> z_mirrored(dim, 0.0);
         if (mirrored != start && to_unconstrained(blocks, mirrored, z_mirrored))
-          keep_better(optimise(problem, blocks, z_mirrored, options, ws));
+          keep_better(explore(z_mirrored));
       }
       // The optimum of each nested neighbour (one AR or one MA term fewer), padded with a zero
       // coefficient: a bigger ARMA can always reach what a nested one does, and its own starts
@@ -476,7 +494,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
           padded.theta.resize(ns.q, 0.0);
           std::vector<double> z_nested(dim, 0.0);
           if (to_unconstrained(blocks, pack_nonlinear(problem.spec, padded), z_nested))
-            keep_better(optimise(problem, blocks, z_nested, options, ws));
+            keep_better(explore(z_nested));
         }
       }
     } else {
@@ -488,7 +506,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
         keep_better(optimise(problem, blocks, std::vector<double>(dim, 0.0), options, ws));
     }
     for (double other : other_optima)
-      if (other < run.loglik - 1e-4) ++fit.lower_optima;
+      if (other < run.loglik - kDistinctOptimum) ++fit.lower_optima;
     if (run.z.empty() || !std::isfinite(run.loglik)) {
       fit.status = FitStatus::numerical_failure;
       fit.message = "the likelihood could not be evaluated at any point tried";

@@ -96,7 +96,7 @@ struct FitResult {
   FitDiagnostics diagnostics;
   int evaluations = 0;
   int starts = 0;        // optimiser starts used (multi-start, or a restart after a boundary)
-  int lower_optima = 0;  // starts that ended more than 1e-4 below the best (kept) optimum
+  int lower_optima = 0;  // starts that ended more than 0.01 below the best (kept) optimum
   double seconds = 0.0;
 
   bool usable() const { return status != FitStatus::numerical_failure; }

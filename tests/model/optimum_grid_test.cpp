@@ -60,8 +60,8 @@ TEST(OptimumGrid, EveryCandidateReachesTheBestReferenceOptimum) {
     ++checked;
   }
   EXPECT_EQ(checked, 108);
-  std::printf("worst loglik - best reference: %.3g (%s); %d fits used more than one start\n",
-              worst, r["cases"][worst_index]["id"].get<std::string>().c_str(), multi);
+  std::printf("worst loglik - best reference: %.3g (%s); %d fits used more than one start\n", worst,
+              r["cases"][worst_index]["id"].get<std::string>().c_str(), multi);
 }
 
 }  // namespace

@@ -13,6 +13,8 @@ $R $ref/ml_optimum/make_ml_optimum.R
 $PY $ref/ml_optimum/make_ml_optimum.py
 $R $ref/series_m/make_series_m.R
 $R $ref/standard_errors/make_standard_errors.R
+$R $ref/optimum_grid/make_optimum_grid.R
+$PY $ref/optimum_grid/make_optimum_grid.py
 $R $ref/forecast_airline/make_forecast_airline.R
 $PY $ref/forecast_airline/make_forecast_airline.py
 $R $ref/forecast_regression/make_forecast_regression.R
