@@ -27,6 +27,7 @@ struct ForecastArgs {
   std::vector<std::string> futures;
   std::vector<double> levels{0.8, 0.95};
   bool json = false;
+  bool fixed_parameters = false;  // leave the parameters' estimation uncertainty out
 };
 
 struct Scenario {
@@ -94,6 +95,8 @@ int run_forecast(const ForecastArgs& args) {
   ForecastOptions options;
   options.horizon = args.horizon;
   options.levels = args.levels;
+  options.parameter_uncertainty =
+      !args.fixed_parameters && config.forecast.parameter_uncertainty;
   std::vector<ForecastResult> results;
   for (const auto& s : scenarios) results.push_back(forecast(model, history, s.inputs, options));
 
@@ -120,14 +123,15 @@ int run_forecast(const ForecastArgs& args) {
     fmt::print("\nscenario {} — inputs:", scenarios[k].name);
     for (size_t i = 0; i < model.inputs.size(); ++i)
       fmt::print(" {} {};", model.inputs[i].name, r.input_treatment[i]);
-    fmt::print("\n  {:>4} {:<20} {:>12}", "h", "time", "median");
+    fmt::print("\n  parameter uncertainty: {}\n", r.parameter_uncertainty);
+    fmt::print("  {:>4} {:<20} {:>12}", "h", "time", "median");
     for (double level : r.levels) fmt::print(" {:>25}", fmt::format("{:g}% interval", 100 * level));
-    fmt::print("\n");
+    fmt::print(" {:>8} {:>8}\n", "inputs%", "params%");
     for (int h = 0; h < args.horizon; ++h) {
       fmt::print("  {:>4} {:<20} {:>12.6g}", h + 1, r.time[h], r.median[h]);
       for (size_t l = 0; l < r.levels.size(); ++l)
         fmt::print(" {:>25}", fmt::format("[{:.6g}, {:.6g}]", r.lower[l][h], r.upper[l][h]));
-      fmt::print("\n");
+      fmt::print(" {:>8.1f} {:>8.1f}\n", 100 * r.share_inputs[h], 100 * r.share_parameters[h]);
     }
   }
   return kExitOk;
@@ -145,6 +149,9 @@ void register_forecast(CLI::App& app) {
                   "Future input values, [NAME=]CSV; repeat for named scenarios side by side");
   cmd->add_option("--levels", args->levels, "Interval levels")->default_val(std::vector<double>{0.8, 0.95})->delimiter(',');
   cmd->add_flag("--json", args->json, "Print JSON");
+  cmd->add_flag("--fixed-parameters", args->fixed_parameters,
+                "Treat the estimated parameters as known: intervals without their estimation "
+                "uncertainty (also `forecast: parameter_uncertainty: false` in the config)");
   cmd->callback([args] { finish(run_command([&] { return run_forecast(*args); })); });
 }
 

@@ -59,14 +59,19 @@ std::string join_numbers(const std::vector<double>& v) {
 void print_input(const InputScreen& s, bool negative) {
   constexpr int kHalf = 20;
   std::string how = s.is_event ? "event, not prewhitened" : "column";
+  if (s.indicator.shape != IndicatorShape::none)
+    how = fmt::format("indicator column ({}), not prewhitened", to_string(s.indicator.shape));
   if (s.prewhitened) how = fmt::format("column, prewhitened by AR({})", s.prewhitening.order);
   fmt::print("\n{}  [{}; n = {}]\n", s.name, how, s.n);
+  const bool has_bars = !(s.cross_correlation.empty() || s.band == 0.0);
+  if (s.indicator.shape != IndicatorShape::none && has_bars)
+    fmt::print("  note: {}\n", s.notes.front());  // the others are in the bars below
   if (s.relevant)
     fmt::print("  suggestion: b = {}, s = {}, r = {}   omega = ({}){}\n", s.suggested_delay,
                s.suggested_numerator, s.suggested_denominator, join_numbers(s.suggested_omega),
-               s.suggested_delta.empty() ? ""
-                                         : fmt::format(", delta = ({})",
-                                                       join_numbers(s.suggested_delta)));
+               s.suggested_delta.empty()
+                   ? ""
+                   : fmt::format(", delta = ({})", join_numbers(s.suggested_delta)));
   else
     fmt::print("  suggestion: leave it out (no significant cross-correlation at lags 0..{})\n",
                s.max_lag);
@@ -91,9 +96,10 @@ void print_input(const InputScreen& s, bool negative) {
     fmt::print("  {:>5} {:>7.3f}{} {}  {}\n", k, r, flag,
                correlation_bar(r, s.band, s.family_band, kHalf), tail);
   }
-  fmt::print("  bands: per lag +-{:.3f} (':' / '!'), family-wise over lags 0..{} +-{:.3f} "
-             "('!' / '!!')\n",
-             s.band, s.max_lag, s.family_band);
+  fmt::print(
+      "  bands: per lag +-{:.3f} (':' / '!'), family-wise over lags 0..{} +-{:.3f} "
+      "('!' / '!!')\n",
+      s.band, s.max_lag, s.family_band);
   if (!negative) {
     int worst = -1;
     for (int k = -s.max_lag; k <= -1; ++k)
@@ -106,10 +112,11 @@ void print_input(const InputScreen& s, bool negative) {
 }
 
 void print_screen(const ScreenResult& r, bool negative) {
-  fmt::print("screen of {}: {} rows, {} after differencing (d={}, D={}, period {}), transform {}; "
-             "lags 0..{}\n",
-             r.target_name, r.rows, r.n, r.differencing.regular, r.differencing.seasonal,
-             r.differencing.period, to_string(r.transform.kind), r.max_lag_used);
+  fmt::print(
+      "screen of {}: {} rows, {} after differencing (d={}, D={}, period {}), transform {}; "
+      "lags 0..{}\n",
+      r.target_name, r.rows, r.n, r.differencing.regular, r.differencing.seasonal,
+      r.differencing.period, to_string(r.transform.kind), r.max_lag_used);
   for (const auto& s : r.inputs) print_input(s, negative);
   fmt::print("\nnoise: suggested p = {}, q = {}  ({}; residual n = {})\n", r.noise.p, r.noise.q,
              r.noise.reason, r.noise.n);
@@ -136,7 +143,8 @@ int run_screen(const ScreenArgs& args) {
   opt.ar_max_order = args.ar_max;
   if (args.ar >= 0) opt.ar_order = args.ar;
   std::vector<const SeriesData*> targets;
-  if (!args.series.empty()) targets.push_back(&pick_series(run, args.series));
+  if (!args.series.empty())
+    targets.push_back(&pick_series(run, args.series));
   else
     for (const auto& s : run.series) targets.push_back(&s);
 

@@ -42,6 +42,7 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
                     : config.backtest.enabled   ? config.backtest.horizon
                                                 : 12;
   options.levels = config.forecast.levels;
+  options.parameter_uncertainty = config.forecast.parameter_uncertainty;
   nlohmann::json j;
   j["series"] = data.target_name;
   j["horizon"] = options.horizon;

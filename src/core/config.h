@@ -91,6 +91,7 @@ struct BacktestConfig {
 struct ForecastConfig {
   int horizon = 0;                          // 0 = backtest.horizon or 12
   std::vector<double> levels{0.8, 0.95};
+  bool parameter_uncertainty = true;        // intervals include the parameters' estimation error
 };
 
 struct OutputConfig {

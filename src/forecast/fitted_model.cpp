@@ -70,6 +70,13 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
                                  "observations or a constant series)",
                                  name));
   best.chosen_by_aic = !given;
+  // The chosen order once more with standard errors: the covariance of its estimates, ordered
+  // phi, theta (nonlinear) then the mean (linear), as forecasts use it.
+  problem.spec.noise = {best.p, best.q, 0, 0, 1};
+  options.standard_errors = true;
+  const auto chosen = fit_model(problem, options);
+  if (chosen.usable() && chosen.covariance.rows() == best.p + best.q + 1)
+    best.covariance = chosen.covariance;
   return best;
 }
 

@@ -27,6 +27,9 @@ struct InputModel {
   double sigma2 = 0.0;
   double aic = 0.0;
   bool chosen_by_aic = false;  // false: orders given in the config
+  // Estimation covariance of (phi_1..phi_p, theta_1..theta_q, mean) from the fit's curvature;
+  // empty when not available (then forecasts leave this model's parameter uncertainty out).
+  Eigen::MatrixXd covariance;
 };
 
 // How the future of one included input is obtained when forecasting.

@@ -1,8 +1,9 @@
 #include "forecast/forecast.h"
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
+#include <span>
 
 #include "core/error.h"
 #include "data/events.h"
@@ -44,7 +45,7 @@ struct ArmaPath {
 };
 
 ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
-                   const std::vector<double>& history, int horizon) {
+                   const std::vector<double>& history, int horizon, bool covariance = true) {
   ArmaFilterWorkspace ws;
   const auto end = arma_end_state(ar, ma, history, ws);
   ArmaPath path;
@@ -52,7 +53,7 @@ ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
-  path.cov = arma_forecast_covariance(ar, ma, end.cov, horizon);
+  if (covariance) path.cov = arma_forecast_covariance(ar, ma, end.cov, horizon);
   return path;
 }
 
@@ -66,7 +67,8 @@ Eigen::MatrixXd toeplitz_lower(const std::vector<double>& w, int n) {
 
 }  // namespace
 
-Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar, const std::vector<double>& ma,
+Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar,
+                                         const std::vector<double>& ma,
                                          const Eigen::MatrixXd& p_origin, int horizon) {
   const int m = state_dim(ar, ma);
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
@@ -78,26 +80,34 @@ Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar, const st
   return cov;
 }
 
-ForecastResult forecast(const FittedModel& model, const SeriesData& history,
-                        const std::vector<InputFuture>& futures, const ForecastOptions& options) {
+namespace {
+
+// The point forecast on the transformed scale (integrated) and, when asked, the error
+// covariances of the differenced forecasts over the horizon: noise (with the state at the origin)
+// and the inputs' own innovations. Re-run with perturbed parameters for the delta method.
+struct Paths {
+  std::vector<double> level;
+  Eigen::MatrixXd cov_known, cov_inputs;
+  std::vector<std::string> input_treatment;
+};
+
+Paths compute_paths(const FittedModel& model, const SeriesData& history,
+                    const std::vector<InputFuture>& futures, const ForecastOptions& options,
+                    bool covariances) {
   const ModelSpec& spec = model.spec;
   const int horizon = options.horizon;
-  if (horizon < 1)
-    throw InputError(fmt::format("the horizon must be at least 1 (got {})", horizon));
   const int rows = history.rows();
   const int lost = spec.differencing.lost();
-  ForecastResult out;
-  out.origin = rows;
-  out.time = next_time_stamps(history.time, horizon);
-  out.levels = options.levels;
+  Paths out;
 
   const auto z = apply_transform(history.target, spec.transform, history.target_name.c_str());
   const auto w = difference(z, spec.differencing);
   const int nw = static_cast<int>(w.size());
   if (nw <= minimum_start(spec) + 1)
-    throw InputError(fmt::format("the history has {} rows: too short for this model (it needs "
-                                 "more than {} rows)",
-                                 rows, lost + minimum_start(spec) + 1));
+    throw InputError(
+        fmt::format("the history has {} rows: too short for this model (it needs "
+                    "more than {} rows)",
+                    rows, lost + minimum_start(spec) + 1));
 
   Eigen::MatrixXd cov_inputs = Eigen::MatrixXd::Zero(horizon, horizon);
   std::vector<std::vector<double>> x_paths;  // transfer-function output over nw + horizon
@@ -126,18 +136,19 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     } else {
       const int index = history.input_index(term.name);
       if (index < 0)
-        throw InputError(fmt::format("the history has no column '{}', an input of the model",
-                                     term.name));
+        throw InputError(
+            fmt::format("the history has no column '{}', an input of the model", term.name));
       original = history.inputs[index];
       const InputFuture* future = supplied;
       const int given = future ? static_cast<int>(future->values.size()) : 0;
       known = std::min(given, horizon);
       if (options.oracle_inputs && known < horizon)
-        throw InputError(fmt::format("input '{}': oracle forecasts need its values for all {} "
-                                     "steps, {} given",
-                                     term.name, horizon, given));
-      if (known > 0) original.insert(original.end(), future->values.begin(),
-                                     future->values.begin() + known);
+        throw InputError(
+            fmt::format("input '{}': oracle forecasts need its values for all {} "
+                        "steps, {} given",
+                        term.name, horizon, given));
+      if (known > 0)
+        original.insert(original.end(), future->values.begin(), future->values.begin() + known);
       if (known < horizon && !model.input_model(term.name))
         throw InputError(fmt::format(
             "input '{}' is known in the future (future: known) but {} of the {} future values "
@@ -145,15 +156,19 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
             term.name, known, horizon));
       out.input_treatment.push_back(known == horizon ? "known"
                                     : known == 0     ? "forecast"
-                                                     : fmt::format("known {}, then forecast", known));
+                                                 : fmt::format("known {}, then forecast", known));
     }
     auto u = difference(original, spec.differencing);  // nw + known values
     if (known < horizon) {
       const InputModel& im = *model.input_model(term.name);
       std::vector<double> centred(u.begin(), u.end());
       for (auto& v : centred) v -= im.mean;
-      const auto path = arma_path(im.phi, im.theta, centred, horizon - known);
+      const auto path = arma_path(im.phi, im.theta, centred, horizon - known, covariances);
       for (double v : path.mean) u.push_back(im.mean + v);
+      if (!covariances) {
+        x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
+        continue;
+      }
       // Errors of the differenced input at steps known..horizon-1, through the impulse response.
       Eigen::MatrixXd cov_u = Eigen::MatrixXd::Zero(horizon, horizon);
       cov_u.bottomRightCorner(horizon - known, horizon - known) = im.sigma2 * path.cov;
@@ -172,8 +187,8 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
   const int start = std::clamp(model.start, 0, std::max(nw - 2, 0));
   const auto ar = expand_ar(model.params.phi, model.params.seasonal_phi, spec.noise.period);
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
-  const auto noise_path =
-      arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon);
+  const auto noise_path = arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()),
+                                    horizon, covariances);
 
   std::vector<double> w_hat(horizon);
   for (int s = 0; s < horizon; ++s) {
@@ -181,17 +196,136 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     for (const auto& x : x_paths) v += x[nw + s];
     w_hat[s] = v;
   }
-  const Eigen::MatrixXd cov_known = model.params.sigma2 * noise_path.cov;
-  const Eigen::MatrixXd cov_all = cov_known + cov_inputs;
-
-  // Back through the differencing: y = w + sum_k c_k y_{t-k}.
+  if (covariances) {
+    out.cov_known = model.params.sigma2 * noise_path.cov;
+    out.cov_inputs = cov_inputs;
+  }
   const std::vector<double> head(z.end() - lost, z.end());
   const auto integrated = undifference(head, w_hat, spec.differencing);
   out.level.assign(integrated.end() - horizon, integrated.end());
+  return out;
+}
+
+// Central-difference derivative of the level path in each coordinate of `values`, the step a
+// thousandth of the coordinate's standard error (the scale on which the delta method is used);
+// `rebuild` maps perturbed values to a model. Returns J (horizon x size); a zero column where the
+// variance is not positive.
+template <class Rebuild>
+Eigen::MatrixXd level_jacobian(const std::vector<double>& values, const Eigen::MatrixXd& cov,
+                               int horizon, Rebuild&& rebuild) {
+  const int k = static_cast<int>(values.size());
+  Eigen::MatrixXd jac = Eigen::MatrixXd::Zero(horizon, k);
+  for (int j = 0; j < k; ++j) {
+    if (!(cov(j, j) > 0.0)) continue;
+    const double step = 1e-3 * std::sqrt(cov(j, j));
+    std::vector<double> up(values), down(values);
+    up[j] += step;
+    down[j] -= step;
+    const auto hi = rebuild(up);
+    const auto lo = rebuild(down);
+    for (int s = 0; s < horizon; ++s) jac(s, j) = (hi[s] - lo[s]) / (2.0 * step);
+  }
+  return jac;
+}
+
+bool usable_covariance(const Eigen::MatrixXd& cov, size_t size) {
+  return size > 0 && cov.rows() == static_cast<Eigen::Index>(size) &&
+         cov.cols() == static_cast<Eigen::Index>(size) && cov.allFinite();
+}
+
+}  // namespace
+
+ForecastResult forecast(const FittedModel& model, const SeriesData& history,
+                        const std::vector<InputFuture>& futures, const ForecastOptions& options) {
+  const ModelSpec& spec = model.spec;
+  const int horizon = options.horizon;
+  if (horizon < 1)
+    throw InputError(fmt::format("the horizon must be at least 1 (got {})", horizon));
+  ForecastResult out;
+  out.origin = history.rows();
+  out.time = next_time_stamps(history.time, horizon);
+  out.levels = options.levels;
+  Paths base = compute_paths(model, history, futures, options, true);
+  out.input_treatment = std::move(base.input_treatment);
+  out.level = base.level;
+  const Eigen::MatrixXd& cov_known = base.cov_known;
+  const Eigen::MatrixXd cov_all = cov_known + base.cov_inputs;
+
+  // Parameter uncertainty by the delta method: Var = J Cov J' with J the derivative of the level
+  // path in the parameters (central differences) and Cov the fit's covariance.
+  Eigen::VectorXd var_param_model = Eigen::VectorXd::Zero(horizon);
+  Eigen::VectorXd var_param_inputs = Eigen::VectorXd::Zero(horizon);
+  out.parameter_uncertainty = "off";
+  if (options.parameter_uncertainty) {
+    const auto nonlinear = pack_nonlinear(spec, model.params);
+    const auto linear = pack_linear(spec, model.params);
+    std::vector<double> all(nonlinear);
+    all.insert(all.end(), linear.begin(), linear.end());
+    std::vector<std::string> parts;
+    if (usable_covariance(model.covariance, all.size())) {
+      FittedModel perturbed = model;
+      const auto jac =
+          level_jacobian(all, model.covariance, horizon, [&](const std::vector<double>& v) {
+            perturbed.params =
+                unpack(spec, std::span<const double>(v.data(), nonlinear.size()),
+                       std::span<const double>(v.data() + nonlinear.size(), linear.size()),
+                       model.params.sigma2);
+            return compute_paths(perturbed, history, futures, options, false).level;
+          });
+      var_param_model = (jac * model.covariance * jac.transpose()).diagonal();
+      parts.push_back("model");
+    } else if (!all.empty()) {
+      parts.push_back("model left out (no usable covariance)");
+    }
+    for (size_t m = 0; m < model.input_models.size(); ++m) {
+      const InputModel& im = model.input_models[m];
+      const int i = [&] {
+        for (size_t k = 0; k < spec.inputs.size(); ++k)
+          if (spec.inputs[k].name == im.input) return static_cast<int>(k);
+        return -1;
+      }();
+      if (i < 0 || out.input_treatment[i] == "known" || out.input_treatment[i] == "known (event)")
+        continue;
+      // Order of the input model's covariance: phi, theta, then the mean.
+      std::vector<double> values(im.phi);
+      values.insert(values.end(), im.theta.begin(), im.theta.end());
+      values.push_back(im.mean);
+      if (!usable_covariance(im.covariance, values.size())) {
+        parts.push_back(fmt::format("input '{}' left out (no covariance)", im.input));
+        continue;
+      }
+      FittedModel perturbed = model;
+      const auto jac =
+          level_jacobian(values, im.covariance, horizon, [&](const std::vector<double>& v) {
+            InputModel& pm = perturbed.input_models[m];
+            pm.phi.assign(v.begin(), v.begin() + im.p);
+            pm.theta.assign(v.begin() + im.p, v.begin() + im.p + im.q);
+            pm.mean = v.back();
+            return compute_paths(perturbed, history, futures, options, false).level;
+          });
+      var_param_inputs += (jac * im.covariance * jac.transpose()).diagonal();
+      parts.push_back(fmt::format("input '{}'", im.input));
+    }
+    out.parameter_uncertainty = "delta method";
+    for (size_t k = 0; k < parts.size(); ++k)
+      out.parameter_uncertainty += (k == 0 ? ": " : ", ") + parts[k];
+  }
+
+  // Back through the differencing: y = w + sum_k c_k y_{t-k}.
   const auto xi = psi_weights(differencing_lags(spec.differencing), {}, horizon);
   const Eigen::MatrixXd l = toeplitz_lower(xi, horizon);
-  const Eigen::VectorXd var_all = (l * cov_all * l.transpose()).diagonal();
-  const Eigen::VectorXd var_known = (l * cov_known * l.transpose()).diagonal();
+  const Eigen::VectorXd var_noise = (l * cov_known * l.transpose()).diagonal();
+  const Eigen::VectorXd var_all =
+      (l * cov_all * l.transpose()).diagonal() + var_param_model + var_param_inputs;
+  const Eigen::VectorXd var_known = var_noise + var_param_model;
+  out.share_inputs.resize(horizon);
+  out.share_parameters.resize(horizon);
+  for (int s = 0; s < horizon; ++s) {
+    const double total = var_all(s) > 0.0 ? var_all(s) : 1.0;
+    out.share_parameters[s] = (var_param_model(s) + var_param_inputs(s)) / total;
+    out.share_inputs[s] =
+        std::max(var_all(s) - var_noise(s) - var_param_model(s) - var_param_inputs(s), 0.0) / total;
+  }
 
   const auto& tr = spec.transform;
   out.se.resize(horizon);
@@ -249,6 +383,9 @@ nlohmann::json forecast_to_json(const ForecastResult& r) {
                       {"se_transformed", r.se},
                       {"se_transformed_inputs_known", r.se_known_inputs},
                       {"input_treatment", r.input_treatment},
+                      {"parameter_uncertainty", r.parameter_uncertainty},
+                      {"variance_share_inputs", r.share_inputs},
+                      {"variance_share_parameters", r.share_parameters},
                       {"levels", r.levels}};
   for (size_t l = 0; l < r.levels.size(); ++l) {
     const std::string key = fmt::format("{:g}", r.levels[l]);

@@ -131,7 +131,14 @@ json to_json(const FittedModel& m) {
   }
   doc["covariance"] = {{"names", m.param_names}, {"matrix", cov}};
   doc["input_models"] = json::array();
-  for (const auto& im : m.input_models)
+  for (const auto& im : m.input_models) {
+    json icov = json::array();  // phi, theta, mean; [] when not available
+    for (Eigen::Index i = 0; i < im.covariance.rows(); ++i) {
+      json row = json::array();
+      for (Eigen::Index j = 0; j < im.covariance.cols(); ++j)
+        row.push_back(number_or_null(im.covariance(i, j)));
+      icov.push_back(row);
+    }
     doc["input_models"].push_back({{"input", im.input},
                                    {"p", im.p},
                                    {"q", im.q},
@@ -140,7 +147,9 @@ json to_json(const FittedModel& m) {
                                    {"theta", im.theta},
                                    {"sigma2", im.sigma2},
                                    {"aic", im.aic},
-                                   {"chosen_by_aic", im.chosen_by_aic}});
+                                   {"chosen_by_aic", im.chosen_by_aic},
+                                   {"covariance", icov}});
+  }
   doc["fit"] = {{"loglik", m.loglik}, {"aic", m.aic},           {"aicc", number_or_null(m.aicc)},
                 {"bic", m.bic},       {"n_obs", m.n_obs},       {"n_params", m.n_params},
                 {"start", m.start},   {"status", m.fit_status}};
@@ -243,6 +252,20 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     im.sigma2 = r.number(e, "sigma2", "input_models[].");
     im.aic = r.number(e, "aic", "input_models[].");
     im.chosen_by_aic = r.at(e, "chosen_by_aic", "input_models[].").get<bool>();
+    // Optional (files written before it existed): a square matrix over phi, theta and the mean.
+    if (e.contains("covariance") && e["covariance"].is_array() &&
+        e["covariance"].size() == static_cast<size_t>(im.p + im.q + 1)) {
+      const json& ic = e["covariance"];
+      const auto k = static_cast<Eigen::Index>(ic.size());
+      im.covariance.resize(k, k);
+      for (Eigen::Index i = 0; i < k; ++i)
+        for (Eigen::Index j = 0; j < k; ++j) {
+          const json& row = ic[static_cast<size_t>(i)];
+          const bool ok = row.is_array() && row.size() == static_cast<size_t>(k) &&
+                          row[static_cast<size_t>(j)].is_number();
+          im.covariance(i, j) = ok ? row[static_cast<size_t>(j)].get<double>() : std::nan("");
+        }
+    }
     m.input_models.push_back(im);
   }
   const json& fj = r.at(doc, "fit", "");

@@ -296,9 +296,11 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
 }
 
 void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc) {
-  rd.check_map(node, "forecast", {"horizon", "levels"});
+  rd.check_map(node, "forecast", {"horizon", "levels", "parameter_uncertainty"});
   if (const auto n = node["horizon"]) fc.horizon = rd.get_int(n, "forecast.horizon", 1);
   if (const auto n = node["levels"]) fc.levels = rd.get_levels(n, "forecast.levels");
+  if (const auto n = node["parameter_uncertainty"])
+    fc.parameter_uncertainty = rd.get_bool(n, "forecast.parameter_uncertainty");
 }
 
 }  // namespace

@@ -6,13 +6,13 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
-#include <span>
 #include <nlohmann/json.hpp>
+#include <span>
 
 #include "core/error.h"
-#include "evaluation/distributions.h"
 #include "core/names.h"
 #include "data/transform.h"
+#include "evaluation/distributions.h"
 
 namespace lagsieve {
 
@@ -230,7 +230,7 @@ ShapeFit fit_shape(const std::vector<double>& v_tail, int r, int s) {
 // Noise orders from ACF/PACF cut-offs.
 
 struct Cutoff {
-  int order = 0;   // last significant lag within 1..cap
+  int order = 0;  // last significant lag within 1..cap
   bool cuts = false;
   int significant = 0;  // significant lags in 1..K
 };
@@ -308,12 +308,46 @@ bool input_is_event(const RunConfig& config, const std::string& name) {
   return false;
 }
 
-InputScreen screen_input(const std::string& name, bool is_event, const std::vector<double>& u,
-                         const std::vector<double>& w, int L, int ar_cap,
-                         const ScreenOptions& opt, std::vector<ScreenWarning>& warnings) {
+// True when x changes value exactly once: a step that stays.
+bool is_single_step(const std::vector<double>& x) {
+  int changes = 0;
+  for (size_t t = 1; t < x.size(); ++t) changes += x[t] != x[t - 1] ? 1 : 0;
+  return changes == 1;
+}
+
+std::string indicator_note(const IndicatorInfo& ind) {
+  std::string where;
+  for (int row : ind.change_rows) where += (where.empty() ? "" : ", ") + std::to_string(row);
+  std::string what;
+  switch (ind.shape) {
+    case IndicatorShape::step:
+      what = fmt::format("a step from {:g} to {:g} at row {}", ind.base, ind.other, where);
+      break;
+    case IndicatorShape::pulse:
+      what = fmt::format("pulses of {:g} (base {:g}), value changes at rows {}", ind.other,
+                         ind.base, where);
+      break;
+    default:
+      what = fmt::format("a temporary shift to {:g} (base {:g}), value changes at rows {}",
+                         ind.other, ind.base, where);
+      break;
+  }
+  return fmt::format(
+      "indicator column ({}; rows from 0): screened as an event, not prewhitened; consider "
+      "declaring it as an event",
+      what);
+}
+
+InputScreen screen_input(const std::string& name, bool is_event, const IndicatorInfo& indicator,
+                         const std::vector<double>& u, const std::vector<double>& w, int L,
+                         int ar_cap, const ScreenOptions& opt,
+                         std::vector<ScreenWarning>& warnings) {
   InputScreen s;
   s.name = name;
   s.is_event = is_event;
+  if (!is_event) s.indicator = indicator;
+  const bool deterministic = is_event || s.indicator.shape != IndicatorShape::none;
+  if (s.indicator.shape != IndicatorShape::none) s.notes.push_back(indicator_note(s.indicator));
   s.max_lag = L;
   const int n = static_cast<int>(u.size());
   auto fill_empty = [&](int len) {
@@ -326,15 +360,29 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
   if (is_constant(u)) {
     fill_empty(n);
     s.notes.push_back("constant after differencing: nothing to screen (leave it out)");
-    warnings.push_back({ScreenWarningKind::constant_input, {name},
+    warnings.push_back({ScreenWarningKind::constant_input,
+                        {name},
                         fmt::format("input '{}' is constant after differencing", name)});
     return s;
   }
 
   std::vector<double> alpha, beta;
-  if (is_event) {
+  if (deterministic) {
     alpha = u;
     beta = w;
+    // A step that stays, left after the model's differencing (a step in an undifferenced
+    // model), carries its information in its change: correlated with an autocorrelated target it
+    // smears over every lag near the true delay. One more regular difference of both sides turns
+    // it into a pulse and leaves the impulse response as it is (a common difference commutes with
+    // the transfer function).
+    if (is_single_step(alpha)) {
+      alpha = difference(alpha, Differencing{1, 0, 1});
+      beta = difference(beta, Differencing{1, 0, 1});
+      s.extra_differences = 1;
+      s.notes.push_back(
+          "a step after the model's differencing: screened on one more regular difference of it "
+          "and of the target");
+    }
   } else {
     s.prewhitened = true;
     s.prewhitening = opt.ar_order ? fit_ar(u, *opt.ar_order) : fit_ar_by_aic(u, ar_cap);
@@ -414,7 +462,8 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
       lags += std::to_string(k);
     }
     warnings.push_back(
-        {ScreenWarningKind::feedback, {name},
+        {ScreenWarningKind::feedback,
+         {name},
          fmt::format("input '{}' correlates with the PAST of the target (lags {}): the input may "
                      "respond to the target, so a one-way transfer function is doubtful",
                      name, lags)});
@@ -424,6 +473,66 @@ InputScreen screen_input(const std::string& name, bool is_event, const std::vect
 }
 
 }  // namespace
+
+IndicatorInfo classify_indicator(const std::vector<double>& x) {
+  IndicatorInfo info;
+  if (x.size() < 2) return info;
+  const double a = x.front();
+  double b = a;
+  for (double v : x) {
+    if (!std::isfinite(v)) return info;
+    if (v != a) {
+      if (b == a)
+        b = v;
+      else if (v != b)
+        return info;  // a third value
+    }
+  }
+  if (b == a) return info;  // constant
+  size_t count_b = 0;
+  for (double v : x) count_b += v == b ? 1 : 0;
+  // Majority value as base; for a tie the first value.
+  const double base = 2 * count_b > x.size() ? b : a;
+  const double other = base == a ? b : a;
+  int runs = 0, longest = 0, current = 0;
+  for (size_t t = 0; t < x.size(); ++t) {
+    if (t > 0 && x[t] != x[t - 1]) info.change_rows.push_back(static_cast<int>(t));
+    if (x[t] == other) {
+      if (current == 0) ++runs;
+      longest = std::max(longest, ++current);
+    } else {
+      current = 0;
+    }
+  }
+  info.base = base;
+  info.other = other;
+  if (info.change_rows.size() == 1) {
+    info.shape = IndicatorShape::step;
+    info.base = x.front();  // a step goes from its first value to the other
+    info.other = x.back();
+  } else if (longest == 1) {
+    info.shape = IndicatorShape::pulse;
+  } else if (runs <= 2) {
+    info.shape = IndicatorShape::shift;
+  } else {
+    info.change_rows.clear();  // a two-valued driver that switches often: a continuous input
+  }
+  return info;
+}
+
+std::string_view to_string(IndicatorShape shape) {
+  switch (shape) {
+    case IndicatorShape::none:
+      return "none";
+    case IndicatorShape::step:
+      return "step";
+    case IndicatorShape::pulse:
+      return "pulse";
+    case IndicatorShape::shift:
+      return "shift";
+  }
+  return "unknown";
+}
 
 void ScreenOptions::validate() const {
   auto fail = [](const std::string& what) { throw InputError("screen options: " + what); };
@@ -443,11 +552,16 @@ void ScreenOptions::validate() const {
 
 std::string_view to_string(ScreenWarningKind kind) {
   switch (kind) {
-    case ScreenWarningKind::correlated_inputs: return "correlated_inputs";
-    case ScreenWarningKind::feedback: return "feedback";
-    case ScreenWarningKind::few_observations: return "few_observations";
-    case ScreenWarningKind::lags_capped: return "lags_capped";
-    case ScreenWarningKind::constant_input: return "constant_input";
+    case ScreenWarningKind::correlated_inputs:
+      return "correlated_inputs";
+    case ScreenWarningKind::feedback:
+      return "feedback";
+    case ScreenWarningKind::few_observations:
+      return "few_observations";
+    case ScreenWarningKind::lags_capped:
+      return "lags_capped";
+    case ScreenWarningKind::constant_input:
+      return "constant_input";
   }
   return "unknown";
 }
@@ -476,7 +590,8 @@ ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
   res.n = n;
   if (n < options.min_observations)
     res.warnings.push_back(
-        {ScreenWarningKind::few_observations, {},
+        {ScreenWarningKind::few_observations,
+         {},
          fmt::format("only {} observations after differencing (fewer than {}): correlations and "
                      "suggestions are unreliable",
                      n, options.min_observations)});
@@ -485,7 +600,8 @@ ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
   res.max_lag_used = std::max(L, 1);
   if (L < options.max_lag)
     res.warnings.push_back(
-        {ScreenWarningKind::lags_capped, {},
+        {ScreenWarningKind::lags_capped,
+         {},
          fmt::format("{} lags asked but only {} observations after differencing: lags capped at "
                      "n/4 = {}",
                      options.max_lag, n, res.max_lag_used)});
@@ -499,11 +615,11 @@ ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
   for (size_t i = 0; i < data.inputs.size(); ++i) {
     if (data.inputs[i].size() != data.target.size())
       throw InputError(fmt::format("screen: input '{}' has {} rows, the target {}",
-                                   data.input_names[i], data.inputs[i].size(),
-                                   data.target.size()));
+                                   data.input_names[i], data.inputs[i].size(), data.target.size()));
     us.push_back(difference(data.inputs[i], config.differencing));
     const bool event = input_is_event(config, data.input_names[i]);
-    res.inputs.push_back(screen_input(data.input_names[i], event, us.back(), w,
+    const IndicatorInfo indicator = event ? IndicatorInfo{} : classify_indicator(data.inputs[i]);
+    res.inputs.push_back(screen_input(data.input_names[i], event, indicator, us.back(), w,
                                       res.max_lag_used, ar_cap, options, res.warnings));
   }
 
@@ -587,12 +703,20 @@ nlohmann::json to_json(const ScreenResult& r) {
     inputs.push_back(
         {{"name", s.name},
          {"event", s.is_event},
+         {"indicator", s.indicator.shape == IndicatorShape::none
+                           ? json(nullptr)
+                           : json{{"shape", std::string(to_string(s.indicator.shape))},
+                                  {"base", s.indicator.base},
+                                  {"other", s.indicator.other},
+                                  {"change_rows", s.indicator.change_rows}}},
          {"prewhitened", s.prewhitened},
-         {"prewhitening", {{"order", s.prewhitening.order},
-                           {"mean", s.prewhitening.mean},
-                           {"phi", s.prewhitening.phi},
-                           {"sigma2", s.prewhitening.sigma2},
-                           {"aic", aic}}},
+         {"extra_differences", s.extra_differences},
+         {"prewhitening",
+          {{"order", s.prewhitening.order},
+           {"mean", s.prewhitening.mean},
+           {"phi", s.prewhitening.phi},
+           {"sigma2", s.prewhitening.sigma2},
+           {"aic", aic}}},
          {"n", s.n},
          {"max_lag", s.max_lag},
          {"lags", lags},
@@ -619,12 +743,8 @@ nlohmann::json to_json(const ScreenResult& r) {
   json names = json::array();
   for (const auto& s : r.inputs) names.push_back(s.name);
   out["input_correlation"] = {{"names", names}, {"matrix", r.input_correlation}};
-  out["noise"] = {{"p", r.noise.p},
-                  {"q", r.noise.q},
-                  {"n", r.noise.n},
-                  {"band", r.noise.band},
-                  {"acf", r.noise.acf},
-                  {"pacf", r.noise.pacf},
+  out["noise"] = {{"p", r.noise.p},          {"q", r.noise.q},     {"n", r.noise.n},
+                  {"band", r.noise.band},    {"acf", r.noise.acf}, {"pacf", r.noise.pacf},
                   {"reason", r.noise.reason}};
   json warnings = json::array();
   for (const auto& wv : r.warnings)

@@ -14,6 +14,17 @@
 // Event inputs are deterministic (pulse, step, ramp) and are NOT prewhitened: alpha is the
 // differenced event itself and beta the differenced target, so v_k below is the average target
 // response after the event; their bands assume a roughly uncorrelated target and are rough.
+// An event or indicator that is still a step after the model's differencing (it changes value
+// exactly once: a step in an undifferenced model) is screened on one more regular difference of
+// it and of the target: its information is in its change, and a step against an autocorrelated
+// target otherwise correlates at every lag near the true delay. The impulse response is the same
+// (a common difference commutes with the transfer function); n is one shorter.
+//
+// Indicator columns. A data column (not an event of the config) with exactly two distinct values
+// whose minority value forms at most two runs, or only single-row runs, is indicator-like: a step
+// (one change of value), a pulse (single-row runs) or a temporary shift. It is deterministic like
+// an event, so it is screened as an event is (not prewhitened: an AR model fitted to a step or a
+// pulse whitens away the very change the target responds to), and a note says so.
 //
 // Cross-correlation r(k) = corr(alpha_t, beta_{t+k}) at k = -L..L, L = min(max_lag, n/4); positive
 // k: the input comes first. Per-lag band: +-band_z / sqrt(n'), n' = length of the prewhitened pair.
@@ -65,16 +76,16 @@
 namespace lagsieve {
 
 struct ScreenOptions {
-  int max_lag = 20;               // L asked; capped at n/4 of the differenced length (warning)
-  int ar_max_order = 10;          // cap of the prewhitening AR order chosen by AIC
-  std::optional<int> ar_order;    // fixed prewhitening order instead of AIC
-  double band_z = 2.0;            // per-lag band +-band_z / sqrt(n)
-  double family_level = 0.05;     // family-wise level of the relevance and feedback tests
-  int max_shape_order = 2;        // r and s tried in 0..this
-  int max_noise_order = 3;        // p and q suggested in 0..this
-  int noise_lags = 12;            // ACF/PACF lags inspected for the noise suggestion
-  double collinear = 0.8;         // |corr| of two differenced inputs that triggers a warning
-  int min_observations = 50;      // fewer differenced observations: a warning
+  int max_lag = 20;             // L asked; capped at n/4 of the differenced length (warning)
+  int ar_max_order = 10;        // cap of the prewhitening AR order chosen by AIC
+  std::optional<int> ar_order;  // fixed prewhitening order instead of AIC
+  double band_z = 2.0;          // per-lag band +-band_z / sqrt(n)
+  double family_level = 0.05;   // family-wise level of the relevance and feedback tests
+  int max_shape_order = 2;      // r and s tried in 0..this
+  int max_noise_order = 3;      // p and q suggested in 0..this
+  int noise_lags = 12;          // ACF/PACF lags inspected for the noise suggestion
+  double collinear = 0.8;       // |corr| of two differenced inputs that triggers a warning
+  int min_observations = 50;    // fewer differenced observations: a warning
 
   // Throws InputError naming the option and the rule it breaks.
   void validate() const;
@@ -85,36 +96,51 @@ struct ShapeFit {
   int numerator = 0;    // s
   int denominator = 0;  // r
   double sse = 0.0;
-  double bic = 0.0;     // BIC_v (see above); +inf when there are too few points
+  double bic = 0.0;           // BIC_v (see above); +inf when there are too few points
   std::vector<double> omega;  // omega_0..omega_s
   std::vector<double> delta;  // delta_1..delta_r (delta(B) = 1 - delta_1 B - ...)
 };
 
+// How an indicator-like data column looks (see the rule above); kind none: not indicator-like.
+enum class IndicatorShape { none, step, pulse, shift };
+std::string_view to_string(IndicatorShape shape);
+
+struct IndicatorInfo {
+  IndicatorShape shape = IndicatorShape::none;
+  double base = 0.0, other = 0.0;  // the majority (first, for a step) and the minority value
+  std::vector<int> change_rows;    // 0-based rows where the value changes (before differencing)
+};
+
+// Classifies a raw (undifferenced) data column by the rule above.
+IndicatorInfo classify_indicator(const std::vector<double>& column);
+
 struct InputScreen {
   std::string name;
   bool is_event = false;
-  bool prewhitened = false;        // false for events and constant inputs
-  ArFit prewhitening;              // AR model of the input (order 0 when not prewhitened)
-  int n = 0;                       // length of the prewhitened pair
-  int max_lag = 0;                 // L
+  IndicatorInfo indicator;                // shape none unless a data column is indicator-like
+  bool prewhitened = false;               // false for events, indicator columns and constant inputs
+  ArFit prewhitening;                     // AR model of the input (order 0 when not prewhitened)
+  int extra_differences = 0;              // events and indicators: regular differences added (0..2)
+  int n = 0;                              // length of the prewhitened pair
+  int max_lag = 0;                        // L
   std::vector<double> cross_correlation;  // r(k), k = -L..L at [k + L]
-  double band = 0.0;               // per-lag band
-  double family_band = 0.0;        // Bonferroni band over lags 0..L
-  double feedback_band = 0.0;      // Bonferroni band over lags -L..-1
-  double sd_input = 0.0;           // s_alpha
-  double sd_target = 0.0;          // s_beta
-  std::vector<double> impulse;     // v_0..v_L
-  std::vector<double> impulse_se;  // se of each v_k
-  std::vector<double> impulse_fitted;  // v_0..v_L of the suggested shape (zeros if not relevant)
+  double band = 0.0;                      // per-lag band
+  double family_band = 0.0;               // Bonferroni band over lags 0..L
+  double feedback_band = 0.0;             // Bonferroni band over lags -L..-1
+  double sd_input = 0.0;                  // s_alpha
+  double sd_target = 0.0;                 // s_beta
+  std::vector<double> impulse;            // v_0..v_L
+  std::vector<double> impulse_se;         // se of each v_k
+  std::vector<double> impulse_fitted;     // v_0..v_L of the suggested shape (zeros if not relevant)
   bool relevant = false;
-  int suggested_delay = 0;         // b (irrelevant input: the lag of the largest |r(k)|, k >= 0)
-  int suggested_numerator = 0;     // s
-  int suggested_denominator = 0;   // r
+  int suggested_delay = 0;        // b (irrelevant input: the lag of the largest |r(k)|, k >= 0)
+  int suggested_numerator = 0;    // s
+  int suggested_denominator = 0;  // r
   std::vector<double> suggested_omega;  // omega_0..omega_s of the suggested shape: start values
   std::vector<double> suggested_delta;  // delta_1..delta_r of the suggested shape
-  std::vector<ShapeFit> shapes;    // every (r, s) tried, s fastest
-  std::vector<int> feedback_lags;  // negative lags crossing the feedback band
-  std::vector<std::string> notes;  // one-line findings for this input
+  std::vector<ShapeFit> shapes;         // every (r, s) tried, s fastest
+  std::vector<int> feedback_lags;       // negative lags crossing the feedback band
+  std::vector<std::string> notes;       // one-line findings for this input
 
   double correlation_at(int k) const { return cross_correlation.at(k + max_lag); }
 };
@@ -122,14 +148,20 @@ struct InputScreen {
 struct NoiseSuggestion {
   int p = 0;
   int q = 0;
-  int n = 0;                       // residual length examined
+  int n = 0;  // residual length examined
   double band = 0.0;
-  std::vector<double> acf;         // lags 0..K
-  std::vector<double> pacf;        // lags 1..K
-  std::string reason;              // which branch of the rule decided
+  std::vector<double> acf;   // lags 0..K
+  std::vector<double> pacf;  // lags 1..K
+  std::string reason;        // which branch of the rule decided
 };
 
-enum class ScreenWarningKind { correlated_inputs, feedback, few_observations, lags_capped, constant_input };
+enum class ScreenWarningKind {
+  correlated_inputs,
+  feedback,
+  few_observations,
+  lags_capped,
+  constant_input
+};
 std::string_view to_string(ScreenWarningKind kind);
 
 struct ScreenWarning {
@@ -140,13 +172,13 @@ struct ScreenWarning {
 
 struct ScreenResult {
   std::string target_name;
-  int rows = 0;                     // observations before differencing
-  int n = 0;                        // after differencing
+  int rows = 0;  // observations before differencing
+  int n = 0;     // after differencing
   TargetTransform transform;
   Differencing differencing;
-  ScreenOptions options;            // as given
-  int max_lag_used = 0;             // L after the n/4 cap
-  std::vector<InputScreen> inputs;  // config order
+  ScreenOptions options;                               // as given
+  int max_lag_used = 0;                                // L after the n/4 cap
+  std::vector<InputScreen> inputs;                     // config order
   std::vector<std::vector<double>> input_correlation;  // lag-0 corr of the differenced inputs
   NoiseSuggestion noise;
   std::vector<ScreenWarning> warnings;
