@@ -114,7 +114,8 @@ int run_search_command(const SearchArgs& args) {
                           model, data, config);
   }
   write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(out / run_files::kLeaderboardJson, leaderboard_json(all_rows, config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kLeaderboardJson,
+                    leaderboard_json(all_rows, config, results).dump(2) + "\n");
 
   for (const auto& r : results) {
     int failed = 0;
@@ -135,6 +136,7 @@ int run_search_command(const SearchArgs& args) {
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
     }
+    for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
   }
   const auto report = write_report(out);
   fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());

@@ -39,7 +39,8 @@ std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConf
   return out;
 }
 
-nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config) {
+nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config,
+                                const std::vector<SearchResult>& results) {
   nlohmann::json j;
   j["criterion"] = to_string(config.search.criterion);
   j["n_params_note"] = "n_params counts every estimated parameter, sigma^2 included";
@@ -48,6 +49,14 @@ nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const Run
     auto row = to_json(r);
     for (const auto& in : config.inputs) row["orders"][in.name] = input_cell(r, in.name);
     j["rows"].push_back(row);
+  }
+  if (!results.empty()) {
+    j["series_notes"] = nlohmann::json::array();
+    for (const auto& r : results)
+      j["series_notes"].push_back({{"series", r.series},
+                                   {"sorted_by", r.sorted_by},
+                                   {"leader_reason", r.leader_reason},
+                                   {"warnings", r.warnings}});
   }
   return j;
 }

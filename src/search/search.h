@@ -69,6 +69,11 @@ struct SearchResult {
   double seconds = 0.0;
   std::optional<ScreenResult> screen;  // guided and stepwise
   FitResult leader;                    // the top row re-fitted with standard errors
+  // What the rows are sorted by, why the leader was chosen, and what the run should warn about
+  // (filled by the search, then by the shortlist backtest); shown by the CLI and the report.
+  std::string sorted_by;
+  std::string leader_reason;
+  std::vector<std::string> warnings;
   bool has_leader() const { return leader.usable(); }
 };
 

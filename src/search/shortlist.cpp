@@ -41,6 +41,8 @@ ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& co
   ShortlistBacktest out = shortlist_plan(data, config, search, config.backtest.shortlist, threads);
   if (out.candidates.empty()) return out;
   out.result = run_backtest(data, out.candidates, out.options);
+  search.warnings.insert(search.warnings.end(), out.result.warnings.begin(),
+                         out.result.warnings.end());
 
   // Re-rank: backtested rows by score, then the rest as before.
   std::map<std::string, double> score;
