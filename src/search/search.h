@@ -37,7 +37,8 @@ struct CandidateRow {
   int rank = 0;  // 1 = best; failures ranked last
   // Filled by the backtest stage for the shortlist (NaN elsewhere).
   double backtest_score = std::numeric_limits<double>::quiet_NaN();
-  int backtest_rank = 0;
+  int backtest_rank = 0;  // 1 = lowest backtest score
+  std::string selection;  // its part in the choice of the leader (selection.h), in words
 
   double criterion(Criterion c) const {
     return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic;
@@ -85,6 +86,10 @@ CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int st
 
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options);
+
+// Adds a warning (to the result and to the leader's fit) when the leader's residuals fail a
+// Ljung-Box test at the 1 % level at any lag tested.
+void warn_on_leader_residuals(SearchResult& result);
 
 }  // namespace lagsieve
 
