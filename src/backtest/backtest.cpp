@@ -335,6 +335,7 @@ BacktestResult run_backtest(const SeriesData& data,
     result.origin_times.push_back(data.time.empty() ? std::to_string(origin)
                                                     : data.time[origin - 1]);
   }
+  result.row_times = data.time;
   result.models.resize(candidates.size());
   const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
   tbb::task_arena arena(threads);
@@ -498,6 +499,13 @@ BacktestCandidate seasonal_naive_candidate(int season) {
   return c;
 }
 
+// The target's time stamp of 0-based row `row`, else its 1-based row number.
+std::string target_time(const BacktestResult& r, int row) {
+  return row < static_cast<int>(r.row_times.size()) && !r.row_times[row].empty()
+             ? r.row_times[row]
+             : std::to_string(row + 1);
+}
+
 std::string backtest_csv(const BacktestResult& r) {
   std::string out = "model,mode,origin,origin_time,horizon,time,forecast,actual";
   for (double l : r.levels) out += fmt::format(",lower_{0},upper_{0}", level_name(l));
@@ -510,8 +518,8 @@ std::string backtest_csv(const BacktestResult& r) {
         while (k < r.origins.size() && r.origins[k] != rec.origin) ++k;
         const std::string otime = k < r.origin_times.size() ? r.origin_times[k] : "";
         out += fmt::format("{},{},{},{},{},{},{},{}", csv_field(m.name), mode, rec.origin, otime,
-                           rec.horizon, rec.origin + rec.horizon - 1, csv_number(rec.forecast),
-                           csv_number(rec.actual));
+                           rec.horizon, target_time(r, rec.origin + rec.horizon - 1),
+                           csv_number(rec.forecast), csv_number(rec.actual));
         for (size_t l = 0; l < rec.lower.size(); ++l)
           out += fmt::format(",{},{}", csv_number(rec.lower[l]), csv_number(rec.upper[l]));
         out += "\n";

@@ -96,6 +96,7 @@ struct BacktestResult {
   std::vector<std::string> origin_times;  // time stamp of the origin's last row (1..origin)
   std::vector<int> dropped_origins;
   std::vector<std::string> warnings;
+  std::vector<std::string> row_times;  // the data's time stamps (backtest.csv `time` column)
   std::vector<ModelBacktest> models;  // candidate order
   int leader = -1;                    // best score among non-benchmark models
   std::vector<ComparisonRow> comparisons;

@@ -1234,7 +1234,9 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     const CsvFile& c = *bf.backtest;
     const int cm = c.column("model"), cmode = c.column("mode"), ch = c.column("horizon"),
               cf = c.column("forecast"), ca = c.column("actual");
-    const int ct = c.table().column_index("origin_time");
+    // The forecast's own time stamp (`time`); older folders only have the origin's.
+    const int ct = c.table().column_index("time") >= 0 ? c.table().column_index("time")
+                                                       : c.table().column_index("origin_time");
     const auto lowers = c.level_columns("lower_");
     const auto uppers = c.level_columns("upper_");
     std::vector<double> x, fcast, actual;
