@@ -7,9 +7,11 @@
 #include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
+#include <set>
 
 #include "core/error.h"
 #include "core/names.h"
+#include "data/events.h"
 #include "evaluation/distributions.h"
 #include "forecast/forecast.h"
 #include "io/csv.h"
@@ -101,6 +103,8 @@ void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int 
   add_records(out.oracle, origin, f, data, scale);
 }
 
+void score_model(ModelBacktest& m, const BacktestOptions& o);
+
 ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
                            const BacktestOptions& o, const std::vector<int>& origins) {
   ModelBacktest out;
@@ -132,6 +136,8 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       }
       if (!current) {
         ++out.failed_origins;
+        out.failed_at.push_back(origin);
+        if (out.note.empty()) out.note = "no usable fit from the window before this origin";
         continue;
       }
       ForecastOptions fo;
@@ -153,17 +159,112 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       add_records(out.oracle, origin, forecast(*current, window, oracle, fo), data, scale);
     } catch (const std::exception& e) {
       ++out.failed_origins;
-      out.note = e.what();
+      out.failed_at.push_back(origin);
+      if (out.note.empty()) out.note = e.what();
     }
   }
-  if (!out.production.records.empty()) {
-    out.production_accuracy = accuracy_table(out.production);
-    out.oracle_accuracy = accuracy_table(out.oracle);
-    out.score = backtest_score(out.production_accuracy, o.score);
+  score_model(out, o);
+  return out;
+}
+
+void score_model(ModelBacktest& m, const BacktestOptions& o) {
+  if (!m.production.records.empty()) {
+    m.production_accuracy = accuracy_table(m.production);
+    m.oracle_accuracy = accuracy_table(m.oracle);
+    m.score = backtest_score(m.production_accuracy, o.score);
   } else {
-    out.score = std::numeric_limits<double>::quiet_NaN();
+    m.production_accuracy = {};
+    m.oracle_accuracy = {};
+    m.score = std::numeric_limits<double>::quiet_NaN();
+  }
+}
+
+// "120, 123, 126" or "120..168 (17 origins)" for a run of equal steps.
+std::string origin_list(const std::vector<int>& v, int step) {
+  if (v.size() > 4) {
+    bool regular = true;
+    for (size_t i = 1; i < v.size(); ++i) regular = regular && v[i] - v[i - 1] == step;
+    if (regular) return fmt::format("{}..{} every {}", v.front(), v.back(), step);
+  }
+  std::string out;
+  for (size_t i = 0; i < v.size(); ++i) {
+    if (i == 6 && v.size() > 7) return out + fmt::format(", ... ({} in all)", v.size());
+    out += (i ? ", " : "") + std::to_string(v[i]);
   }
   return out;
+}
+
+// Keeps in every model only the origins every model forecast from (models that forecast from
+// no origin at all are failures and do not restrict the others), re-scores, and says why.
+void score_on_common_origins(BacktestResult& result, const BacktestOptions& o,
+                             const SeriesData& data) {
+  std::vector<std::set<int>> from(result.models.size());
+  for (size_t i = 0; i < result.models.size(); ++i) {
+    for (const auto& r : result.models[i].production.records) from[i].insert(r.origin);
+    std::set<int> oracle;
+    for (const auto& r : result.models[i].oracle.records) oracle.insert(r.origin);
+    std::erase_if(from[i], [&](int origin) { return !oracle.count(origin); });
+  }
+  std::vector<int> common, dropped;
+  for (int origin : result.origins) {
+    bool all = true;
+    for (const auto& f : from) all = all && (f.empty() || f.count(origin));
+    (all ? common : dropped).push_back(origin);
+  }
+  for (size_t i = 0; i < result.models.size(); ++i)
+    if (from[i].empty())
+      result.warnings.push_back(fmt::format(
+          "backtest: {} forecast from none of the {} origins and is left out of the comparison: {}",
+          result.models[i].name, result.origins.size(), result.models[i].note));
+  if (dropped.empty()) return;
+  const std::set<int> keep(common.begin(), common.end());
+  for (auto& m : result.models) {
+    for (auto* recs : {&m.production, &m.oracle})
+      std::erase_if(recs->records, [&](const ForecastRecord& r) { return !keep.count(r.origin); });
+    score_model(m, o);
+  }
+  // The cause: the models that failed at a dropped origin, grouped by their first failure.
+  std::vector<std::pair<std::string, std::vector<std::string>>> causes;  // message -> models
+  for (size_t i = 0; i < result.models.size(); ++i) {
+    const auto& m = result.models[i];
+    if (from[i].empty()) continue;
+    int count = 0;
+    for (int origin : dropped) count += from[i].count(origin) ? 0 : 1;
+    if (count == 0) continue;
+    const std::string why = m.note.empty() ? "no usable fit" : m.note;
+    auto it =
+        std::find_if(causes.begin(), causes.end(), [&](const auto& c) { return c.first == why; });
+    if (it == causes.end()) it = causes.insert(causes.end(), {why, {}});
+    it->second.push_back(fmt::format("{} ({} origins)", m.name, count));
+  }
+  std::string causes_text;
+  for (const auto& [why, models] : causes) {
+    std::string names;
+    for (size_t i = 0; i < models.size() && i < 3; ++i) names += (i ? "; " : "") + models[i];
+    if (models.size() > 3) names += fmt::format("; and {} more", models.size() - 3);
+    causes_text += fmt::format("{}{} could not forecast from them: {}",
+                               causes_text.empty() ? "" : ". ", names, why);
+  }
+  std::string warning = fmt::format(
+      "backtest: {} of {} origins ({}) dropped for every model and benchmark, so all are scored on "
+      "the same {} origins: {}",
+      dropped.size(), result.origins.size(), origin_list(dropped, o.step), common.size(),
+      causes_text);
+  // Leading origins dropped (an event after the first origin, typically): where to start instead.
+  if (!common.empty() && dropped.front() == result.origins.front()) {
+    const int first = common.front();
+    warning += fmt::format(
+        ". The first origin from which every model forecasts is {} (window rows 1..{}{}); set "
+        "backtest.first_origin: {} to start there",
+        first, first, data.time.empty() ? "" : ", up to " + data.time[first - 1], first);
+  }
+  result.warnings.push_back(warning);
+  result.dropped_origins = dropped;
+  std::vector<std::string> times;
+  for (size_t k = 0; k < result.origins.size(); ++k)
+    if (keep.count(result.origins[k])) times.push_back(result.origin_times[k]);
+  result.origins = common;
+  result.origin_times = times;
 }
 
 std::string level_name(double level) { return fmt::format("{:g}", 100.0 * level); }
@@ -211,6 +312,19 @@ BacktestOptions backtest_options(const RunConfig& config, int rows) {
   return o;
 }
 
+std::vector<EventOriginBound> event_origin_bounds(const RunConfig& config, const SeriesData& data,
+                                                  int first_origin) {
+  std::vector<EventOriginBound> out;
+  for (const auto& ic : config.inputs) {
+    if (!ic.is_event) continue;
+    const int row = event_row(ic, data.time, config.config_file.filename().string());
+    const int needed = row + ic.delay.max + ic.numerator.max + ic.denominator.max + 1;
+    if (needed <= first_origin) continue;
+    out.push_back({ic.name, row + 1, data.time.empty() ? std::string() : data.time[row], needed});
+  }
+  return out;
+}
+
 BacktestResult run_backtest(const SeriesData& data,
                             const std::vector<BacktestCandidate>& candidates,
                             const BacktestOptions& options) {
@@ -218,8 +332,10 @@ BacktestResult run_backtest(const SeriesData& data,
   result.levels = options.levels;
   for (int origin = options.first_origin; origin < data.rows(); origin += options.step) {
     result.origins.push_back(origin);
-    result.origin_times.push_back(data.time.empty() ? std::to_string(origin) : data.time[origin]);
+    result.origin_times.push_back(data.time.empty() ? std::to_string(origin)
+                                                    : data.time[origin - 1]);
   }
+  result.row_times = data.time;
   result.models.resize(candidates.size());
   const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
   tbb::task_arena arena(threads);
@@ -228,6 +344,7 @@ BacktestResult run_backtest(const SeriesData& data,
       result.models[i] = backtest_one(data, candidates[i], options, result.origins);
     });
   });
+  score_on_common_origins(result, options, data);
   double best = std::numeric_limits<double>::infinity();
   for (size_t i = 0; i < result.models.size(); ++i)
     if (!result.models[i].benchmark && std::isfinite(result.models[i].score) &&
@@ -251,12 +368,29 @@ std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
     for (const auto& r : lead.production.records) max_h = std::max(max_h, r.horizon);
     for (int h = 1; h <= max_h; ++h) {
       const auto losses = paired_losses(lead.production, other.production, h, LossKind::squared);
-      // The test needs more pairs than the horizon (the HAC variance uses h - 1 lags).
-      if (losses.loss_a.size() < static_cast<size_t>(h) + 3) continue;
-      DieboldMarianoOptions dmo;
-      dmo.horizon = h;
-      rows.push_back({lead.name, other.name, h, "squared",
-                      diebold_mariano(losses.loss_a, losses.loss_b, dmo)});
+      ComparisonRow row;
+      row.leader = lead.name;
+      row.challenger = other.name;
+      row.horizon = h;
+      const int n = static_cast<int>(losses.loss_a.size());
+      // The test needs more pairs than the horizon (the long-run variance uses h - 1 lags).
+      if (n < h + 3) {
+        row.tested = false;
+        row.test.n = n;
+        row.test.statistic = row.test.p_value = row.test.mean_difference = std::nan("");
+        row.note = fmt::format(
+            "not tested: {} paired forecasts at horizon {}, the test needs at least {} (h + 3: its "
+            "variance uses {} autocovariances); more origins (a smaller backtest.step or an "
+            "earlier "
+            "first_origin) test more horizons",
+            n, h, h + 3, h - 1);
+      } else {
+        DieboldMarianoOptions dmo;
+        dmo.horizon = h;
+        row.test = diebold_mariano(losses.loss_a, losses.loss_b, dmo);
+        row.note = row.test.note;
+      }
+      rows.push_back(std::move(row));
     }
   }
   return rows;
@@ -365,6 +499,13 @@ BacktestCandidate seasonal_naive_candidate(int season) {
   return c;
 }
 
+// The target's time stamp of 0-based row `row`, else its 1-based row number.
+std::string target_time(const BacktestResult& r, int row) {
+  return row < static_cast<int>(r.row_times.size()) && !r.row_times[row].empty()
+             ? r.row_times[row]
+             : std::to_string(row + 1);
+}
+
 std::string backtest_csv(const BacktestResult& r) {
   std::string out = "model,mode,origin,origin_time,horizon,time,forecast,actual";
   for (double l : r.levels) out += fmt::format(",lower_{0},upper_{0}", level_name(l));
@@ -377,8 +518,8 @@ std::string backtest_csv(const BacktestResult& r) {
         while (k < r.origins.size() && r.origins[k] != rec.origin) ++k;
         const std::string otime = k < r.origin_times.size() ? r.origin_times[k] : "";
         out += fmt::format("{},{},{},{},{},{},{},{}", csv_field(m.name), mode, rec.origin, otime,
-                           rec.horizon, rec.origin + rec.horizon - 1, csv_number(rec.forecast),
-                           csv_number(rec.actual));
+                           rec.horizon, target_time(r, rec.origin + rec.horizon - 1),
+                           csv_number(rec.forecast), csv_number(rec.actual));
         for (size_t l = 0; l < rec.lower.size(); ++l)
           out += fmt::format(",{},{}", csv_number(rec.lower[l]), csv_number(rec.upper[l]));
         out += "\n";
@@ -411,15 +552,18 @@ std::string accuracy_csv(const BacktestResult& r) {
 }
 
 std::string comparisons_csv(const BacktestResult& r) {
-  std::string out = "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n";
+  std::string out =
+      "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status,note\n";
   for (const auto& c : r.comparisons)
     out +=
-        fmt::format("{},{},{},{},{},{},{},{},{}\n", csv_field(c.leader), csv_field(c.challenger),
+        fmt::format("{},{},{},{},{},{},{},{},{},{}\n", csv_field(c.leader), csv_field(c.challenger),
                     c.horizon, c.loss, c.test.n, csv_number(c.test.mean_difference),
                     csv_number(c.test.statistic), csv_number(c.test.p_value),
-                    c.test.status == DieboldMarianoStatus::ok                  ? "ok"
+                    !c.tested                                                  ? "not_tested"
+                    : c.test.status == DieboldMarianoStatus::ok                ? "ok"
                     : c.test.status == DieboldMarianoStatus::variance_fallback ? "variance_fallback"
-                                                                               : "degenerate");
+                                                                               : "degenerate",
+                    csv_field(c.note));
   return out;
 }
 

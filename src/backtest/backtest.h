@@ -31,6 +31,20 @@ struct BacktestOptions {
 // Validated options from the config (InputError naming the backtest key otherwise).
 BacktestOptions backtest_options(const RunConfig& config, int rows);
 
+// An event can only be estimated from a window that holds rows where it is active: the first
+// origin at which every candidate of the config's grid that includes `event` can be fitted is
+// at least event row + largest delay + numerator + denominator + 1 (the event's first active
+// row in the window must leave every lag of its transfer function one row). One entry per event
+// of the config whose bound lies after the configured first origin.
+struct EventOriginBound {
+  std::string event;
+  int event_row = 0;  // 1-based row of the data where the event starts
+  std::string event_time;
+  int first_origin = 0;  // the smallest origin that can estimate it (backtest.first_origin)
+};
+std::vector<EventOriginBound> event_origin_bounds(const RunConfig& config, const SeriesData& data,
+                                                  int first_origin);
+
 // One model to backtest: a spec fitted at the origins, a fixed model (model files), or the
 // seasonal naive benchmark.
 struct BacktestCandidate {
@@ -51,16 +65,19 @@ struct ModelBacktest {
   ForecastRecords oracle;               // inputs' real future
   AccuracyTable production_accuracy;
   AccuracyTable oracle_accuracy;
-  double score = 0.0;                   // production, mean over horizons of the chosen measure
-  int failed_origins = 0;               // origins where the fit or forecast failed
-  std::string note;
+  double score = 0.0;          // production, mean over horizons of the chosen measure
+  int failed_origins = 0;      // origins where the fit or forecast failed
+  std::vector<int> failed_at;  // those origins, in order
+  std::string note;            // the first failure's cause
 };
 
 struct ComparisonRow {
   std::string leader, challenger;
   int horizon = 0;
   std::string loss = "squared";
+  bool tested = true;  // false: too few pairs at this horizon (see note)
   DieboldMarianoResult test;
+  std::string note;  // why the test was not run, or its fallback, in words
 };
 
 struct InputValueRow {
@@ -71,10 +88,17 @@ struct InputValueRow {
 };
 
 struct BacktestResult {
+  // The origins every model and benchmark is scored on (an origin is the number of rows before
+  // the first forecast: the window is rows 1..origin, 1-based). Origins some candidate could not
+  // forecast from are dropped for all (dropped_origins) so every table, chart and test compares
+  // the same forecasts; `warnings` names the cause and the count.
   std::vector<int> origins;
-  std::vector<std::string> origin_times;
-  std::vector<ModelBacktest> models;    // candidate order
-  int leader = -1;                      // best score among non-benchmark models
+  std::vector<std::string> origin_times;  // time stamp of the origin's last row (1..origin)
+  std::vector<int> dropped_origins;
+  std::vector<std::string> warnings;
+  std::vector<std::string> row_times;  // the data's time stamps (backtest.csv `time` column)
+  std::vector<ModelBacktest> models;  // candidate order
+  int leader = -1;                    // best score among non-benchmark models
   std::vector<ComparisonRow> comparisons;
   std::vector<InputValueRow> input_value;
   std::vector<double> levels;

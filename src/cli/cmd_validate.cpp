@@ -5,6 +5,7 @@
 #include <memory>
 #include <string>
 
+#include "backtest/backtest.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "core/names.h"
@@ -41,7 +42,7 @@ int validate(const std::string& path) {
     std::string kind = "column";
     if (in.is_event)
       kind = fmt::format("{} event at {} (row {})", to_string(in.shape), in.at,
-                         event_row(in, first.time, c.config_file.string()));
+                         event_row(in, first.time, c.config_file.string()) + 1);
     fmt::print("input      {}: {}; delay {}, numerator {}, denominator {}{}, future {}\n", in.name,
                kind, range(in.delay), range(in.numerator), range(in.denominator),
                in.optional ? ", optional" : "", to_string(in.future));
@@ -49,8 +50,23 @@ int validate(const std::string& path) {
   fmt::print("noise      ar {}, ma {}, seasonal ar {}, seasonal ma {}, period {}, constant {}\n",
              range(c.noise.ar), range(c.noise.ma), range(c.noise.seasonal_ar),
              range(c.noise.seasonal_ma), c.noise.period, to_string(c.noise.constant));
-  fmt::print("grid       {} candidate models; the largest needs {} rows\n",
-             candidate_grid_size(c), min_rows_needed(c));
+  fmt::print("grid       {} candidate models; the largest needs {} rows\n", candidate_grid_size(c),
+             min_rows_needed(c));
+  if (c.backtest.enabled) {
+    const BacktestOptions bo = backtest_options(c, first.rows());
+    const int last = bo.first_origin + (first.rows() - 1 - bo.first_origin) / bo.step * bo.step;
+    fmt::print(
+        "backtest   origins {}..{} every {} (origin n: the window is rows 1..n), horizon {}\n",
+        bo.first_origin, last, bo.step, bo.horizon);
+    for (const auto& e : event_origin_bounds(c, first, bo.first_origin))
+      fmt::print(
+          "warning    backtest: event '{}' starts at row {}{}, after the first origin {}: windows "
+          "before origin {} cannot estimate it, so those origins will be dropped for every model "
+          "and benchmark; set backtest.first_origin: {} to start where every candidate can be "
+          "fitted\n",
+          e.event, e.event_row, e.event_time.empty() ? "" : " (" + e.event_time + ")",
+          bo.first_origin, e.first_origin, e.first_origin);
+  }
   fmt::print("output     {}\n", c.output.dir.string());
   fmt::print("valid\n");
   return kExitOk;

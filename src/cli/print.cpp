@@ -31,8 +31,9 @@ std::string num(double v, int digits = 4) {
 
 void print_fit(const FitResult& fit, const SeriesData& data) {
   fmt::print("{} · {}\n", data.target_name, model_label(fit.spec));
-  fmt::print("{} rows; {} differenced observations inside the likelihood (from index {})\n",
-             data.rows(), fit.n_obs, fit.start);
+  const bool differenced = fit.spec.differencing.regular > 0 || fit.spec.differencing.seasonal > 0;
+  fmt::print("{} rows; {} {}observations inside the likelihood (from row {})\n", data.rows(),
+             fit.n_obs, differenced ? "differenced " : "", fit.start + 1);
   fmt::print("status: {} — {}\n\n", to_string(fit.status), fit.message);
   fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", "parameter", "estimate", "std. error", "ratio");
   for (const auto& e : fit.estimates)

@@ -115,20 +115,23 @@ int run_search_command(const SearchArgs& args) {
                           model, data, config);
   }
   write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(out / run_files::kLeaderboardJson, leaderboard_json(all_rows, config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kLeaderboardJson,
+                    leaderboard_json(all_rows, config, results).dump(2) + "\n");
 
   for (const auto& r : results) {
     int failed = 0;
     for (const auto& row : r.rows) failed += row.rankable() ? 0 : 1;
-    fmt::print("{} · {} strategy, {} candidates ({} fitted, {} from the journal, {} not usable) in "
-               "{:.1f} s; ranked by {} on {} common observations\n",
-               r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
-               r.seconds, to_string(config.search.criterion), r.rows.empty() ? 0 : r.rows.front().n_obs);
+    fmt::print(
+        "{} · {} strategy, {} candidates ({} fitted, {} from the journal, {} not usable) in "
+        "{:.1f} s on {} common observations; rows: {}\n",
+        r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
+        r.seconds, r.rows.empty() ? 0 : r.rows.front().n_obs, r.sorted_by);
     const size_t shown = std::min<size_t>(r.rows.size(), 10);
     size_t width = 5;  // the model column fits the longest label shown
     for (size_t i = 0; i < shown; ++i) width = std::max(width, r.rows[i].key.size());
     fmt::print("  {:>4}  {:<{}} {:>11} {:>9} {:>8} {:>9}  {}\n", "rank", "model", width,
-               to_string(config.search.criterion), "loglik", "LB p", "backtest", "status");
+               to_string(config.search.criterion), "loglik", "LB p", "bt " + config.backtest.score,
+               "status");
     for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
       fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
@@ -136,6 +139,8 @@ int run_search_command(const SearchArgs& args) {
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
     }
+    if (!r.leader_reason.empty()) fmt::print("  leader: {}\n", r.leader_reason);
+    for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
   }
   const auto report = write_report(out);
   fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());

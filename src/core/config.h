@@ -86,6 +86,12 @@ struct BacktestConfig {
   int shortlist = 10;
   std::vector<double> levels{0.8, 0.95};
   std::string score = "mase";               // mase | rmse | mae | interval_score
+  // How the leader is chosen from the backtested shortlist (src/search/selection.h):
+  // simplest_within_noise (default) | best_score; the one-sided Diebold-Mariano level of
+  // "significantly worse than the best"; the fit statuses that may lead.
+  std::string selection = "simplest_within_noise";
+  double selection_level = 0.05;
+  std::vector<std::string> leader_statuses{"ok", "no_convergence"};
 };
 
 struct ForecastConfig {

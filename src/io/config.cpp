@@ -269,7 +269,7 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
   if (node.IsNull()) return;  // `backtest:` alone switches it on with the defaults
   rd.check_map(node, "backtest",
                {"first_origin", "step", "horizon", "window", "window_length", "refit", "shortlist",
-                "levels", "score"});
+                "levels", "score", "selection", "selection_level", "leader_statuses"});
   if (const auto n = node["first_origin"]) bt.first_origin = rd.get_int(n, "backtest.first_origin");
   if (const auto n = node["step"]) bt.step = rd.get_int(n, "backtest.step", 1);
   if (const auto n = node["horizon"]) bt.horizon = rd.get_int(n, "backtest.horizon", 1);
@@ -291,6 +291,30 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
               fmt::format("unknown value '{}'; {}choose one of: {}", bt.score,
                           guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
                           join_comma(scores)));
+    }
+  }
+  if (const auto n = node["selection"]) {
+    const std::vector<std::string> rules{"simplest_within_noise", "best_score"};
+    bt.selection = rd.get_string(n, "backtest.selection");
+    if (std::find(rules.begin(), rules.end(), bt.selection) == rules.end())
+      rd.fail(
+          n, "backtest.selection",
+          fmt::format("unknown value '{}'; choose one of: {}", bt.selection, join_comma(rules)));
+  }
+  if (const auto n = node["selection_level"]) {
+    bt.selection_level = rd.get_double(n, "backtest.selection_level");
+    if (!(bt.selection_level > 0.0 && bt.selection_level < 0.5))
+      rd.fail(n, "backtest.selection_level", "must lie strictly between 0 and 0.5 (default 0.05)");
+  }
+  if (const auto n = node["leader_statuses"]) {
+    const std::vector<std::string> allowed{"ok", "no_convergence", "boundary"};
+    bt.leader_statuses.clear();
+    for (size_t i = 0; i < n.size(); ++i) {
+      const std::string v = rd.get_string(n[i], fmt::format("backtest.leader_statuses[{}]", i));
+      if (std::find(allowed.begin(), allowed.end(), v) == allowed.end())
+        rd.fail(n[i], "backtest.leader_statuses",
+                fmt::format("'{}' cannot lead; choose among: {}", v, join_comma(allowed)));
+      bt.leader_statuses.push_back(v);
     }
   }
 }

@@ -188,9 +188,16 @@ struct LeaderboardRow {
   int n_obs = 0;
 };
 
+// Per series: what the rows are sorted by, why the leader was chosen, the run's warnings.
+struct SeriesNote {
+  std::string sorted_by, leader_reason;
+  std::vector<std::string> warnings;
+};
+
 struct Leaderboard {
   std::string criterion;  // "aic", "aicc" or "bic"
   std::vector<LeaderboardRow> rows;
+  std::map<std::string, SeriesNote> notes;  // by series (leaderboards without notes: empty)
 };
 
 Leaderboard read_leaderboard(const fs::path& file) {
@@ -226,6 +233,18 @@ Leaderboard read_leaderboard(const fs::path& file) {
     row.n_obs = std::isfinite(n) ? static_cast<int>(n) : 0;
     lb.rows.push_back(std::move(row));
   }
+  if (doc.contains("series_notes") && doc["series_notes"].is_array())
+    for (size_t i = 0; i < doc["series_notes"].size(); ++i) {
+      const json& n = doc["series_notes"][i];
+      const std::string path = fmt::format("series_notes[{}].", i);
+      SeriesNote note;
+      note.sorted_by = f.text(n, "sorted_by", path);
+      note.leader_reason = f.text(n, "leader_reason", path);
+      if (n.contains("warnings"))
+        for (const auto& w : f.array(n, "warnings", path))
+          note.warnings.push_back(w.is_string() ? w.get<std::string>() : w.dump());
+      lb.notes[f.text(n, "series", path)] = std::move(note);
+    }
   return lb;
 }
 
@@ -788,13 +807,24 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
   s.heading = "Leaderboard" + b.suffix(sf);
   const bool backtested = std::any_of(sf.rows.begin(), sf.rows.end(),
                                       [](const LeaderboardRow& r) { return std::isfinite(r.backtest_score); });
+  const auto note = lb.notes.find(sf.name);
+  const bool has_note = note != lb.notes.end() && !note->second.sorted_by.empty();
   s.intro = fmt::format(
       "{}\u0394 {} is the distance to the lowest {}: below about 2 the data hardly tell two models "
       "apart. Click a column heading to sort.",
-      backtested ? fmt::format("The shortlist is ranked by its backtest score (lower is better), the "
-                               "other candidates by {} after it. ", crit)
-                 : fmt::format("Candidates ranked by {} (lower is better). ", crit),
+      has_note ? fmt::format("Rows: {}. ", note->second.sorted_by)
+      : backtested
+          ? fmt::format("The shortlist is ranked by its backtest score (lower is better), the "
+                        "other candidates by {} after it. ",
+                        crit)
+          : fmt::format("Candidates ranked by {} (lower is better). ", crit),
       crit, crit);
+  if (note != lb.notes.end()) {
+    if (!note->second.leader_reason.empty())
+      s.blocks.push_back(HtmlNotice{Tone::neutral, "Why this leader", note->second.leader_reason});
+    for (const auto& w : note->second.warnings)
+      s.blocks.push_back(HtmlNotice{Tone::warning, "Warning", w});
+  }
   double best = kNaN;
   for (const auto& r : sf.rows)
     if (std::isfinite(r.criterion) && !(best <= r.criterion)) best = r.criterion;
@@ -1204,7 +1234,9 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     const CsvFile& c = *bf.backtest;
     const int cm = c.column("model"), cmode = c.column("mode"), ch = c.column("horizon"),
               cf = c.column("forecast"), ca = c.column("actual");
-    const int ct = c.table().column_index("origin_time");
+    // The forecast's own time stamp (`time`); older folders only have the origin's.
+    const int ct = c.table().column_index("time") >= 0 ? c.table().column_index("time")
+                                                       : c.table().column_index("origin_time");
     const auto lowers = c.level_columns("lower_");
     const auto uppers = c.level_columns("upper_");
     std::vector<double> x, fcast, actual;

@@ -440,8 +440,10 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
       } else {
         cc.vs_refit.statistic = kNaN;
       }
-      rows.push_back({deployed.name, chal.name, h, "squared", cc.vs_deployed});
-      rows.push_back({refit_bt.name, chal.name, h, "squared", cc.vs_refit});
+      rows.push_back(
+          {deployed.name, chal.name, h, "squared", true, cc.vs_deployed, cc.vs_deployed.note});
+      rows.push_back({refit_bt.name, chal.name, h, "squared", std::isfinite(cc.vs_refit.statistic),
+                      cc.vs_refit, cc.vs_refit.note});
       ch.by_horizon.push_back(cc);
     }
     // The challenger on all rows, with its new-period accuracy as the next baseline.

@@ -24,22 +24,24 @@ std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConf
   for (const auto& in : config.inputs) out += "," + csv_field(in.name);
   out +=
       ",p,q,seasonal_p,seasonal_q,constant,loglik,n_obs,n_params,aic,aicc,bic,ljung_box_p,"
-      "status,fit_seconds,backtest_score,backtest_rank,message\n";
+      "status,fit_seconds,backtest_score,backtest_rank,selection,message\n";
   for (const auto& r : rows) {
     out += fmt::format("{},{},{}", csv_field(r.series), r.rank, csv_field(r.key));
     for (const auto& in : config.inputs) out += "," + input_cell(r, in.name);
-    out += fmt::format(
-        ",{},{},{},{},{},{},{},{},{},{},{},{},{},{:.4f},{},{},{}\n", r.spec.noise.p, r.spec.noise.q,
-        r.spec.noise.seasonal_p, r.spec.noise.seasonal_q, r.spec.constant ? "yes" : "no",
-        csv_number(r.loglik), r.n_obs, r.n_params, csv_number(r.aic), csv_number(r.aicc),
-        csv_number(r.bic), csv_number(r.ljung_box_p), to_string(r.status), r.seconds,
-        csv_number(r.backtest_score), r.backtest_rank > 0 ? std::to_string(r.backtest_rank) : "",
-        csv_field(r.message));
+    out += fmt::format(",{},{},{},{},{},{},{},{},{},{},{},{},{},{:.4f},{},{},{},{}\n",
+                       r.spec.noise.p, r.spec.noise.q, r.spec.noise.seasonal_p,
+                       r.spec.noise.seasonal_q, r.spec.constant ? "yes" : "no",
+                       csv_number(r.loglik), r.n_obs, r.n_params, csv_number(r.aic),
+                       csv_number(r.aicc), csv_number(r.bic), csv_number(r.ljung_box_p),
+                       to_string(r.status), r.seconds, csv_number(r.backtest_score),
+                       r.backtest_rank > 0 ? std::to_string(r.backtest_rank) : "",
+                       csv_field(r.selection), csv_field(r.message));
   }
   return out;
 }
 
-nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config) {
+nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config,
+                                const std::vector<SearchResult>& results) {
   nlohmann::json j;
   j["criterion"] = to_string(config.search.criterion);
   j["n_params_note"] = "n_params counts every estimated parameter, sigma^2 included";
@@ -48,6 +50,14 @@ nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const Run
     auto row = to_json(r);
     for (const auto& in : config.inputs) row["orders"][in.name] = input_cell(r, in.name);
     j["rows"].push_back(row);
+  }
+  if (!results.empty()) {
+    j["series_notes"] = nlohmann::json::array();
+    for (const auto& r : results)
+      j["series_notes"].push_back({{"series", r.series},
+                                   {"sorted_by", r.sorted_by},
+                                   {"leader_reason", r.leader_reason},
+                                   {"warnings", r.warnings}});
   }
   return j;
 }

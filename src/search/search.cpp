@@ -6,6 +6,7 @@
 #include <tbb/task_arena.h>
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 #include <algorithm>
 #include <chrono>
 #include <cmath>
@@ -69,6 +70,7 @@ json to_json(const CandidateRow& r) {
     j["backtest_score"] = r.backtest_score;
     j["backtest_rank"] = r.backtest_rank;
   }
+  if (!r.selection.empty()) j["selection"] = r.selection;
   return j;
 }
 
@@ -259,12 +261,53 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   result.resumed = evaluator.resumed();
   rank_rows(result.rows, config.search.criterion);
 
-  if (!result.rows.empty() && result.rows.front().rankable()) {
+  // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;
+  // boundary and rejected fits do not by default), moved to the front. A shortlist backtest
+  // re-chooses it (selection.h).
+  const auto may_lead = [&](const CandidateRow& row) {
+    return std::find(config.backtest.leader_statuses.begin(), config.backtest.leader_statuses.end(),
+                     to_string(row.status)) != config.backtest.leader_statuses.end();
+  };
+  const auto lead = std::find_if(result.rows.begin(), result.rows.end(), may_lead);
+  result.sorted_by = fmt::format("by {} (lower is better)", to_string(config.search.criterion));
+  if (lead != result.rows.end()) {
+    if (lead != result.rows.begin()) {
+      std::rotate(result.rows.begin(), lead, lead + 1);
+      for (size_t i = 0; i < result.rows.size(); ++i) result.rows[i].rank = static_cast<int>(i) + 1;
+      result.sorted_by = fmt::format("rank 1 is the leader; then by {} (lower is better)",
+                                     to_string(config.search.criterion));
+    }
+    result.leader_reason = fmt::format(
+        "{} has the lowest {} among the fits whose status may lead ({})", result.rows.front().key,
+        to_string(config.search.criterion), fmt::join(config.backtest.leader_statuses, ", "));
     const auto problem = make_problem(data, result.rows.front().spec, result.start);
     result.leader = fit_model(problem);
+    warn_on_leader_residuals(result);
+  } else {
+    result.leader_reason = "no candidate with a status that may lead";
   }
   result.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return result;
+}
+
+void warn_on_leader_residuals(SearchResult& result) {
+  if (!result.has_leader()) return;
+  const std::string prefix = "leader_residuals_autocorrelated";
+  // A leader re-chosen by the backtest replaces the warning about the previous one.
+  std::erase_if(result.warnings, [&](const std::string& w) { return w.rfind(prefix, 0) == 0; });
+  for (const auto& w : result.leader.diagnostics.warnings)
+    if (w.rfind(prefix, 0) == 0) return;
+  for (const auto& lb : result.leader.diagnostics.ljung_box)
+    if (std::isfinite(lb.p_value) && lb.p_value < 0.01) {
+      const std::string w = fmt::format(
+          "{}: the leader's residuals fail the Ljung-Box test at 1 % (Q = {:.2f} up to lag {}, df "
+          "{}, p = {:.2g}): "
+          "autocorrelation is left, so its intervals are too narrow; try more noise terms",
+          prefix, lb.statistic, lb.lag, lb.df, lb.p_value);
+      result.warnings.push_back(w);
+      result.leader.diagnostics.warnings.push_back(w);
+      return;
+    }
 }
 
 }  // namespace lagsieve

@@ -37,7 +37,8 @@ struct CandidateRow {
   int rank = 0;  // 1 = best; failures ranked last
   // Filled by the backtest stage for the shortlist (NaN elsewhere).
   double backtest_score = std::numeric_limits<double>::quiet_NaN();
-  int backtest_rank = 0;
+  int backtest_rank = 0;  // 1 = lowest backtest score
+  std::string selection;  // its part in the choice of the leader (selection.h), in words
 
   double criterion(Criterion c) const {
     return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic;
@@ -69,6 +70,11 @@ struct SearchResult {
   double seconds = 0.0;
   std::optional<ScreenResult> screen;  // guided and stepwise
   FitResult leader;                    // the top row re-fitted with standard errors
+  // What the rows are sorted by, why the leader was chosen, and what the run should warn about
+  // (filled by the search, then by the shortlist backtest); shown by the CLI and the report.
+  std::string sorted_by;
+  std::string leader_reason;
+  std::vector<std::string> warnings;
   bool has_leader() const { return leader.usable(); }
 };
 
@@ -80,6 +86,10 @@ CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int st
 
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options);
+
+// Adds a warning (to the result and to the leader's fit) when the leader's residuals fail a
+// Ljung-Box test at the 1 % level at any lag tested.
+void warn_on_leader_residuals(SearchResult& result);
 
 }  // namespace lagsieve
 

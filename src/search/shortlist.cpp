@@ -4,8 +4,12 @@
 #include <cmath>
 #include <map>
 
+#include "core/names.h"
 #include "model/likelihood.h"
 #include "search/candidates.h"
+#include "search/selection.h"
+
+#include <fmt/format.h>
 
 namespace lagsieve {
 
@@ -41,27 +45,63 @@ ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& co
   ShortlistBacktest out = shortlist_plan(data, config, search, config.backtest.shortlist, threads);
   if (out.candidates.empty()) return out;
   out.result = run_backtest(data, out.candidates, out.options);
+  search.warnings.insert(search.warnings.end(), out.result.warnings.begin(),
+                         out.result.warnings.end());
 
-  // Re-rank: backtested rows by score, then the rest as before.
-  std::map<std::string, double> score;
+  // The leader by the selection rule (selection.h), then the rows: the leader first, the other
+  // backtested rows by score, then the rest in criterion order as before.
+  std::map<std::string, size_t> model_of;
   for (size_t i = 0; i < out.candidates.size(); ++i)
-    if (!out.candidates[i].benchmark) score[out.candidates[i].name] = out.result.models[i].score;
+    if (!out.candidates[i].benchmark) model_of[out.candidates[i].name] = i;
+  std::vector<SelectionCandidate> pool;
   for (auto& row : search.rows) {
-    const auto it = score.find(row.key);
-    if (it != score.end()) row.backtest_score = it->second;
+    const auto it = model_of.find(row.key);
+    if (it == model_of.end()) continue;
+    row.backtest_score = out.result.models[it->second].score;
+    pool.push_back({&row, static_cast<int>(it->second)});
   }
+  const SelectionOptions so = selection_options(config);
+  const SelectionResult chosen = choose_leader(pool, out.result, so);
+  std::map<std::string, std::string> note_of;
+  for (size_t i = 0; i < pool.size(); ++i) note_of[pool[i].row->key] = chosen.notes[i];
+  const std::string leader_key = chosen.leader >= 0 ? pool[chosen.leader].row->key : std::string();
+  for (auto& row : search.rows)
+    if (const auto it = note_of.find(row.key); it != note_of.end()) row.selection = it->second;
+  out.result.leader = chosen.leader >= 0 ? pool[chosen.leader].model : -1;
+  out.result.comparisons = compare_to_leader(out.result);
+  search.leader_reason = chosen.reason;
   std::stable_sort(
-      search.rows.begin(), search.rows.end(), [](const CandidateRow& a, const CandidateRow& b) {
+      search.rows.begin(), search.rows.end(), [&](const CandidateRow& a, const CandidateRow& b) {
+        const bool la = a.key == leader_key, lb = b.key == leader_key;
+        if (la != lb) return la;
         const bool fa = std::isfinite(a.backtest_score), fb = std::isfinite(b.backtest_score);
         if (fa != fb) return fa;
         if (fa && a.backtest_score != b.backtest_score) return a.backtest_score < b.backtest_score;
         return false;
       });
-  int bt_rank = 0;
+  std::vector<double> scores;
+  for (const auto& row : search.rows)
+    if (std::isfinite(row.backtest_score)) scores.push_back(row.backtest_score);
+  std::sort(scores.begin(), scores.end());
   for (size_t i = 0; i < search.rows.size(); ++i) {
-    search.rows[i].rank = static_cast<int>(i) + 1;
-    if (std::isfinite(search.rows[i].backtest_score)) search.rows[i].backtest_rank = ++bt_rank;
+    auto& row = search.rows[i];
+    row.rank = static_cast<int>(i) + 1;
+    if (std::isfinite(row.backtest_score))
+      row.backtest_rank =
+          static_cast<int>(std::lower_bound(scores.begin(), scores.end(), row.backtest_score) -
+                           scores.begin()) +
+          1;
   }
+  search.sorted_by = fmt::format(
+      "rank 1 is the leader ({}); then the other backtested candidates by backtest {} (lower is "
+      "better); then the "
+      "rest by {}",
+      so.parsimonious
+          ? fmt::format("the simplest candidate within noise of the best backtest score, "
+                        "one-sided Diebold-Mariano at {:g}",
+                        so.level)
+          : "the best backtest score",
+      config.backtest.score, to_string(config.search.criterion));
 
   if (out.result.leader >= 0) {
     const auto& lead = out.candidates[out.result.leader];
@@ -71,6 +111,7 @@ ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& co
     out.result.input_value =
         input_value(data, lead, out.result.models[out.result.leader], out.options);
   }
+  warn_on_leader_residuals(search);
   return out;
 }
 
