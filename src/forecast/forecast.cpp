@@ -44,11 +44,16 @@ struct ArmaPath {
 };
 
 ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
-                   const std::vector<double>& history, int horizon) {
+                   const std::vector<double>& history, int horizon, const std::string& what) {
   ArmaFilterWorkspace ws;
   const auto end = arma_end_state(ar, ma, history, ws);
   ArmaPath path;
   const int m = state_dim(ar, ma);
+  // A non-stationary AR polynomial has no stationary start: the filter returns an empty state.
+  if (end.cov.rows() != m || end.state.size() != m || !end.cov.allFinite())
+    throw InputError(fmt::format("{} has a non-stationary AR polynomial; it cannot be forecast "
+                                 "(re-fit the model)",
+                                 what));
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
@@ -152,7 +157,8 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
       const InputModel& im = *model.input_model(term.name);
       std::vector<double> centred(u.begin(), u.end());
       for (auto& v : centred) v -= im.mean;
-      const auto path = arma_path(im.phi, im.theta, centred, horizon - known);
+      const auto path = arma_path(im.phi, im.theta, centred, horizon - known,
+                                  fmt::format("the own model of input '{}'", term.name));
       for (double v : path.mean) u.push_back(im.mean + v);
       // Errors of the differenced input at steps known..horizon-1, through the impulse response.
       Eigen::MatrixXd cov_u = Eigen::MatrixXd::Zero(horizon, horizon);
@@ -173,7 +179,8 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
   const auto ar = expand_ar(model.params.phi, model.params.seasonal_phi, spec.noise.period);
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
   const auto noise_path =
-      arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon);
+      arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon,
+                "the noise model");
 
   std::vector<double> w_hat(horizon);
   for (int s = 0; s < horizon; ++s) {
