@@ -1,12 +1,21 @@
 #include "evaluation/distributions.h"
 
 #include <algorithm>
+#include <math.h>  // lgamma_r
+
 #include <cmath>
 #include <numbers>
 #include <limits>
 
 namespace lagsieve {
 namespace {
+
+// ln|Gamma(x)| without std::lgamma, which writes the global `signgam` and so races when the
+// search's threads compute p-values at once (found by ThreadSanitizer); lgamma_r is reentrant.
+double log_gamma(double x) {
+  int sign = 0;
+  return ::lgamma_r(x, &sign);
+}
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kInf = std::numeric_limits<double>::infinity();
@@ -53,12 +62,12 @@ double stirling_remainder(double x) {
 double log_beta(double a, double b) {
   const double small = std::min(a, b);
   const double big = std::max(a, b);
-  if (big < 10.0) return std::lgamma(a) + std::lgamma(b) - std::lgamma(a + b);
+  if (big < 10.0) return log_gamma(a) + log_gamma(b) - log_gamma(a + b);
   const double corr = stirling_remainder(big) - stirling_remainder(big + small);
   if (small < 10.0) {
     // lgamma(big) - lgamma(big + small) = -(big - 1/2) log1p(small/big) - small ln(big + small)
     //                                     + small + corr.
-    return std::lgamma(small) - (big - 0.5) * std::log1p(small / big) -
+    return log_gamma(small) - (big - 0.5) * std::log1p(small / big) -
            small * std::log(big + small) + small + corr;
   }
   return 0.5 * std::log(2.0 * std::numbers::pi) - big * std::log1p(small / big) -
@@ -103,7 +112,7 @@ double gamma_lower_series(double a, double x) {
     sum += term;
     if (std::fabs(term) < std::fabs(sum) * kEps) break;
   }
-  return sum * std::exp(a * std::log(x) - x - std::lgamma(a + 1.0));
+  return sum * std::exp(a * std::log(x) - x - log_gamma(a + 1.0));
 }
 
 // Continued fraction for Q(a, x) (A&S 6.5.31 in its even form):
@@ -114,7 +123,7 @@ double gamma_upper_fraction(double a, double x) {
     aj = j == 1 ? 1.0 : -n * (n - a);
     bj = x + 2.0 * n + 1.0 - a;
   });
-  return cf * std::exp(a * std::log(x) - x - std::lgamma(a));
+  return cf * std::exp(a * std::log(x) - x - log_gamma(a));
 }
 
 double evaluate(const double* coef, int count, double r) {

@@ -45,11 +45,17 @@ struct ArmaPath {
 };
 
 ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
-                   const std::vector<double>& history, int horizon, bool covariance = true) {
+                   const std::vector<double>& history, int horizon, const std::string& what,
+                   bool covariance = true) {
   ArmaFilterWorkspace ws;
   const auto end = arma_end_state(ar, ma, history, ws);
   ArmaPath path;
   const int m = state_dim(ar, ma);
+  // A non-stationary AR polynomial has no stationary start: the filter returns an empty state.
+  if (end.cov.rows() != m || end.state.size() != m || !end.cov.allFinite())
+    throw InputError(fmt::format("{} has a non-stationary AR polynomial; it cannot be forecast "
+                                 "(re-fit the model)",
+                                 what));
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
@@ -163,7 +169,9 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
       const InputModel& im = *model.input_model(term.name);
       std::vector<double> centred(u.begin(), u.end());
       for (auto& v : centred) v -= im.mean;
-      const auto path = arma_path(im.phi, im.theta, centred, horizon - known, covariances);
+      const auto path = arma_path(im.phi, im.theta, centred, horizon - known,
+                                  fmt::format("the own model of input '{}'", term.name),
+                                  covariances);
       for (double v : path.mean) u.push_back(im.mean + v);
       if (!covariances) {
         x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
@@ -187,8 +195,9 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
   const int start = std::clamp(model.start, 0, std::max(nw - 2, 0));
   const auto ar = expand_ar(model.params.phi, model.params.seasonal_phi, spec.noise.period);
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
-  const auto noise_path = arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()),
-                                    horizon, covariances);
+  const auto noise_path =
+      arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon,
+                "the noise model", covariances);
 
   std::vector<double> w_hat(horizon);
   for (int s = 0; s < horizon; ++s) {

@@ -1,11 +1,17 @@
 #include "forecast/model_file.h"
 
-#include <cmath>
 #include <fmt/format.h>
+#include <cctype>
+#include <cmath>
+#include <cstdint>
 #include <fstream>
+#include <limits>
+#include <optional>
+#include <sstream>
 
 #include "core/error.h"
 #include "core/names.h"
+#include "forecast/model_checks.h"
 #include "io/atomic_file.h"
 #include "model/spec_from_config.h"
 
@@ -17,61 +23,112 @@ namespace {
 
 json number_or_null(double v) { return std::isfinite(v) ? json(v) : json(nullptr); }
 
-// Reads a field, refusing absent fields and non-finite numbers with a message naming both.
+// Reads a field, refusing absent fields, wrong JSON types, non-finite numbers and integers out of
+// the int range with a message naming both the file and the field path.
 class Reader {
  public:
   explicit Reader(std::string source) : source_(std::move(source)) {}
 
+  [[noreturn]] void fail(const std::string& field, const std::string& what) const {
+    throw InputError(fmt::format("{}: model file field '{}' {}", source_, field, what));
+  }
   const json& at(const json& j, const std::string& key, const std::string& path) const {
-    if (!j.is_object() || !j.contains(key))
-      throw InputError(fmt::format("{}: model file field '{}{}' is missing; the file is "
-                                   "incomplete or not a lagsieve model file",
-                                   source_, path, key));
+    if (!j.is_object())
+      fail(path.empty() ? std::string("(top level)") : path.substr(0, path.size() - 1),
+           fmt::format("must be an object, not {}", describe(j)));
+    if (!j.contains(key))
+      fail(path + key, "is missing; the file is incomplete or not a lagsieve model file");
     return j.at(key);
   }
-  double number(const json& j, const std::string& key, const std::string& path) const {
+  const json& object(const json& j, const std::string& key, const std::string& path) const {
     const json& v = at(j, key, path);
+    if (!v.is_object()) fail(path + key, fmt::format("must be an object, not {}", describe(v)));
+    return v;
+  }
+  const json& list(const json& j, const std::string& key, const std::string& path) const {
+    const json& v = at(j, key, path);
+    if (!v.is_array()) fail(path + key, fmt::format("must be a list, not {}", describe(v)));
+    return v;
+  }
+  double number(const json& j, const std::string& key, const std::string& path) const {
+    return finite(at(j, key, path), path + key);
+  }
+  double finite(const json& v, const std::string& field) const {
     if (!v.is_number() || !std::isfinite(v.get<double>()))
-      throw InputError(fmt::format("{}: model file field '{}{}' must be a finite number", source_,
-                                   path, key));
+      fail(field, fmt::format("must be a finite number, not {}", describe(v)));
     return v.get<double>();
   }
   int integer(const json& j, const std::string& key, const std::string& path) const {
     const json& v = at(j, key, path);
-    if (!v.is_number_integer())
-      throw InputError(fmt::format("{}: model file field '{}{}' must be an integer", source_, path, key));
-    return v.get<int>();
+    constexpr auto lo = std::numeric_limits<int>::min(), hi = std::numeric_limits<int>::max();
+    if (v.is_number_unsigned() && v.get<std::uint64_t>() <= static_cast<std::uint64_t>(hi))
+      return static_cast<int>(v.get<std::uint64_t>());
+    if (v.is_number_integer() && !v.is_number_unsigned() && v.get<std::int64_t>() >= lo &&
+        v.get<std::int64_t>() <= hi)
+      return static_cast<int>(v.get<std::int64_t>());
+    fail(path + key,
+         fmt::format("must be a whole number between {} and {}, not {}", lo, hi, describe(v)));
+  }
+  bool boolean(const json& j, const std::string& key, const std::string& path) const {
+    const json& v = at(j, key, path);
+    if (!v.is_boolean())
+      fail(path + key, fmt::format("must be true or false, not {}", describe(v)));
+    return v.get<bool>();
   }
   std::string text(const json& j, const std::string& key, const std::string& path) const {
     const json& v = at(j, key, path);
-    if (!v.is_string())
-      throw InputError(fmt::format("{}: model file field '{}{}' must be a string", source_, path, key));
+    if (!v.is_string()) fail(path + key, fmt::format("must be a string, not {}", describe(v)));
     return v.get<std::string>();
   }
-  std::vector<double> numbers(const json& j, const std::string& key, const std::string& path) const {
-    const json& v = at(j, key, path);
-    if (!v.is_array())
-      throw InputError(fmt::format("{}: model file field '{}{}' must be a list", source_, path, key));
-    std::vector<double> out;
+  std::vector<std::string> texts(const json& j, const std::string& key,
+                                 const std::string& path) const {
+    const json& v = list(j, key, path);
+    std::vector<std::string> out;
     for (size_t i = 0; i < v.size(); ++i) {
-      if (!v[i].is_number() || !std::isfinite(v[i].get<double>()))
-        throw InputError(fmt::format("{}: model file field '{}{}[{}]' must be a finite number",
-                                     source_, path, key, i));
-      out.push_back(v[i].get<double>());
+      if (!v[i].is_string())
+        fail(fmt::format("{}{}[{}]", path, key, i),
+             fmt::format("must be a string, not {}", describe(v[i])));
+      out.push_back(v[i].get<std::string>());
     }
+    return out;
+  }
+  std::vector<double> numbers(const json& j, const std::string& key,
+                              const std::string& path) const {
+    const json& v = list(j, key, path);
+    std::vector<double> out;
+    for (size_t i = 0; i < v.size(); ++i)
+      out.push_back(finite(v[i], fmt::format("{}{}[{}]", path, key, i)));
     return out;
   }
   template <typename Enum>
   Enum choice(const json& j, const std::string& key, const std::string& path) const {
     const auto s = text(j, key, path);
     const auto v = parse_enum<Enum>(s);
-    if (!v)
-      throw InputError(fmt::format("{}: model file field '{}{}' has the unknown value '{}'",
-                                   source_, path, key, s));
+    if (!v) fail(path + key, fmt::format("has the unknown value '{}'", s));
     return *v;
   }
 
  private:
+  // The JSON type and, for short values, the value itself: "a string (\"yes\")", "a number (3)".
+  static std::string describe(const json& v) {
+    std::string shown = v.dump();
+    if (shown.size() > 40) shown = shown.substr(0, 37) + "...";
+    switch (v.type()) {
+      case json::value_t::null:
+        return "null";
+      case json::value_t::boolean:
+        return fmt::format("a boolean ({})", shown);
+      case json::value_t::string:
+        return fmt::format("a string ({})", shown);
+      case json::value_t::array:
+        return "a list";
+      case json::value_t::object:
+        return "an object";
+      default:
+        return fmt::format("the number {}", shown);
+    }
+  }
+
   std::string source_;
 };
 
@@ -166,30 +223,30 @@ json to_json(const FittedModel& m) {
 FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   const Reader r(source);
   if (!doc.is_object() || !doc.contains("format") || doc["format"] != kModelFormat)
-    throw InputError(fmt::format("{}: not a lagsieve model file (no \"format\": \"{}\")", source,
-                                 kModelFormat));
+    throw InputError(
+        fmt::format("{}: not a lagsieve model file (no \"format\": \"{}\")", source, kModelFormat));
   const int version = r.integer(doc, "version", "");
   if (version != kModelFormatVersion)
-    throw InputError(fmt::format("{}: model file version {} is not supported (this lagsieve reads "
-                                 "version {}); re-fit the model with this version",
-                                 source, version, kModelFormatVersion));
+    throw InputError(
+        fmt::format("{}: model file version {} is not supported (this lagsieve reads "
+                    "version {}); re-fit the model with this version",
+                    source, version, kModelFormatVersion));
   FittedModel m;
-  const json& spec = r.at(doc, "spec", "");
-  const json& tj = r.at(spec, "transform", "spec.");
+  const json& spec = r.object(doc, "spec", "");
+  const json& tj = r.object(spec, "transform", "spec.");
   m.spec.transform.kind = r.choice<TransformKind>(tj, "kind", "spec.transform.");
   m.spec.transform.lambda = r.number(tj, "lambda", "spec.transform.");
-  const json& dj = r.at(spec, "differencing", "spec.");
+  const json& dj = r.object(spec, "differencing", "spec.");
   m.spec.differencing = {r.integer(dj, "regular", "spec.differencing."),
                          r.integer(dj, "seasonal", "spec.differencing."),
                          r.integer(dj, "period", "spec.differencing.")};
-  const json& nj = r.at(spec, "noise", "spec.");
+  const json& nj = r.object(spec, "noise", "spec.");
   m.spec.noise = {r.integer(nj, "p", "spec.noise."), r.integer(nj, "q", "spec.noise."),
-                  r.integer(nj, "seasonal_p", "spec.noise."), r.integer(nj, "seasonal_q", "spec.noise."),
+                  r.integer(nj, "seasonal_p", "spec.noise."),
+                  r.integer(nj, "seasonal_q", "spec.noise."),
                   r.integer(nj, "period", "spec.noise.")};
-  const json& cj = r.at(spec, "constant", "spec.");
-  if (!cj.is_boolean()) throw InputError(fmt::format("{}: model file field 'spec.constant' must be true or false", source));
-  m.spec.constant = cj.get<bool>();
-  const json& ij = r.at(spec, "inputs", "spec.");
+  m.spec.constant = r.boolean(spec, "constant", "spec.");
+  const json& ij = r.list(spec, "inputs", "spec.");
   for (size_t i = 0; i < ij.size(); ++i) {
     const std::string path = fmt::format("spec.inputs[{}].", i);
     const json& e = ij[i];
@@ -198,7 +255,7 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
                     r.integer(e, "denominator", path)}};
     InputUse use;
     use.name = term.name;
-    use.is_event = r.at(e, "event", path).get<bool>();
+    use.is_event = r.boolean(e, "event", path);
     use.future = r.choice<FutureMode>(e, "future", path);
     use.known_steps = r.integer(e, "known_steps", path);
     if (use.is_event) {
@@ -208,7 +265,9 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     m.spec.inputs.push_back(term);
     m.inputs.push_back(use);
   }
-  const json& pj = r.at(doc, "params", "");
+  // Orders are checked before they size anything (a negative order would size a vector).
+  check_model_spec(m, source);
+  const json& pj = r.object(doc, "params", "");
   m.params = zero_params(m.spec);
   m.params.constant = r.number(pj, "constant", "params.");
   m.params.sigma2 = r.number(pj, "sigma2", "params.");
@@ -216,68 +275,75 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   m.params.theta = r.numbers(pj, "theta", "params.");
   m.params.seasonal_phi = r.numbers(pj, "seasonal_phi", "params.");
   m.params.seasonal_theta = r.numbers(pj, "seasonal_theta", "params.");
-  const json& pin = r.at(pj, "inputs", "params.");
+  const json& pin = r.list(pj, "inputs", "params.");
   if (pin.size() != m.spec.inputs.size())
-    throw InputError(fmt::format("{}: model file has {} input parameter sets for {} inputs", source,
-                                 pin.size(), m.spec.inputs.size()));
+    r.fail("params.inputs", fmt::format("has {} entries for the {} inputs of spec.inputs",
+                                        pin.size(), m.spec.inputs.size()));
   for (size_t i = 0; i < pin.size(); ++i) {
     const std::string path = fmt::format("params.inputs[{}].", i);
     m.params.inputs[i].omega = r.numbers(pin[i], "omega", path);
     m.params.inputs[i].delta = r.numbers(pin[i], "delta", path);
-    if (static_cast<int>(m.params.inputs[i].omega.size()) != m.spec.inputs[i].order.numerator + 1 ||
-        static_cast<int>(m.params.inputs[i].delta.size()) != m.spec.inputs[i].order.denominator)
-      throw InputError(fmt::format("{}: model file '{}' does not match the orders of input '{}'",
-                                   source, path, m.spec.inputs[i].name));
   }
-  if (static_cast<int>(m.params.phi.size()) != m.spec.noise.p ||
-      static_cast<int>(m.params.theta.size()) != m.spec.noise.q ||
-      static_cast<int>(m.params.seasonal_phi.size()) != m.spec.noise.seasonal_p ||
-      static_cast<int>(m.params.seasonal_theta.size()) != m.spec.noise.seasonal_q)
-    throw InputError(fmt::format("{}: model file ARMA coefficients do not match spec.noise", source));
-  const json& cov = r.at(doc, "covariance", "");
-  m.param_names = r.at(cov, "names", "covariance.").get<std::vector<std::string>>();
-  const json& mat = r.at(cov, "matrix", "covariance.");
-  m.covariance.resize(static_cast<Eigen::Index>(mat.size()), static_cast<Eigen::Index>(mat.size()));
-  for (size_t i = 0; i < mat.size(); ++i)
-    for (size_t j = 0; j < mat.size(); ++j)
-      m.covariance(i, j) = mat[i][j].is_number() ? mat[i][j].get<double>() : std::nan("");
-  for (const auto& e : r.at(doc, "input_models", "")) {
+  const json& cov = r.object(doc, "covariance", "");
+  m.param_names = r.texts(cov, "names", "covariance.");
+  const json& mat = r.list(cov, "matrix", "covariance.");
+  const size_t n = m.param_names.size();
+  if (mat.size() != n)
+    r.fail("covariance.matrix",
+           fmt::format("has {} rows for the {} names of covariance.names", mat.size(), n));
+  m.covariance.resize(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
+  for (size_t i = 0; i < n; ++i) {
+    const std::string row = fmt::format("covariance.matrix[{}]", i);
+    if (!mat[i].is_array() || mat[i].size() != n)
+      r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", n));
+    for (size_t j = 0; j < n; ++j)
+      m.covariance(i, j) =
+          mat[i][j].is_null() ? std::nan("") : r.finite(mat[i][j], fmt::format("{}[{}]", row, j));
+  }
+  const json& imj = r.list(doc, "input_models", "");
+  for (size_t k = 0; k < imj.size(); ++k) {
+    const std::string path = fmt::format("input_models[{}].", k);
+    const json& e = imj[k];
     InputModel im;
-    im.input = r.text(e, "input", "input_models[].");
-    im.p = r.integer(e, "p", "input_models[].");
-    im.q = r.integer(e, "q", "input_models[].");
-    im.mean = r.number(e, "mean", "input_models[].");
-    im.phi = r.numbers(e, "phi", "input_models[].");
-    im.theta = r.numbers(e, "theta", "input_models[].");
-    im.sigma2 = r.number(e, "sigma2", "input_models[].");
-    im.aic = r.number(e, "aic", "input_models[].");
-    im.chosen_by_aic = r.at(e, "chosen_by_aic", "input_models[].").get<bool>();
+    im.input = r.text(e, "input", path);
+    im.p = r.integer(e, "p", path);
+    im.q = r.integer(e, "q", path);
+    im.mean = r.number(e, "mean", path);
+    im.phi = r.numbers(e, "phi", path);
+    im.theta = r.numbers(e, "theta", path);
+    im.sigma2 = r.number(e, "sigma2", path);
+    im.aic = r.number(e, "aic", path);
+    im.chosen_by_aic = r.boolean(e, "chosen_by_aic", path);
     // Optional (files written before it existed): a square matrix over phi, theta and the mean.
-    if (e.contains("covariance") && e["covariance"].is_array() &&
-        e["covariance"].size() == static_cast<size_t>(im.p + im.q + 1)) {
-      const json& ic = e["covariance"];
-      const auto k = static_cast<Eigen::Index>(ic.size());
-      im.covariance.resize(k, k);
-      for (Eigen::Index i = 0; i < k; ++i)
-        for (Eigen::Index j = 0; j < k; ++j) {
-          const json& row = ic[static_cast<size_t>(i)];
-          const bool ok = row.is_array() && row.size() == static_cast<size_t>(k) &&
-                          row[static_cast<size_t>(j)].is_number();
-          im.covariance(i, j) = ok ? row[static_cast<size_t>(j)].get<double>() : std::nan("");
-        }
+    if (e.contains("covariance") && !e["covariance"].is_null()) {
+      const json& ic = r.list(e, "covariance", path);
+      const auto k = static_cast<size_t>(im.p + im.q + 1);
+      if (ic.size() != k)
+        r.fail(path + "covariance", fmt::format("must have {} rows (p + q + 1)", k));
+      im.covariance.resize(static_cast<Eigen::Index>(k), static_cast<Eigen::Index>(k));
+      for (size_t i = 0; i < k; ++i) {
+        const std::string row = fmt::format("{}covariance[{}]", path, i);
+        if (!ic[i].is_array() || ic[i].size() != k)
+          r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", k));
+        for (size_t j = 0; j < k; ++j)
+          im.covariance(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
+              ic[i][j].is_null() ? std::nan("")
+                                 : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
+      }
     }
     m.input_models.push_back(im);
   }
-  const json& fj = r.at(doc, "fit", "");
+  const json& fj = r.object(doc, "fit", "");
   m.loglik = r.number(fj, "loglik", "fit.");
   m.aic = r.number(fj, "aic", "fit.");
-  m.aicc = fj.contains("aicc") && fj["aicc"].is_number() ? fj["aicc"].get<double>() : std::nan("");
+  m.aicc =
+      fj.contains("aicc") && !fj["aicc"].is_null() ? r.number(fj, "aicc", "fit.") : std::nan("");
   m.bic = r.number(fj, "bic", "fit.");
   m.n_obs = r.integer(fj, "n_obs", "fit.");
   m.n_params = r.integer(fj, "n_params", "fit.");
   m.start = r.integer(fj, "start", "fit.");
   m.fit_status = r.text(fj, "status", "fit.");
-  const json& tj2 = r.at(doc, "training", "");
+  const json& tj2 = r.object(doc, "training", "");
   auto& tr = m.training;
   tr.source_file = r.text(tj2, "source_file", "training.");
   tr.target_column = r.text(tj2, "target_column", "training.");
@@ -289,6 +355,7 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   tr.config_file = r.text(tj2, "config_file", "training.");
   tr.config_text = r.text(tj2, "config_text", "training.");
   m.backtest = doc.contains("backtest") ? doc["backtest"] : json(nullptr);
+  check_fitted_model(m, source);
   return m;
 }
 
@@ -296,18 +363,84 @@ void save_model(const std::filesystem::path& path, const FittedModel& model) {
   write_file_atomic(path, to_json(model).dump(2) + "\n");
 }
 
-FittedModel load_model(const std::filesystem::path& path) {
-  std::ifstream in(path);
-  if (!in)
-    throw InputError(fmt::format("{}: cannot open the model file; check the path", path.string()));
+namespace {
+
+// The path ("params.sigma2", "input_models[0].phi[1]") of the first string equal to `mark`.
+std::optional<std::string> path_of(const json& j, const std::string& mark, const std::string& at) {
+  if (j.is_string() && j.get<std::string>() == mark) return at;
+  if (j.is_object()) {
+    for (const auto& [key, value] : j.items())
+      if (auto p = path_of(value, mark, at.empty() ? key : at + "." + key)) return p;
+  } else if (j.is_array()) {
+    for (size_t i = 0; i < j.size(); ++i)
+      if (auto p = path_of(j[i], mark, fmt::format("{}[{}]", at, i))) return p;
+  }
+  return std::nullopt;
+}
+
+// nlohmann/json refuses a number beyond double (1e400) without saying where it is: put a marker
+// string in the first place the number is written, parse again and report the marker's path.
+[[noreturn]] void refuse_overflow(std::string text, const std::string& token,
+                                  const std::string& source) {
+  const auto is_number_char = [](char c) {
+    return std::isdigit(static_cast<unsigned char>(c)) || c == '.' || c == 'e' || c == 'E' ||
+           c == '+' || c == '-';
+  };
+  const std::string mark = "\x01lagsieve-overflow";
+  for (size_t at = text.find(token); !token.empty() && at != std::string::npos;
+       at = text.find(token, at + 1)) {
+    const bool starts = at == 0 || !is_number_char(text[at - 1]);
+    const size_t after = at + token.size();
+    if (!starts || (after < text.size() && is_number_char(text[after]))) continue;
+    text.replace(at, token.size(), "\"\\u0001lagsieve-overflow\"");
+    const json doc = json::parse(text, nullptr, false);
+    if (const auto path = doc.is_discarded() ? std::nullopt : path_of(doc, mark, ""))
+      throw InputError(
+          fmt::format("{}: model file field '{}' is {}, beyond the range of a "
+                      "double; the model file is damaged",
+                      source, *path, token));
+    break;
+  }
+  throw InputError(
+      fmt::format("{}: not valid JSON (the number {} is beyond the range of a "
+                  "double); the model file is damaged",
+                  source, token));
+}
+
+}  // namespace
+
+FittedModel parse_model_text(const std::string& text, const std::string& source) {
   json doc;
   try {
-    doc = json::parse(in);
-  } catch (const json::parse_error& e) {
-    throw InputError(fmt::format("{}: not valid JSON ({}); the model file is damaged",
-                                 path.string(), e.what()));
+    doc = json::parse(text);
+  } catch (const json::out_of_range& e) {  // a number beyond double: 1e400
+    const std::string what = e.what();
+    const auto open = what.find('\''), close = what.rfind('\'');
+    if (e.id == 406 && open != std::string::npos && close > open)
+      refuse_overflow(text, what.substr(open + 1, close - open - 1), source);
+    throw InputError(
+        fmt::format("{}: not valid JSON ({}); the model file is damaged", source, what));
+  } catch (const json::exception& e) {
+    throw InputError(
+        fmt::format("{}: not valid JSON ({}); the model file is damaged", source, e.what()));
   }
-  return fitted_model_from_json(doc, path.string());
+  return fitted_model_from_json(doc, source);
+}
+
+FittedModel load_model(const std::filesystem::path& path) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec))
+    throw InputError(
+        fmt::format("{}: is a folder, not a model file; give the model.json inside "
+                    "a run folder",
+                    path.string()));
+  std::ifstream in(path, std::ios::binary);
+  if (!in)
+    throw InputError(fmt::format("{}: cannot open the model file; check the path", path.string()));
+  std::ostringstream text;
+  text << in.rdbuf();
+  if (in.bad()) throw InputError(fmt::format("{}: cannot read the model file", path.string()));
+  return parse_model_text(text.str(), path.string());
 }
 
 json fit_to_json(const FitResult& fit) {

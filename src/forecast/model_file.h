@@ -13,9 +13,14 @@ inline constexpr const char* kModelFormat = "lagsieve-model";
 inline constexpr int kModelFormatVersion = 1;
 
 nlohmann::json to_json(const FittedModel& model);
-// Throws InputError naming `source` and the field for another format or version, a missing
-// field, or a non-finite number.
+// Throws InputError naming `source` and the field path for another format or version, a missing
+// field, a wrong JSON type, a non-finite number, and any content check_fitted_model refuses.
 FittedModel fitted_model_from_json(const nlohmann::json& doc, const std::string& source);
+
+// Parses the text of a model file (`source` names it in messages): invalid JSON, a number beyond
+// double (named by its field path) and every failure of fitted_model_from_json and
+// check_fitted_model (forecast/model_checks.h) are InputErrors.
+FittedModel parse_model_text(const std::string& text, const std::string& source);
 
 // Written to a temporary name and renamed.
 void save_model(const std::filesystem::path& path, const FittedModel& model);
