@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "core/error.h"
+#include "data/load.h"
 #include "model/spec_from_config.h"
 
 namespace lagsieve::cli {
@@ -33,6 +34,7 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   fmt::print("{} · {}\n", data.target_name, model_label(fit.spec));
   fmt::print("{} rows; {} differenced observations inside the likelihood (from index {})\n",
              data.rows(), fit.n_obs, fit.start);
+  for (const auto& line : describe_missing(data)) fmt::print("missing: {}\n", line);
   fmt::print("status: {} — {}\n\n", to_string(fit.status), fit.message);
   fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", "parameter", "estimate", "std. error", "ratio");
   for (const auto& e : fit.estimates)

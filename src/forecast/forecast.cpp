@@ -1,8 +1,8 @@
 #include "forecast/forecast.h"
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
 
 #include "core/error.h"
 #include "data/events.h"
@@ -66,7 +66,8 @@ Eigen::MatrixXd toeplitz_lower(const std::vector<double>& w, int n) {
 
 }  // namespace
 
-Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar, const std::vector<double>& ma,
+Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar,
+                                         const std::vector<double>& ma,
                                          const Eigen::MatrixXd& p_origin, int horizon) {
   const int m = state_dim(ar, ma);
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
@@ -78,8 +79,56 @@ Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar, const st
   return cov;
 }
 
+namespace {
+
+ForecastResult forecast_complete(const FittedModel& model, const SeriesData& history,
+                                 const std::vector<InputFuture>& futures,
+                                 const ForecastOptions& options);
+
+}  // namespace
+
 ForecastResult forecast(const FittedModel& model, const SeriesData& history,
                         const std::vector<InputFuture>& futures, const ForecastOptions& options) {
+  // The ragged edge: the forecast starts after the last row from which the model can start
+  // (the target and the `lost` values before it observed, so the differencing can be undone);
+  // the input values of the rows after it are known future values.
+  const int lost = model.spec.differencing.lost();
+  const int rows = history.rows();
+  int end = rows;  // rows of history used
+  auto usable_end = [&](int e) {
+    for (int t = e - std::max(lost, 1); t < e; ++t)
+      if (t < 0 || std::isnan(history.target[t])) return false;
+    return true;
+  };
+  while (end > 0 && !usable_end(end)) --end;
+  if (end == rows || end == 0) return forecast_complete(model, history, futures, options);
+  const int trailing = rows - end;
+  const SeriesData head = slice_rows(history, 0, end);
+  std::vector<InputFuture> extended;
+  for (const auto& use : model.inputs) {
+    const int index = history.input_index(use.name);
+    const InputFuture* supplied = nullptr;
+    for (const auto& f : futures)
+      if (f.name == use.name) supplied = &f;
+    if (index < 0) {
+      if (supplied) extended.push_back(*supplied);
+      continue;
+    }
+    InputFuture f{use.name, std::vector<double>(history.inputs[index].begin() + end,
+                                                history.inputs[index].end())};
+    if (supplied) f.values.insert(f.values.end(), supplied->values.begin(), supplied->values.end());
+    extended.push_back(std::move(f));
+  }
+  ForecastOptions o = options;
+  o.horizon = options.horizon + trailing;
+  return forecast_complete(model, head, extended, o);
+}
+
+namespace {
+
+ForecastResult forecast_complete(const FittedModel& model, const SeriesData& history,
+                                 const std::vector<InputFuture>& futures,
+                                 const ForecastOptions& options) {
   const ModelSpec& spec = model.spec;
   const int horizon = options.horizon;
   if (horizon < 1)
@@ -88,16 +137,17 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
   const int lost = spec.differencing.lost();
   ForecastResult out;
   out.origin = rows;
-  out.time = next_time_stamps(history.time, horizon);
+  out.time = next_time_stamps(history.time, horizon, history.time_format);
   out.levels = options.levels;
 
   const auto z = apply_transform(history.target, spec.transform, history.target_name.c_str());
   const auto w = difference(z, spec.differencing);
   const int nw = static_cast<int>(w.size());
   if (nw <= minimum_start(spec) + 1)
-    throw InputError(fmt::format("the history has {} rows: too short for this model (it needs "
-                                 "more than {} rows)",
-                                 rows, lost + minimum_start(spec) + 1));
+    throw InputError(
+        fmt::format("the history has {} rows: too short for this model (it needs "
+                    "more than {} rows)",
+                    rows, lost + minimum_start(spec) + 1));
 
   Eigen::MatrixXd cov_inputs = Eigen::MatrixXd::Zero(horizon, horizon);
   std::vector<std::vector<double>> x_paths;  // transfer-function output over nw + horizon
@@ -119,25 +169,28 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
       ic.is_event = true;
       ic.shape = use.shape;
       ic.at = use.at;
-      const int row = event_row(ic, history.time, model.training.config_file);
-      original = event_values(use.shape, row, rows + horizon);
+      auto time = history.time;
+      const auto ahead = next_time_stamps(history.time, horizon, history.time_format);
+      time.insert(time.end(), ahead.begin(), ahead.end());
+      original = event_column(ic, time, rows, model.training.config_file, history.time_format);
       known = horizon;
       out.input_treatment.push_back("known (event)");
     } else {
       const int index = history.input_index(term.name);
       if (index < 0)
-        throw InputError(fmt::format("the history has no column '{}', an input of the model",
-                                     term.name));
+        throw InputError(
+            fmt::format("the history has no column '{}', an input of the model", term.name));
       original = history.inputs[index];
       const InputFuture* future = supplied;
       const int given = future ? static_cast<int>(future->values.size()) : 0;
       known = std::min(given, horizon);
       if (options.oracle_inputs && known < horizon)
-        throw InputError(fmt::format("input '{}': oracle forecasts need its values for all {} "
-                                     "steps, {} given",
-                                     term.name, horizon, given));
-      if (known > 0) original.insert(original.end(), future->values.begin(),
-                                     future->values.begin() + known);
+        throw InputError(
+            fmt::format("input '{}': oracle forecasts need its values for all {} "
+                        "steps, {} given",
+                        term.name, horizon, given));
+      if (known > 0)
+        original.insert(original.end(), future->values.begin(), future->values.begin() + known);
       if (known < horizon && !model.input_model(term.name))
         throw InputError(fmt::format(
             "input '{}' is known in the future (future: known) but {} of the {} future values "
@@ -145,7 +198,7 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
             term.name, known, horizon));
       out.input_treatment.push_back(known == horizon ? "known"
                                     : known == 0     ? "forecast"
-                                                     : fmt::format("known {}, then forecast", known));
+                                                 : fmt::format("known {}, then forecast", known));
     }
     auto u = difference(original, spec.differencing);  // nw + known values
     if (known < horizon) {
@@ -236,6 +289,8 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
   }
   return out;
 }
+
+}  // namespace
 
 }  // namespace lagsieve
 
