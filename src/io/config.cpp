@@ -225,7 +225,8 @@ void read_event_file(const Reader& rd, const YAML::Node& node, const fs::path& b
   if (const auto n = node["shape"]) shape = rd.get_enum<EventShape>(n, "events.shape");
   const CsvTable table = read_csv(file);
   const int dc = table.column_index(date_col), nc = table.column_index(name_col);
-  const int tc = to_col.empty() ? -1 : table.column_index(to_col);
+  // The window end: the named column, or a column called `to` when the file has one.
+  const int tc = to_col.empty() ? table.column_index("to") : table.column_index(to_col);
   if (dc < 0 || nc < 0 || (!to_col.empty() && tc < 0))
     throw InputError(fmt::format("{}: the event file needs columns '{}' and '{}'{}; its header "
                                  "is: {}",

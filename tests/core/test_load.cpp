@@ -248,3 +248,43 @@ TEST(Load, PanelFromFile) {
 
 }  // namespace
 }  // namespace lagsieve
+
+namespace lagsieve {
+namespace {
+
+TEST(LoadEvents, ListsWindowsEventFilesAndTheSeasonalDefault) {
+  const auto dir = std::filesystem::temp_directory_path() / "lagsieve_events_test";
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir / "holidays.csv") << "date,name,to\n2024-01-05,fair,\n2024-01-19,fair,\n"
+                                         "2024-01-10,works,2024-01-12\n";
+  const auto cfg = parse_config(
+      "data: {file: d.csv, time: t}\ntarget: {column: y}\ninputs:\n"
+      "  - event: twice\n    at: [2024-01-03, 2024-01-20, 2024-03-01]\n"
+      "  - event: window\n    at: {from: 2024-01-07, to: 2024-01-08}\n"
+      "events: {file: holidays.csv}\nnoise: {seasonal_ma: 1}\n",
+      dir / "c.yaml");
+  std::string csv = "t,y\n";
+  for (int d = 1; d <= 25; ++d) csv += fmt::format("2024-01-{:02d},{}\n", d, (d * 7) % 5);
+  const auto s = series_from_table(cfg, parse_csv(csv, "d.csv"), "y");
+  ASSERT_EQ(s.input_names, (std::vector<std::string>{"twice", "window", "fair", "works"}));
+  auto rows_set = [&](int i) {
+    std::vector<int> out;
+    for (int t = 0; t < s.rows(); ++t)
+      if (s.inputs[i][t] != 0.0) out.push_back(t);
+    return out;
+  };
+  EXPECT_EQ(rows_set(0), (std::vector<int>{2, 19}));  // the March date is after the data
+  EXPECT_EQ(rows_set(1), (std::vector<int>{6, 7}));
+  EXPECT_EQ(rows_set(2), (std::vector<int>{4, 18}));
+  EXPECT_EQ(rows_set(3), (std::vector<int>{9, 10, 11}));
+  // seasonal_ma without a period: 7 from the daily frequency, said in the note.
+  RunConfig resolved = cfg;
+  apply_seasonal_default(resolved, s);
+  EXPECT_EQ(resolved.noise.period, 7);
+  EXPECT_EQ(resolved.seasonal_note,
+            "noise.period 7 from the daily frequency of the data (not set in the config)");
+  std::filesystem::remove_all(dir);
+}
+
+}  // namespace
+}  // namespace lagsieve
