@@ -56,17 +56,23 @@ std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesDa
   return m;
 }
 
+// Records of the forecasts for rows origin.. ; `first_row` is the row of f's first step (before
+// the origin when the window ends with missing target values: those steps are not scored).
+// A row whose target was not observed (missing, or filled by interpolation) is never scored.
 void add_records(ForecastRecords& out, int origin, const ForecastResult& f, const SeriesData& data,
-                 double scale) {
-  for (size_t h = 0; h < f.median.size(); ++h) {
+                 double scale, int first_row) {
+  for (size_t i = 0; i < f.median.size(); ++i) {
+    const int row = first_row + static_cast<int>(i);
+    if (row < origin || row >= data.rows() || !data.observed(row)) continue;
+    const size_t h = static_cast<size_t>(row - origin);
     ForecastRecord r;
     r.origin = origin;
     r.horizon = static_cast<int>(h) + 1;
-    r.forecast = f.median[h];
-    r.actual = data.target[origin + h];
+    r.forecast = f.median[i];
+    r.actual = data.target[row];
     for (size_t l = 0; l < f.levels.size(); ++l) {
-      r.lower.push_back(f.lower[l][h]);
-      r.upper.push_back(f.upper[l][h]);
+      r.lower.push_back(f.lower[l][i]);
+      r.upper.push_back(f.upper[l][i]);
     }
     r.scale = scale;
     out.records.push_back(std::move(r));
@@ -81,6 +87,7 @@ void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int 
   double ss = 0.0;
   int count = 0;
   for (int t = from + season; t < origin; ++t) {
+    if (!data.observed(t) || !data.observed(t - season)) continue;
     ss += (y[t] - y[t - season]) * (y[t] - y[t - season]);
     ++count;
   }
@@ -90,7 +97,11 @@ void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int 
   f.lower.assign(levels.size(), {});
   f.upper.assign(levels.size(), {});
   for (int h = 1; h <= horizon; ++h) {
-    const int k = (h - 1) / season;
+    int k = (h - 1) / season;
+    // The same season's last observed value (further back past missing values).
+    while (origin + h - 1 - season * (k + 1) > from &&
+           !data.observed(origin + h - 1 - season * (k + 1)))
+      ++k;
     const double point = y[origin + h - 1 - season * (k + 1)];
     f.median.push_back(point);
     for (size_t l = 0; l < levels.size(); ++l) {
@@ -99,8 +110,8 @@ void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int 
       f.upper[l].push_back(point + half);
     }
   }
-  add_records(out.production, origin, f, data, scale);
-  add_records(out.oracle, origin, f, data, scale);
+  add_records(out.production, origin, f, data, scale, origin);
+  add_records(out.oracle, origin, f, data, scale, origin);
 }
 
 void score_model(ModelBacktest& m, const BacktestOptions& o);
@@ -154,9 +165,11 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
               {use.name, std::vector<double>(actual.begin(),
                                              actual.begin() + std::min(use.known_steps, horizon))});
       }
-      add_records(out.production, origin, forecast(*current, window, production, fo), data, scale);
+      const auto fp = forecast(*current, window, production, fo);
+      add_records(out.production, origin, fp, data, scale, from + fp.origin);
       fo.oracle_inputs = true;
-      add_records(out.oracle, origin, forecast(*current, window, oracle, fo), data, scale);
+      const auto fx = forecast(*current, window, oracle, fo);
+      add_records(out.oracle, origin, fx, data, scale, from + fx.origin);
     } catch (const std::exception& e) {
       ++out.failed_origins;
       out.failed_at.push_back(origin);

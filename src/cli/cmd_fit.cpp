@@ -9,6 +9,7 @@
 #include "cli/common.h"
 #include "cli/print.h"
 #include "core/error.h"
+#include "data/load.h"
 #include "forecast/model_file.h"
 #include "model/fit.h"
 #include "model/spec_from_config.h"
@@ -34,9 +35,13 @@ int run_fit(const FitArgs& args) {
   if (args.json) {
     auto j = fit_to_json(fit);
     j["series"] = data.target_name;
+    j["frequency"] = data.frequency;
+    j["missing"] = describe_missing(data);  // what was missing, filled or inserted, per column
+    if (!run.config.seasonal_note.empty()) j["seasonal_note"] = run.config.seasonal_note;
     fmt::print("{}\n", j.dump(2));
   } else {
     print_fit(fit, data);
+    if (!run.config.seasonal_note.empty()) fmt::print("\nnote: {}\n", run.config.seasonal_note);
     if (!args.save.empty() && fit.usable()) fmt::print("\nmodel file written: {}\n", args.save);
   }
   return fit.usable() ? kExitOk : kExitInternal;

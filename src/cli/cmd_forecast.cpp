@@ -50,7 +50,7 @@ Scenario read_future(const std::string& spec, const FittedModel& model, const Ru
   const CsvTable table = read_csv(path);
   const int time_col = config.data.time.empty() ? -1 : table.column_index(config.data.time);
   if (time_col >= 0) {
-    const auto expected = next_time_stamps(history.time, table.row_count());
+    const auto expected = next_time_stamps(history.time, table.row_count(), history.time_format);
     for (int r = 0; r < table.row_count(); ++r)
       if (table.rows[r][time_col] != expected[r])
         throw InputError(fmt::format(
@@ -84,8 +84,8 @@ Scenario read_future(const std::string& spec, const FittedModel& model, const Ru
 int run_forecast(const ForecastArgs& args) {
   const FittedModel model = load_model(args.model);
   if (model.training.config_text.empty())
-    throw InputError(fmt::format("{}: the model file holds no config text to read data with",
-                                 args.model));
+    throw InputError(
+        fmt::format("{}: the model file holds no config text to read data with", args.model));
   const RunConfig config = parse_config(model.training.config_text, model.training.config_file);
   const SeriesData history = load_series_from_csv(config, args.data, model.training.target_column);
   std::vector<Scenario> scenarios;
@@ -104,9 +104,10 @@ int run_forecast(const ForecastArgs& args) {
     nlohmann::json j;
     j["model"] = args.model;
     j["target"] = model.training.target_column;
-    j["origin_rows"] = history.rows();
+    j["origin_rows"] = results.front().origin;
     j["horizon"] = args.horizon;
-    j["point"] = "median: the back-transformed mean of the transformed scale; `mean` is bias-adjusted";
+    j["point"] =
+        "median: the back-transformed mean of the transformed scale; `mean` is bias-adjusted";
     j["scenarios"] = nlohmann::json::array();
     for (size_t k = 0; k < scenarios.size(); ++k) {
       auto s = forecast_to_json(results[k]);
@@ -116,8 +117,15 @@ int run_forecast(const ForecastArgs& args) {
     fmt::print("{}\n", j.dump(2));
     return kExitOk;
   }
-  fmt::print("{} · forecast from row {} ({}), {} steps\n", model.training.target_column,
-             history.rows(), history.time.empty() ? "" : history.time.back(), args.horizon);
+  const int origin = results.front().origin;
+  fmt::print("{} · forecast from row {} ({}), {} steps\n", model.training.target_column, origin,
+             history.time.empty() ? "" : history.time[origin - 1],
+             static_cast<int>(results.front().median.size()));
+  if (origin < history.rows())
+    fmt::print(
+        "the target's last {} value{} missing (a ragged edge): the forecast starts after "
+        "the last usable value and uses the inputs of those rows as known\n",
+        history.rows() - origin, history.rows() - origin == 1 ? " is" : "s are");
   for (size_t k = 0; k < scenarios.size(); ++k) {
     const auto& r = results[k];
     fmt::print("\nscenario {} — inputs:", scenarios[k].name);
@@ -127,7 +135,7 @@ int run_forecast(const ForecastArgs& args) {
     fmt::print("  {:>4} {:<20} {:>12}", "h", "time", "median");
     for (double level : r.levels) fmt::print(" {:>25}", fmt::format("{:g}% interval", 100 * level));
     fmt::print(" {:>8} {:>8}\n", "inputs%", "params%");
-    for (int h = 0; h < args.horizon; ++h) {
+    for (int h = 0; h < static_cast<int>(r.median.size()); ++h) {
       fmt::print("  {:>4} {:<20} {:>12.6g}", h + 1, r.time[h], r.median[h]);
       for (size_t l = 0; l < r.levels.size(); ++l)
         fmt::print(" {:>25}", fmt::format("[{:.6g}, {:.6g}]", r.lower[l][h], r.upper[l][h]));
@@ -147,7 +155,9 @@ void register_forecast(CLI::App& app) {
   cmd->add_option("--horizon", args->horizon, "Steps ahead K")->default_val(12);
   cmd->add_option("--future", args->futures,
                   "Future input values, [NAME=]CSV; repeat for named scenarios side by side");
-  cmd->add_option("--levels", args->levels, "Interval levels")->default_val(std::vector<double>{0.8, 0.95})->delimiter(',');
+  cmd->add_option("--levels", args->levels, "Interval levels")
+      ->default_val(std::vector<double>{0.8, 0.95})
+      ->delimiter(',');
   cmd->add_flag("--json", args->json, "Print JSON");
   cmd->add_flag("--fixed-parameters", args->fixed_parameters,
                 "Treat the estimated parameters as known: intervals without their estimation "

@@ -26,12 +26,21 @@ int validate(const std::string& path) {
   const SeriesData& first = run.series.front();
   fmt::print("config     {}\n", c.config_file.string());
   fmt::print("data       {} ({} rows, time: {}, {})\n", c.data.file.string(), first.rows(),
-             c.data.time.empty() ? "row index" : c.data.time, infer_frequency(first.time));
+             c.data.time.empty() ? "row index" : c.data.time, first.frequency);
   if (!c.data.time.empty())
     fmt::print("span       {} .. {}\n", first.time.front(), first.time.back());
-  for (const auto& s : run.series)
-    fmt::print("series     {} ({} rows, {} cells interpolated)\n", s.target_name, s.rows(),
-               s.interpolated);
+  for (const auto& s : run.series) {
+    int target_missing = 0, target_filled = 0, input_missing = 0, input_filled = 0;
+    for (const auto& f : s.fills) {
+      (f.is_target ? target_missing : input_missing) += f.missing;
+      (f.is_target ? target_filled : input_filled) += f.interpolated;
+    }
+    fmt::print(
+        "series     {} ({} rows; target: {} missing, {} interpolated; inputs: {} missing, "
+        "{} interpolated)\n",
+        s.target_name, s.rows(), target_missing, target_filled, input_missing, input_filled);
+    for (const auto& line : describe_missing(s)) fmt::print("missing    {}\n", line);
+  }
   fmt::print("transform  {}{}; differencing d={} D={} period={}\n",
              to_string(c.target.transform.kind),
              c.target.transform.kind == TransformKind::boxcox
@@ -40,9 +49,13 @@ int validate(const std::string& path) {
              c.differencing.regular, c.differencing.seasonal, c.differencing.period);
   for (const auto& in : c.inputs) {
     std::string kind = "column";
-    if (in.is_event)
+    if (in.is_event && is_recurring(in))
+      kind = fmt::format("{} event at {} ({} occurrences or windows)", to_string(in.shape), in.at,
+                         std::count(in.at.begin(), in.at.end(), ';') + 1);
+    else if (in.is_event)
       kind = fmt::format("{} event at {} (row {})", to_string(in.shape), in.at,
-                         event_row(in, first.time, c.config_file.string()) + 1);
+                         event_row(in, first.time, c.config_file.string(), first.time_format) +
+                             1);
     fmt::print("input      {}: {}; delay {}, numerator {}, denominator {}{}, future {}\n", in.name,
                kind, range(in.delay), range(in.numerator), range(in.denominator),
                in.optional ? ", optional" : "", to_string(in.future));
@@ -50,6 +63,7 @@ int validate(const std::string& path) {
   fmt::print("noise      ar {}, ma {}, seasonal ar {}, seasonal ma {}, period {}, constant {}\n",
              range(c.noise.ar), range(c.noise.ma), range(c.noise.seasonal_ar),
              range(c.noise.seasonal_ma), c.noise.period, to_string(c.noise.constant));
+  if (!c.seasonal_note.empty()) fmt::print("period     {}\n", c.seasonal_note);
   fmt::print("grid       {} candidate models; the largest needs {} rows\n", candidate_grid_size(c),
              min_rows_needed(c));
   if (c.backtest.enabled) {

@@ -31,6 +31,7 @@ LoadedRun load_run(const std::filesystem::path& config_file) {
   LoadedRun run;
   run.config = load_config(config_file);
   run.series = load_series(run.config);
+  apply_seasonal_default(run.config, run.series.front());
   return run;
 }
 

@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "core/error.h"
+#include "data/load.h"
 #include "model/spec_from_config.h"
 
 namespace lagsieve::cli {
@@ -34,6 +35,7 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   const bool differenced = fit.spec.differencing.regular > 0 || fit.spec.differencing.seasonal > 0;
   fmt::print("{} rows; {} {}observations inside the likelihood (from row {})\n", data.rows(),
              fit.n_obs, differenced ? "differenced " : "", fit.start + 1);
+  for (const auto& line : describe_missing(data)) fmt::print("missing: {}\n", line);
   fmt::print("status: {} — {}\n\n", to_string(fit.status), fit.message);
   fmt::print("  {:<28} {:>12} {:>11} {:>8}\n", "parameter", "estimate", "std. error", "ratio");
   for (const auto& e : fit.estimates)

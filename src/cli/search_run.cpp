@@ -1,6 +1,7 @@
 #include "cli/search_run.h"
 
 #include <fmt/format.h>
+#include <limits>
 #include <unistd.h>
 
 #include <algorithm>
@@ -10,6 +11,7 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "data/load.h"
 #include "forecast/fitted_model.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
@@ -54,8 +56,13 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
     j["note"] = std::string("no forecast from the end of the data: ") + e.what();
   }
   const int tail = std::min(data.rows(), 4 * options.horizon);
+  // Observed values only: a missing or interpolated value is written as null (never shown as
+  // an observation).
+  std::vector<double> values;
+  for (int t = data.rows() - tail; t < data.rows(); ++t)
+    values.push_back(data.observed(t) ? data.target[t] : std::numeric_limits<double>::quiet_NaN());
   j["history"] = {{"time", std::vector<std::string>(data.time.end() - tail, data.time.end())},
-                  {"values", std::vector<double>(data.target.end() - tail, data.target.end())}};
+                  {"values", values}};
   write_file_atomic(path, j.dump(1) + "\n");
 }
 
@@ -109,6 +116,9 @@ int run_search_command(const SearchArgs& args) {
     save_model(out / run_files::model_file(r.series, several), model);
     auto fit_json = fit_to_json(r.leader);
     fit_json["series"] = r.series;
+    fit_json["frequency"] = data.frequency;
+    fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
+    if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
     write_file_atomic(out / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
     write_leader_forecast(out / run_files::per_series(run_files::kForecast, r.series, several),

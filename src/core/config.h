@@ -18,7 +18,8 @@ struct IntRange {
   bool operator==(const IntRange&) const = default;
 };
 
-enum class MissingPolicy { error, interpolate };
+enum class MissingPolicy { error, interpolate, skip };  // skip: target only
+enum class GapPolicy { insert, error };
 enum class EventShape { pulse, step, ramp };
 enum class FutureMode { known, forecast };
 enum class ConstantMode { yes, no, automatic };  // YAML: true | false | auto
@@ -29,7 +30,19 @@ enum class WindowKind { expanding, sliding };
 struct DataConfig {
   std::filesystem::path file;               // resolved relative to the config file
   std::string time;                         // time column; "" = none (rows are the index)
-  MissingPolicy missing = MissingPolicy::error;
+  std::string time_format;                  // strftime-like, e.g. "%d/%m/%Y"; "" = recognised
+  // Missing target values: skip (left out of the likelihood: exact likelihood of the observed
+  // values), interpolate (filled linearly, never scored as data) or error.
+  MissingPolicy missing = MissingPolicy::skip;
+  // Missing input values: interpolate or error (default: interpolate when `missing` is
+  // interpolate, else error).
+  std::optional<MissingPolicy> missing_inputs;
+  GapPolicy gaps = GapPolicy::insert;       // a missing period of a regular calendar
+  MissingPolicy input_policy() const {
+    if (missing_inputs) return *missing_inputs;
+    return missing == MissingPolicy::interpolate ? MissingPolicy::interpolate
+                                                 : MissingPolicy::error;
+  }
 };
 
 struct TargetConfig {
@@ -48,7 +61,9 @@ struct InputConfig {
   std::string name;                         // `column: x` (a data column) or `event: name`
   bool is_event = false;
   EventShape shape = EventShape::pulse;     // events only
-  std::string at;                           // events only: a time stamp or a row index
+  // Events only: a time stamp or a row index; several occurrences (a YAML list, or an event
+  // file) are joined by ';' and a window is "from..to" (data/events.h).
+  std::string at;
   IntRange delay;                           // b (default 0)
   IntRange numerator;                       // s (default 0)
   IntRange denominator;                     // r (default 0)
@@ -115,6 +130,11 @@ struct RunConfig {
   BacktestConfig backtest;
   ForecastConfig forecast;
   OutputConfig output;
+  // Seasonal terms used without a period: the period is the one the data's frequency suggests
+  // (apply_seasonal_default in data/load.h fills it in and says so in `seasonal_note`).
+  bool differencing_period_from_data = false;
+  bool noise_period_from_data = false;
+  std::string seasonal_note;
 };
 
 }  // namespace lagsieve

@@ -15,8 +15,10 @@ using Table = std::array<std::pair<Enum, std::string_view>, N>;
 
 constexpr Table<TransformKind, 3> kTransformKind{{
     {TransformKind::none, "none"}, {TransformKind::log, "log"}, {TransformKind::boxcox, "boxcox"}}};
-constexpr Table<MissingPolicy, 2> kMissingPolicy{
-    {{MissingPolicy::error, "error"}, {MissingPolicy::interpolate, "interpolate"}}};
+constexpr Table<MissingPolicy, 3> kMissingPolicy{{{MissingPolicy::error, "error"},
+                                                  {MissingPolicy::interpolate, "interpolate"},
+                                                  {MissingPolicy::skip, "skip"}}};
+constexpr Table<GapPolicy, 2> kGapPolicy{{{GapPolicy::insert, "insert"}, {GapPolicy::error, "error"}}};
 constexpr Table<EventShape, 3> kEventShape{
     {{EventShape::pulse, "pulse"}, {EventShape::step, "step"}, {EventShape::ramp, "ramp"}}};
 constexpr Table<FutureMode, 2> kFutureMode{
@@ -77,6 +79,7 @@ size_t edit_distance(std::string_view a, std::string_view b) {
 
 std::string_view to_string(TransformKind v) { return lookup(kTransformKind, v); }
 std::string_view to_string(MissingPolicy v) { return lookup(kMissingPolicy, v); }
+std::string_view to_string(GapPolicy v) { return lookup(kGapPolicy, v); }
 std::string_view to_string(EventShape v) { return lookup(kEventShape, v); }
 std::string_view to_string(FutureMode v) { return lookup(kFutureMode, v); }
 std::string_view to_string(ConstantMode v) { return lookup(kConstantMode, v); }
@@ -96,6 +99,7 @@ std::string_view to_string(WindowKind v) { return lookup(kWindowKind, v); }
 
 LAGSIEVE_ENUM_NAMES(TransformKind, kTransformKind)
 LAGSIEVE_ENUM_NAMES(MissingPolicy, kMissingPolicy)
+LAGSIEVE_ENUM_NAMES(GapPolicy, kGapPolicy)
 LAGSIEVE_ENUM_NAMES(EventShape, kEventShape)
 LAGSIEVE_ENUM_NAMES(FutureMode, kFutureMode)
 LAGSIEVE_ENUM_NAMES(ConstantMode, kConstantMode)

@@ -11,6 +11,7 @@ namespace lagsieve {
 
 std::string_view to_string(TransformKind v);
 std::string_view to_string(MissingPolicy v);
+std::string_view to_string(GapPolicy v);
 std::string_view to_string(EventShape v);
 std::string_view to_string(FutureMode v);
 std::string_view to_string(ConstantMode v);
@@ -32,6 +33,7 @@ std::vector<std::string> enum_choices();
   std::vector<std::string> enum_choices<Enum>();
 LAGSIEVE_DECLARE_ENUM_NAMES(TransformKind)
 LAGSIEVE_DECLARE_ENUM_NAMES(MissingPolicy)
+LAGSIEVE_DECLARE_ENUM_NAMES(GapPolicy)
 LAGSIEVE_DECLARE_ENUM_NAMES(EventShape)
 LAGSIEVE_DECLARE_ENUM_NAMES(FutureMode)
 LAGSIEVE_DECLARE_ENUM_NAMES(ConstantMode)

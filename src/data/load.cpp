@@ -44,58 +44,102 @@ int find_column(const CsvTable& table, const std::string& name, const std::strin
     listing += table.header[i];
   }
   if (shown < table.header.size()) listing += fmt::format(", ... ({} in all)", table.header.size());
-  throw InputError(fmt::format("{}: column '{}' ({}) is not in the header; {}columns are: {}",
-                               table.source, name, role,
-                               guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess),
-                               listing));
+  throw InputError(fmt::format(
+      "{}: column '{}' ({}) is not in the header; {}columns are: {}", table.source, name, role,
+      guess.empty() ? "" : fmt::format("did you mean '{}'? ", guess), listing));
 }
 
-// Reads a numeric column; missing cells become NaN and are then filled or reported.
-std::vector<double> read_numeric(const CsvTable& table, int col, const std::string& role,
-                                 MissingPolicy policy, int& interpolated) {
+// How the rows of the series map to the file: rows inserted for missing periods have no line.
+struct RowMap {
+  std::vector<int> table_row;  // per series row: the table row, or -1 for an inserted row
+  std::vector<std::string> time;
+};
+
+std::string where_row(const CsvTable& table, const RowMap& map, int r) {
+  const int tr = map.table_row[r];
+  if (tr >= 0) return table.where(tr);
+  return fmt::format("{}: row inserted for the missing period {}", table.source, map.time[r]);
+}
+
+// Up to five rows by where_row, for messages that name every row of a problem.
+std::string list_rows(const CsvTable& table, const RowMap& map, const std::vector<int>& rows) {
+  std::string out;
+  for (size_t i = 0; i < rows.size() && i < 5; ++i) {
+    const int tr = map.table_row[rows[i]];
+    out += (i ? ", " : "") + (tr >= 0 ? fmt::format("line {}", table.lines[tr])
+                                      : fmt::format("inserted {}", map.time[rows[i]]));
+  }
+  if (rows.size() > 5) out += fmt::format(" and {} more", rows.size() - 5);
+  return out;
+}
+
+// Reads a numeric column onto the series rows; missing cells (and inserted rows) become NaN and
+// are then left (skip, target only), filled linearly (interpolate) or refused (error).
+std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int col, bool is_target,
+                                 MissingPolicy policy, SeriesData& s) {
   const auto& name = table.header[col];
-  const int n = table.row_count();
-  std::vector<double> v(static_cast<size_t>(n));
+  const std::string role = is_target ? "target" : "input";
+  const int n = static_cast<int>(map.table_row.size());
+  std::vector<double> v(static_cast<size_t>(n), std::nan(""));
   std::vector<int> missing;
   for (int r = 0; r < n; ++r) {
-    const auto& cell = table.rows[r][col];
+    const int tr = map.table_row[r];
+    if (tr < 0) {
+      missing.push_back(r);
+      continue;
+    }
+    const auto& cell = table.rows[tr][col];
     if (is_missing_marker(cell)) {
-      if (policy == MissingPolicy::error)
-        throw InputError(fmt::format(
-            "{}: {} column '{}' (column {}) has a missing value{}; fill it in, or set "
-            "`data.missing: interpolate` to fill interior gaps linearly",
-            table.where(r), role, name, col + 1, cell.empty() ? "" : fmt::format(" ('{}')", cell)));
-      v[r] = std::nan("");
       missing.push_back(r);
       continue;
     }
     const auto x = parse_number(cell);
     if (!x)
-      throw InputError(fmt::format("{}: {} column '{}' (column {}): '{}' is not a number; use a "
-                                   "plain decimal number (e.g. 12.5 or 1.2e3), or leave the cell "
-                                   "empty for a missing value",
-                                   table.where(r), role, name, col + 1, cell));
+      throw InputError(
+          fmt::format("{}: {} column '{}' (column {}): '{}' is not a number; use a "
+                      "plain decimal number (e.g. 12.5 or 1.2e3), or leave the cell "
+                      "empty for a missing value",
+                      table.where(tr), role, name, col + 1, cell));
     if (!std::isfinite(*x))
-      throw InputError(fmt::format("{}: {} column '{}' (column {}): '{}' is not finite; only "
-                                   "finite numbers can be modelled",
-                                   table.where(r), role, name, col + 1, cell));
+      throw InputError(
+          fmt::format("{}: {} column '{}' (column {}): '{}' is not finite; only "
+                      "finite numbers can be modelled",
+                      table.where(tr), role, name, col + 1, cell));
     v[r] = *x;
   }
   if (missing.empty()) return v;
   if (missing.size() == static_cast<size_t>(n))
-    throw InputError(fmt::format("{}: {} column '{}' has no values at all", table.source, role,
-                                 name));
+    throw InputError(
+        fmt::format("{}: {} column '{}' has no values at all", table.source, role, name));
+  SeriesData::ColumnFill fill{name, is_target, static_cast<int>(missing.size()), 0};
+  const std::string hint =
+      is_target ? "`data.missing: skip` (the default: left out of the likelihood) or "
+                  "`interpolate`"
+                : "`data.missing_inputs: interpolate` to fill interior gaps linearly";
+  if (policy == MissingPolicy::error)
+    throw InputError(fmt::format(
+        "{}: {} column '{}' (column {}) has {} missing value{} ({}); fill them in, or set {}",
+        where_row(table, map, missing.front()), role, name, col + 1, missing.size(),
+        missing.size() == 1 ? "" : "s", list_rows(table, map, missing), hint));
+  if (policy == MissingPolicy::skip) {
+    s.fills.push_back(fill);
+    return v;
+  }
   // Interpolate: only gaps with an observed value on both sides.
   if (missing.front() == 0)
     throw InputError(fmt::format(
         "{}: {} column '{}' starts with a missing value; interpolation only fills gaps between "
-        "two observed values, so remove the leading rows or fill them in",
-        table.where(0), role, name));
+        "two observed values, so remove the leading rows or fill them in{}",
+        where_row(table, map, 0), role, name, is_target ? " (or use `data.missing: skip`)" : ""));
   if (missing.back() == n - 1)
     throw InputError(fmt::format(
         "{}: {} column '{}' ends with a missing value; interpolation only fills gaps between "
-        "two observed values, so remove the trailing rows or fill them in",
-        table.where(n - 1), role, name));
+        "two observed values, so remove the trailing rows or fill them in{}",
+        where_row(table, map, n - 1), role, name,
+        is_target ? " (or use `data.missing: skip`, which forecasts from the last observed "
+                    "value)"
+                  : ""));
+  if (is_target) s.target_filled.assign(static_cast<size_t>(n), 0);
   for (size_t i = 0; i < missing.size();) {
     const int lo = missing[i] - 1;  // last observed before the gap
     size_t j = i;
@@ -104,55 +148,129 @@ std::vector<double> read_numeric(const CsvTable& table, int col, const std::stri
     for (int r = lo + 1; r < hi; ++r) {
       const double w = static_cast<double>(r - lo) / static_cast<double>(hi - lo);
       v[r] = (1.0 - w) * v[lo] + w * v[hi];
+      if (is_target) s.target_filled[r] = 1;
     }
-    interpolated += hi - lo - 1;
+    s.interpolated += hi - lo - 1;
+    fill.interpolated += hi - lo - 1;
     i = j + 1;
   }
+  s.fills.push_back(fill);
   return v;
 }
 
-std::vector<std::string> read_time(const CsvTable& table, int col) {
+// Reads and checks the time column, inserting a row for every missing period of a regular
+// calendar (or refusing it with `gaps: error`).
+RowMap read_time(const RunConfig& config, const CsvTable& table, int col, SeriesData& s) {
   const auto& name = table.header[col];
   const int n = table.row_count();
-  std::vector<std::string> time(static_cast<size_t>(n));
-  std::optional<TimeStamp> prev;
+  std::vector<std::string> raw(static_cast<size_t>(n));
+  std::vector<std::string> where(static_cast<size_t>(n));
   for (int r = 0; r < n; ++r) {
-    const auto& cell = table.rows[r][col];
-    if (cell.empty())
-      throw InputError(fmt::format("{}: time column '{}' is empty on this row; every row needs a "
-                                   "time stamp",
-                                   table.where(r), name));
-    const auto ts = parse_time_stamp(cell);
-    if (!ts)
-      throw InputError(fmt::format("{}: time column '{}': '{}' is not a time stamp; write "
-                                   "YYYY-MM-DD, YYYY-MM-DD HH:MM[:SS] or an integer",
-                                   table.where(r), name, cell));
-    if (prev) {
-      if ((ts->format == TimeFormat::integer) != (prev->format == TimeFormat::integer))
-        throw InputError(fmt::format("{}: time column '{}': '{}' mixes integers and dates; use "
-                                     "one kind of time stamp throughout",
-                                     table.where(r), name, cell));
-      if (ts->key == prev->key)
-        throw InputError(fmt::format("{}: time column '{}': time stamp {} repeats the one on "
-                                     "line {}; each time stamp may appear once",
-                                     table.where(r), name, cell, table.lines[r - 1]));
-      if (ts->key < prev->key)
-        throw InputError(fmt::format("{}: time column '{}': time stamp {} comes before {} on "
-                                     "line {}; sort the rows by time",
-                                     table.where(r), name, cell, time[r - 1],
-                                     table.lines[r - 1]));
-    }
-    prev = ts;
-    time[r] = cell;
+    raw[r] = table.rows[r][col];
+    where[r] = table.where(r);
   }
-  return time;
+  const auto& fmt_text = config.data.time_format;
+  const TimeAnalysis a = analyse_time(raw, fmt_text, name, where, table.source);
+  s.time_format = fmt_text;
+  s.frequency = a.label();
+  s.seasonal_hint = default_seasonal_period(a.frequency);
+  for (const auto& c : a.offset_changes) {
+    const int moved = c.to_minutes - c.from_minutes;
+    s.time_notes.push_back(fmt::format(
+        "{}: the offset changes from {:+03d}:{:02d} to {:+03d}:{:02d} at '{}' (a daylight-saving "
+        "change: the local clock {} an hour); rows stay aligned by the UTC instant",
+        table.where(c.row), c.from_minutes / 60, std::abs(c.from_minutes % 60), c.to_minutes / 60,
+        std::abs(c.to_minutes % 60), raw[c.row], moved > 0 ? "skips" : "repeats"));
+  }
+  RowMap map;
+  for (int r = 0; r < n; ++r) {
+    for (const auto& g : a.gaps) {
+      if (g.before_row != r) continue;
+      if (config.data.gaps == GapPolicy::error)
+        throw InputError(fmt::format(
+            "{}: time column '{}': {} {} period{} missing before '{}' (after '{}'); add the "
+            "rows (empty cells are missing values) or set `data.gaps: insert`",
+            table.where(r), name, g.count, a.label(), g.count == 1 ? " is" : "s are", raw[r],
+            raw[r - 1]));
+      SeriesData::InsertedGap ins{static_cast<int>(map.table_row.size()), g.count, ""};
+      for (int k = 1; k <= g.count; ++k) {
+        map.table_row.push_back(-1);
+        map.time.push_back(stamp_of_period(a, k, raw[r - 1], fmt_text));
+      }
+      ins.first_stamp = map.time[ins.row];
+      s.gaps.push_back(ins);
+      s.time_notes.push_back(fmt::format(
+          "{}: {} missing {} period{} inserted before '{}' (rows {} to {}, 1-based), as missing "
+          "values",
+          table.where(r), g.count, a.label(), g.count == 1 ? "" : "s", raw[r], ins.row + 1,
+          ins.row + g.count));
+    }
+    map.table_row.push_back(r);
+    map.time.push_back(raw[r]);
+  }
+  return map;
 }
 
+// Constant over the observed values (NaN = missing is ignored).
 bool is_constant(const std::vector<double>& v) {
-  return std::all_of(v.begin(), v.end(), [&](double x) { return x == v.front(); });
+  const auto first = std::find_if(v.begin(), v.end(), [](double x) { return !std::isnan(x); });
+  return std::all_of(v.begin(), v.end(),
+                     [&](double x) { return std::isnan(x) || first == v.end() || x == *first; });
+}
+
+double first_observed(const std::vector<double>& v) {
+  for (double x : v)
+    if (!std::isnan(x)) return x;
+  return std::nan("");
 }
 
 }  // namespace
+
+std::vector<std::string> describe_missing(const SeriesData& data) {
+  std::vector<std::string> out;
+  for (const auto& f : data.fills) {
+    if (f.missing == 0) continue;
+    const std::string what = f.is_target ? "target" : "input";
+    if (f.interpolated == f.missing)
+      out.push_back(fmt::format("{} '{}': {} missing value{} filled by linear interpolation{}",
+                                what, f.column, f.missing, f.missing == 1 ? "" : "s",
+                                f.is_target ? " (never scored as observations)" : ""));
+    else
+      out.push_back(fmt::format(
+          "{} '{}': {} missing value{} left out of the likelihood (exact "
+          "likelihood of the {} observed values)",
+          what, f.column, f.missing, f.missing == 1 ? "" : "s", data.rows() - f.missing));
+  }
+  for (const auto& g : data.gaps)
+    out.push_back(fmt::format("{} missing period{} inserted from {} (row {}, 1-based)", g.count,
+                              g.count == 1 ? "" : "s", g.first_stamp, g.row + 1));
+  for (const auto& n : data.time_notes)
+    if (n.find("daylight") != std::string::npos) out.push_back(n);
+  return out;
+}
+
+void apply_seasonal_default(RunConfig& config, const SeriesData& data) {
+  if (!config.differencing_period_from_data && !config.noise_period_from_data) return;
+  if (data.seasonal_hint < 2)
+    throw InputError(fmt::format(
+        "{}: seasonal terms are used without a period, and the data's frequency ({}) suggests "
+        "none; set `noise.period` (or `differencing.period`)",
+        config.config_file.string(), data.frequency));
+  std::string what;
+  if (config.differencing_period_from_data) {
+    config.differencing.period = data.seasonal_hint;
+    what = "differencing.period";
+  }
+  if (config.noise_period_from_data || config.noise.period < 2) {
+    config.noise.period = data.seasonal_hint;
+    what += what.empty() ? "noise.period" : " and noise.period";
+  }
+  config.differencing_period_from_data = config.noise_period_from_data = false;
+  config.seasonal_note = fmt::format(
+      "{} {} from the {} frequency of the data (not set in the "
+      "config)",
+      what, data.seasonal_hint, data.frequency);
+}
 
 int min_rows_needed(const RunConfig& config) {
   int input_lag = 0;
@@ -180,18 +298,18 @@ void check_feasible(const RunConfig& config, const SeriesData& series) {
         "largest model has {} parameters, and {} rows must remain); narrow the ranges or supply "
         "more data",
         series.source_file, series.target_name, n, cfg, needed, config.differencing.lost(),
-        input_lag, needed - kMinSpareRows - config.differencing.lost() - input_lag,
-        kMinSpareRows));
+        input_lag, needed - kMinSpareRows - config.differencing.lost() - input_lag, kMinSpareRows));
   }
   const auto& bt = config.backtest;
   if (!bt.enabled) return;
   const int first = bt.first_origin > 0 ? bt.first_origin : (2 * n) / 3;
   if (bt.first_origin > 0 && first >= n)
-    throw InputError(fmt::format("{}: backtest.first_origin: {} is not inside the {} rows of "
-                                 "series '{}'; choose a row index below {}",
-                                 cfg, first, n, series.target_name, n));
-  const int training = bt.window == WindowKind::sliding && bt.window_length > 0 ? bt.window_length
-                                                                                : first;
+    throw InputError(
+        fmt::format("{}: backtest.first_origin: {} is not inside the {} rows of "
+                    "series '{}'; choose a row index below {}",
+                    cfg, first, n, series.target_name, n));
+  const int training =
+      bt.window == WindowKind::sliding && bt.window_length > 0 ? bt.window_length : first;
   if (training < needed)
     throw InputError(fmt::format(
         "{}: {}: the first backtest origin trains on {} rows of series '{}', fewer than the {} "
@@ -205,9 +323,10 @@ void check_feasible(const RunConfig& config, const SeriesData& series) {
                                                       "choice is 2/3 of the rows) or narrow "
                                                       "the ranges"));
   if (bt.window == WindowKind::sliding && bt.window_length > first)
-    throw InputError(fmt::format("{}: backtest.window_length: {} is longer than the {} rows "
-                                 "before the first origin; shorten it or move the origin later",
-                                 cfg, bt.window_length, first));
+    throw InputError(
+        fmt::format("{}: backtest.window_length: {} is longer than the {} rows "
+                    "before the first origin; shorten it or move the origin later",
+                    cfg, bt.window_length, first));
 }
 
 SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
@@ -218,32 +337,37 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
   SeriesData s;
   s.target_name = target_column;
   s.source_file = table.source;
-  const MissingPolicy policy = config.data.missing;
-
+  RowMap map;
   if (!config.data.time.empty()) {
     const int tc = find_column(table, config.data.time, "data.time in " + cfg);
     if (config.data.time == target_column)
-      throw InputError(fmt::format("{}: data.time: '{}' is also the target column; the time "
-                                   "column only orders the rows",
-                                   cfg, target_column));
-    s.time = read_time(table, tc);
+      throw InputError(
+          fmt::format("{}: data.time: '{}' is also the target column; the time "
+                      "column only orders the rows",
+                      cfg, target_column));
+    map = read_time(config, table, tc, s);
+    s.time = map.time;
   } else {
-    s.time.assign(static_cast<size_t>(table.row_count()), "");
+    for (int r = 0; r < table.row_count(); ++r) map.table_row.push_back(r);
+    map.time.assign(static_cast<size_t>(table.row_count()), "");
+    s.time = map.time;
   }
 
   const int yc = find_column(table, target_column, "the target in " + cfg);
-  s.target = read_numeric(table, yc, "target", policy, s.interpolated);
+  s.target = read_numeric(table, map, yc, true, config.data.missing, s);
+  if (s.fills.empty()) s.fills.push_back({target_column, true, 0, 0});
   if (is_constant(s.target))
-    throw InputError(fmt::format("{}: target column '{}' is constant (every value is {}); there "
-                                 "is nothing to model",
-                                 table.source, target_column, s.target.front()));
+    throw InputError(
+        fmt::format("{}: target column '{}' is constant (every value is {}); there "
+                    "is nothing to model",
+                    table.source, target_column, first_observed(s.target)));
   if (config.target.transform.kind != TransformKind::none) {
     for (int r = 0; r < s.rows(); ++r)
-      if (!(s.target[r] > 0.0))
+      if (!std::isnan(s.target[r]) && !(s.target[r] > 0.0))
         throw InputError(fmt::format(
             "{}: target column '{}': value {} is not positive, so the {} transform is undefined; "
             "use `target.transform: none` or shift the series",
-            table.where(r), target_column, s.target[r],
+            where_row(table, map, r), target_column, s.target[r],
             to_string(config.target.transform.kind)));
   }
 
@@ -251,13 +375,13 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
     const auto what = fmt::format("input '{}' ({}:{})", in.name, cfg, in.line);
     std::vector<double> values;
     if (in.is_event) {
-      values = event_values(in.shape, event_row(in, s.time, cfg), s.rows());
+      values = event_column(in, s.time, s.rows(), cfg, s.time_format);
     } else {
       if (in.name == config.data.time)
         throw InputError(fmt::format("{}:{}: input '{}' is the time column; it cannot be an input",
                                      cfg, in.line, in.name));
       const int c = find_column(table, in.name, "an input in " + cfg);
-      values = read_numeric(table, c, "input", policy, s.interpolated);
+      values = read_numeric(table, map, c, false, config.data.input_policy(), s);
     }
     if (is_constant(values))
       throw InputError(fmt::format(
@@ -267,6 +391,12 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
           in.is_event ? "or move `at` inside the data" : "or check the column"));
     s.input_names.push_back(in.name);
     s.inputs.push_back(std::move(values));
+  }
+  if (config.differencing_period_from_data || config.noise_period_from_data) {
+    RunConfig resolved = config;
+    apply_seasonal_default(resolved, s);
+    check_feasible(resolved, s);
+    return s;
   }
   check_feasible(config, s);
   return s;

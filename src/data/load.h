@@ -35,6 +35,17 @@ SeriesData load_series_from_csv(const RunConfig& config, const std::filesystem::
 SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
                              const std::string& target_column);
 
+// One line per column with missing cells (target first) saying how many and what was done
+// (left out of the likelihood, or interpolated), then the inserted gaps and time notes; empty
+// when the data are complete. Every summary of the data (validate, fit, report) shows these.
+std::vector<std::string> describe_missing(const SeriesData& data);
+
+// Seasonal terms used without a period (config.differencing_period_from_data,
+// noise_period_from_data): sets the periods to the one the data's frequency suggests (12
+// monthly, 4 quarterly, 7 daily, 24 hourly, 52 weekly) and says so in config.seasonal_note.
+// Throws InputError when the frequency suggests none.
+void apply_seasonal_default(RunConfig& config, const SeriesData& data);
+
 // Rows the largest candidate of the grid needs: the differencing loss, the longest input lag
 // (delay + numerator), every parameter of the largest model (constant, omegas, deltas, ARMA
 // terms, sigma^2) and kMinSpareRows more, so every candidate keeps some degrees of freedom.

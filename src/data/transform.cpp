@@ -35,7 +35,7 @@ std::vector<double> apply_transform(std::span<const double> y, const TargetTrans
                                     const char* what) {
   std::vector<double> out(y.size());
   for (size_t i = 0; i < y.size(); ++i) {
-    if (t.kind != TransformKind::none && !(y[i] > 0.0))
+    if (t.kind != TransformKind::none && !(y[i] > 0.0) && !std::isnan(y[i]))  // NaN: missing
       throw InputError(fmt::format(
           "{} value {} at row {} is not positive, so the {} transform is undefined; use "
           "`transform: none` or shift the series",
@@ -72,7 +72,9 @@ std::vector<double> difference(std::span<const double> x, const Differencing& di
   // rounding here is integrated d + D times again by undifference.
   for (size_t t = lost; t < x.size(); ++t) {
     long double v = x[t];
-    for (size_t k = 0; k < lost; ++k) v -= static_cast<long double>(c[k]) * x[t - k - 1];
+    // Zero coefficients skipped: a missing value (NaN) reaches only the differences it is in.
+    for (size_t k = 0; k < lost; ++k)
+      if (c[k] != 0.0) v -= static_cast<long double>(c[k]) * x[t - k - 1];
     w[t - lost] = static_cast<double>(v);
   }
   return w;

@@ -91,9 +91,16 @@ double mase_scale(std::span<const double> training, int period) {
     throw InputError(fmt::format("MASE scale: the training window has {} values; the naive "
                                  "forecast with period {} needs at least {}",
                                  training.size(), period, period + 1));
+  // Pairs with a missing value (NaN) are left out.
   double sum = 0.0;
-  for (size_t t = m; t < training.size(); ++t) sum += std::fabs(training[t] - training[t - m]);
-  return sum / static_cast<double>(training.size() - m);
+  size_t count = 0;
+  for (size_t t = m; t < training.size(); ++t) {
+    const double d = std::fabs(training[t] - training[t - m]);
+    if (std::isnan(d)) continue;
+    sum += d;
+    ++count;
+  }
+  return count > 0 ? sum / static_cast<double>(count) : std::numeric_limits<double>::quiet_NaN();
 }
 
 double interval_score(double lower, double upper, double actual, double level) {

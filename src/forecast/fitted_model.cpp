@@ -122,7 +122,9 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
     tr.first_time = data.time.front();
     tr.last_time = data.time.back();
   }
-  tr.frequency = infer_frequency(data.time);
+  tr.frequency = data.frequency;
+  tr.time_format = data.time_format;
+  tr.missing_target = data.target_missing();
   // Every input column of the data (not just the model's), so any revision is noticed.
   std::vector<std::string> all_columns;
   for (const auto& ic : config.inputs)

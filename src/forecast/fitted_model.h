@@ -47,7 +47,9 @@ struct TrainingInfo {
   std::string target_column;
   int rows = 0;                          // rows of the training data
   std::string first_time, last_time;     // "" without a time column
-  std::string frequency;                 // infer_frequency of the time column
+  std::string frequency;                 // inferred from the time column ("monthly", ...)
+  std::string time_format;               // data.time_format ("" = a recognised form)
+  int missing_target = 0;                // target values missing in the training rows
   std::string fingerprint;               // of the training rows (data_fingerprint)
   std::string config_text;               // the YAML the model came from (re-validation)
   std::string config_file;

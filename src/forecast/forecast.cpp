@@ -135,8 +135,10 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
       ic.is_event = true;
       ic.shape = use.shape;
       ic.at = use.at;
-      const int row = event_row(ic, history.time, model.training.config_file);
-      original = event_values(use.shape, row, rows + horizon);
+      auto time = history.time;
+      const auto ahead = next_time_stamps(history.time, horizon, history.time_format);
+      time.insert(time.end(), ahead.begin(), ahead.end());
+      original = event_column(ic, time, rows, model.training.config_file, history.time_format);
       known = horizon;
       out.input_treatment.push_back("known (event)");
     } else {
@@ -242,17 +244,16 @@ bool usable_covariance(const Eigen::MatrixXd& cov, size_t size) {
          cov.cols() == static_cast<Eigen::Index>(size) && cov.allFinite();
 }
 
-}  // namespace
-
-ForecastResult forecast(const FittedModel& model, const SeriesData& history,
-                        const std::vector<InputFuture>& futures, const ForecastOptions& options) {
+ForecastResult forecast_complete(const FittedModel& model, const SeriesData& history,
+                                 const std::vector<InputFuture>& futures,
+                                 const ForecastOptions& options) {
   const ModelSpec& spec = model.spec;
   const int horizon = options.horizon;
   if (horizon < 1)
     throw InputError(fmt::format("the horizon must be at least 1 (got {})", horizon));
   ForecastResult out;
   out.origin = history.rows();
-  out.time = next_time_stamps(history.time, horizon);
+  out.time = next_time_stamps(history.time, horizon, history.time_format);
   out.levels = options.levels;
   Paths base = compute_paths(model, history, futures, options, true);
   out.input_treatment = std::move(base.input_treatment);
@@ -378,6 +379,45 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     out.upper_known.push_back(std::move(hi_k));
   }
   return out;
+}
+
+}  // namespace
+
+ForecastResult forecast(const FittedModel& model, const SeriesData& history,
+                        const std::vector<InputFuture>& futures, const ForecastOptions& options) {
+  // The ragged edge: the forecast starts after the last row from which the model can start
+  // (the target and the `lost` values before it observed, so the differencing can be undone);
+  // the input values of the rows after it are known future values.
+  const int lost = model.spec.differencing.lost();
+  const int rows = history.rows();
+  int end = rows;  // rows of history used
+  auto usable_end = [&](int e) {
+    for (int t = e - std::max(lost, 1); t < e; ++t)
+      if (t < 0 || std::isnan(history.target[t])) return false;
+    return true;
+  };
+  while (end > 0 && !usable_end(end)) --end;
+  if (end == rows || end == 0) return forecast_complete(model, history, futures, options);
+  const int trailing = rows - end;
+  const SeriesData head = slice_rows(history, 0, end);
+  std::vector<InputFuture> extended;
+  for (const auto& use : model.inputs) {
+    const int index = history.input_index(use.name);
+    const InputFuture* supplied = nullptr;
+    for (const auto& f : futures)
+      if (f.name == use.name) supplied = &f;
+    if (index < 0) {
+      if (supplied) extended.push_back(*supplied);
+      continue;
+    }
+    InputFuture f{use.name, std::vector<double>(history.inputs[index].begin() + end,
+                                                history.inputs[index].end())};
+    if (supplied) f.values.insert(f.values.end(), supplied->values.begin(), supplied->values.end());
+    extended.push_back(std::move(f));
+  }
+  ForecastOptions o = options;
+  o.horizon = options.horizon + trailing;
+  return forecast_complete(model, head, extended, o);
 }
 
 }  // namespace lagsieve

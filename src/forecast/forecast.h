@@ -64,6 +64,10 @@ struct ForecastResult {
 
 // Forecasts rows history.rows() .. history.rows() + horizon - 1. `history` holds the target and
 // every input of the model (events are regenerated); the model is re-filtered, not re-fitted.
+// Missing target values inside the history are predicted through (the filter skips them). When
+// the history ends with missing target values (a ragged edge), the forecast starts after the
+// last usable row instead (`origin` says where; the steps cover the missing rows too, and the
+// input values of those rows are used as known future values).
 ForecastResult forecast(const FittedModel& model, const SeriesData& history,
                         const std::vector<InputFuture>& futures, const ForecastOptions& options);
 

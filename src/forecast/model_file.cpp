@@ -214,6 +214,7 @@ json to_json(const FittedModel& m) {
   doc["training"] = {{"source_file", tr.source_file}, {"target_column", tr.target_column},
                      {"rows", tr.rows},               {"first_time", tr.first_time},
                      {"last_time", tr.last_time},     {"frequency", tr.frequency},
+                     {"time_format", tr.time_format}, {"missing_target", tr.missing_target},
                      {"fingerprint", tr.fingerprint}, {"config_file", tr.config_file},
                      {"config_text", tr.config_text}};
   doc["backtest"] = m.backtest;
@@ -351,6 +352,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   tr.first_time = r.text(tj2, "first_time", "training.");
   tr.last_time = r.text(tj2, "last_time", "training.");
   tr.frequency = r.text(tj2, "frequency", "training.");
+  tr.time_format = tj2.value("time_format", std::string());  // absent in older model files
+  tr.missing_target = tj2.value("missing_target", 0);
   tr.fingerprint = r.text(tj2, "fingerprint", "training.");
   tr.config_file = r.text(tj2, "config_file", "training.");
   tr.config_text = r.text(tj2, "config_text", "training.");

@@ -1,12 +1,14 @@
 #include "io/config.h"
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 #include <yaml-cpp/yaml.h>
 
 #include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <limits>
+#include <map>
 #include <set>
 #include <sstream>
 #include <string>
@@ -14,6 +16,7 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "io/csv.h"
 #include "io/yaml_reader.h"
 
 namespace lagsieve {
@@ -98,11 +101,21 @@ fs::path resolve(const fs::path& base_dir, const std::string& p) {
 
 void read_data(const Reader& rd, const YAML::Node& node, const fs::path& base, DataConfig& data) {
   const std::string path = "data";
-  rd.check_map(node, path, {"file", "time", "missing"});
+  rd.check_map(node, path, {"file", "time", "time_format", "missing", "missing_inputs", "gaps"});
   if (!node["file"]) rd.fail(node, path, "missing key `file` (the CSV file with the series)");
   data.file = resolve(base, rd.get_string(node["file"], "data.file"));
   if (const auto n = node["time"]; n && !n.IsNull()) data.time = rd.get_string(n, "data.time");
+  if (const auto n = node["time_format"]; n && !n.IsNull())
+    data.time_format = rd.get_string(n, "data.time_format");
   if (const auto n = node["missing"]) data.missing = rd.get_enum<MissingPolicy>(n, "data.missing");
+  if (const auto n = node["missing_inputs"]) {
+    data.missing_inputs = rd.get_enum<MissingPolicy>(n, "data.missing_inputs");
+    if (*data.missing_inputs == MissingPolicy::skip)
+      rd.fail(n, "data.missing_inputs",
+              "`skip` applies to the target only (a model needs every input value it uses); "
+              "use `interpolate` or `error`");
+  }
+  if (const auto n = node["gaps"]) data.gaps = rd.get_enum<GapPolicy>(n, "data.gaps");
 }
 
 void read_target(const Reader& rd, const YAML::Node& node, TargetConfig& target) {
@@ -166,10 +179,84 @@ void read_differencing(const Reader& rd, const YAML::Node& node, Differencing& d
               fmt::format("{} is above {}", diff.seasonal, kMaxDifferencing));
   }
   if (const auto n = node["period"]) diff.period = rd.get_int(n, "differencing.period", 1);
+  if (diff.seasonal > 0 && !node["period"]) return;  // from the data's frequency (load.h)
   if (diff.seasonal > 0 && diff.period < 2)
     rd.fail(node, "differencing.period",
             "a seasonal difference needs `period` of at least 2 (e.g. 7 for daily data with a "
             "weekly cycle, 12 for monthly data)");
+}
+
+// `at`: one stamp, a {from, to} window, or a list of either (a recurring event), written as
+// the canonical text of data/events.h ("a;b;c..d").
+std::string read_event_at(const Reader& rd, const YAML::Node& node, const std::string& path) {
+  auto one = [&](const YAML::Node& n, const std::string& key) -> std::string {
+    if (n.IsMap()) {
+      rd.check_map(n, key, {"from", "to"});
+      if (!n["from"] || !n["to"])
+        rd.fail(n, key, "a window needs both `from` and `to` (time stamps, inclusive)");
+      return rd.get_string(n["from"], key + ".from") + ".." + rd.get_string(n["to"], key + ".to");
+    }
+    const auto text = rd.get_string(n, key);
+    if (text.find(';') != std::string::npos || text.find("..") != std::string::npos)
+      rd.fail(n, key, "write several dates as a YAML list, and a window as {from: .., to: ..}");
+    return text;
+  };
+  if (!node.IsSequence()) return one(node, path);
+  if (node.size() == 0) rd.fail(node, path, "an empty list; give at least one time stamp");
+  std::string out;
+  for (size_t i = 0; i < node.size(); ++i)
+    out += (i ? ";" : "") + one(node[i], fmt::format("{}[{}]", path, i));
+  return out;
+}
+
+// `events: {file: holidays.csv, date: date, name: name, to: to}`: one pulse event per distinct
+// name (in order of first appearance), at every date listed for it (a window when the optional
+// `to` column is filled).
+void read_event_file(const Reader& rd, const YAML::Node& node, const fs::path& base,
+                     std::vector<InputConfig>& inputs) {
+  const std::string path = "events";
+  rd.check_map(node, path, {"file", "date", "name", "to", "shape"});
+  if (!node["file"]) rd.fail(node, path, "missing key `file` (a CSV of dates with a name column)");
+  const auto file = resolve(base, rd.get_string(node["file"], "events.file"));
+  const std::string date_col = node["date"] ? rd.get_string(node["date"], "events.date") : "date";
+  const std::string name_col = node["name"] ? rd.get_string(node["name"], "events.name") : "name";
+  const std::string to_col = node["to"] ? rd.get_string(node["to"], "events.to") : "";
+  EventShape shape = EventShape::pulse;
+  if (const auto n = node["shape"]) shape = rd.get_enum<EventShape>(n, "events.shape");
+  const CsvTable table = read_csv(file);
+  const int dc = table.column_index(date_col), nc = table.column_index(name_col);
+  // The window end: the named column, or a column called `to` when the file has one.
+  const int tc = to_col.empty() ? table.column_index("to") : table.column_index(to_col);
+  if (dc < 0 || nc < 0 || (!to_col.empty() && tc < 0))
+    throw InputError(fmt::format("{}: the event file needs columns '{}' and '{}'{}; its header "
+                                 "is: {}",
+                                 table.source, date_col, name_col,
+                                 to_col.empty() ? "" : fmt::format(" and '{}'", to_col),
+                                 fmt::join(table.header, ", ")));
+  std::vector<std::string> order;
+  std::map<std::string, std::string> at;
+  for (int r = 0; r < table.row_count(); ++r) {
+    const auto& name = table.rows[r][nc];
+    const auto& date = table.rows[r][dc];
+    if (name.empty() || date.empty())
+      throw InputError(fmt::format("{}: an event row needs a name and a date", table.where(r)));
+    std::string occurrence = date;
+    if (tc >= 0 && !table.rows[r][tc].empty()) occurrence += ".." + table.rows[r][tc];
+    if (!at.count(name)) order.push_back(name);
+    at[name] += (at[name].empty() ? "" : ";") + occurrence;
+  }
+  for (const auto& name : order) {
+    for (const auto& in : inputs)
+      if (in.name == name)
+        rd.fail(node, path, fmt::format("event '{}' of {} is also an input", name, file.string()));
+    InputConfig in;
+    in.name = name;
+    in.is_event = true;
+    in.shape = shape;
+    in.at = at[name];
+    in.line = node.Mark().line + 1;
+    inputs.push_back(std::move(in));
+  }
 }
 
 void read_input(const Reader& rd, const YAML::Node& node, const std::string& path,
@@ -194,7 +281,7 @@ void read_input(const Reader& rd, const YAML::Node& node, const std::string& pat
       in.shape = rd.get_enum<EventShape>(n, key_path(path, "shape"));
     if (!node["at"])
       rd.fail(node, path, "an event needs `at`: a time stamp of the data or a row index (from 0)");
-    in.at = rd.get_string(node["at"], key_path(path, "at"));
+    in.at = read_event_at(rd, node["at"], key_path(path, "at"));
     if (node["future"] || node["known_steps"] || node["model"]) {
       const auto key = node["future"] ? "future" : node["known_steps"] ? "known_steps" : "model";
       rd.fail(node[key], key_path(path, key),
@@ -248,6 +335,9 @@ void read_noise(const Reader& rd, const YAML::Node& node, NoiseConfig& noise) {
   if (const auto n = node["period"]) noise.period = rd.get_int(n, "noise.period", 1);
   if (const auto n = node["constant"])
     noise.constant = rd.get_enum<ConstantMode>(n, "noise.constant");
+  if ((noise.seasonal_ar.max > 0 || noise.seasonal_ma.max > 0) && noise.period < 2 &&
+      !node["period"])
+    return;  // from the data's frequency (load.h)
   if ((noise.seasonal_ar.max > 0 || noise.seasonal_ma.max > 0) && noise.period < 2)
     rd.fail(node["period"] ? node["period"] : node, "noise.period",
             "seasonal AR/MA terms need a period of at least 2; set `noise.period` or "
@@ -343,8 +433,8 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
     throw InputError(fmt::format("{}: the config is empty; it needs at least `data` and `target`",
                                  config_file.string()));
   rd.check_map(root, "",
-               {"data", "target", "differencing", "inputs", "noise", "search", "backtest",
-                "forecast", "output"});
+               {"data", "target", "differencing", "inputs", "events", "noise", "search",
+                "backtest", "forecast", "output"});
 
   RunConfig cfg;
   cfg.config_file = config_file;
@@ -377,8 +467,13 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
     }
   }
 
+  if (const auto n = root["events"]) read_event_file(rd, n, base, cfg.inputs);
   cfg.noise.period = cfg.differencing.period;  // default, overridden by noise.period
   if (const auto n = root["noise"]) read_noise(rd, n, cfg.noise);
+  // Seasonal terms without any period: the period comes from the data's frequency.
+  cfg.differencing_period_from_data = cfg.differencing.seasonal > 0 && cfg.differencing.period < 2;
+  cfg.noise_period_from_data =
+      (cfg.noise.seasonal_ar.max > 0 || cfg.noise.seasonal_ma.max > 0) && cfg.noise.period < 2;
   if (const auto n = root["search"]) read_search(rd, n, cfg.search);
   if (const auto n = root["backtest"]) read_backtest(rd, n, cfg.backtest);
   if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);

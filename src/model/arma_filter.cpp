@@ -131,7 +131,8 @@ bool stationary_state_covariance(std::span<const double> ar, std::span<const dou
 
 ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
                               const RowMatrix& y, ArmaFilterWorkspace& ws,
-                              std::vector<double>* innovations, std::vector<double>* f_values) {
+                              std::vector<double>* innovations, std::vector<double>* f_values,
+                              std::span<const unsigned char> missing) {
   ArmaFilterSummary out;
   const Eigen::Index n = y.rows();
   const Eigen::Index cols = y.cols();
@@ -154,7 +155,21 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
   ws.inv_sqrt_f.resize(n);
   Eigen::Index transient = n;
   double f = 0.0;
+  // The gain may freeze only after the last missing row (a skipped update moves P away again).
+  Eigen::Index last_missing = -1;
+  for (Eigen::Index t = 0; t < static_cast<Eigen::Index>(missing.size()) && t < n; ++t)
+    if (missing[t]) last_missing = t;
   for (Eigen::Index t = 0; t < n; ++t) {
+    if (t <= last_missing && missing[t]) {
+      // No observation: a_{t+1} = T a_t, P_{t+1} = T P T' + R R'.
+      ws.gains.row(t).setZero();
+      ws.inv_sqrt_f(t) = 0.0;
+      multiply_t_left(ws.ar_full, ws.P, ws.TP);
+      multiply_t_right(ws.ar_full, ws.TP, ws.Pnext);
+      ws.Pnext.noalias() += ws.ma_full * ws.ma_full.transpose();
+      ws.P.swap(ws.Pnext);
+      continue;
+    }
     f = ws.P(0, 0);
     if (!(f > 0.0) || !std::isfinite(f)) {
       out.ok = false;
@@ -174,7 +189,7 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
     ws.Pnext.noalias() -= (f * ws.gain) * ws.gain.transpose();
     const double change = (ws.Pnext - ws.P).cwiseAbs().maxCoeff();
     ws.P.swap(ws.Pnext);
-    if (change < kSteadyTolerance) {
+    if (change < kSteadyTolerance && t > last_missing) {
       transient = t + 1;
       out.steady_from = static_cast<int>(transient);
       break;
@@ -225,6 +240,15 @@ ArmaEndState arma_end_state(std::span<const double> ar, std::span<const double> 
   Eigen::VectorXd a = Eigen::VectorXd::Zero(m), next(m), gain(m);
   Eigen::MatrixXd tp(m, m), pn(m, m);
   for (const double yt : y) {
+    if (std::isnan(yt)) {  // missing: predict without an update
+      multiply_t_left(ws.ar_full, a, next);
+      a = next;
+      multiply_t_left(ws.ar_full, ws.P, tp);
+      multiply_t_right(ws.ar_full, tp, pn);
+      pn.noalias() += ws.ma_full * ws.ma_full.transpose();
+      ws.P.swap(pn);
+      continue;
+    }
     const double f = ws.P(0, 0);
     multiply_t_left(ws.ar_full, ws.P.col(0), gain);
     gain /= f;

@@ -20,17 +20,17 @@ using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::R
 struct ArmaFilterWorkspace {
   Eigen::MatrixXd P, TP, Pnext, lyap_a, lyap_tmp;
   Eigen::VectorXd gain, ar_full, ma_full;
-  RowMatrix states;     // scratch states of one column group (4 x m) when m > 4
-  RowMatrix gains;      // Kalman gain K_t of each step before the steady state (steps x m)
+  RowMatrix states;            // scratch states of one column group (4 x m) when m > 4
+  RowMatrix gains;             // Kalman gain K_t of each step before the steady state (steps x m)
   Eigen::VectorXd inv_sqrt_f;  // 1 / sqrt(F_t) of the same steps
-  Eigen::MatrixXd scaled;  // n x columns: standardised innovations v_t / sqrt(F_t)
+  Eigen::MatrixXd scaled;      // n x columns: standardised innovations v_t / sqrt(F_t)
 };
 
 struct ArmaFilterSummary {
-  Eigen::MatrixXd cross;  // sum_t v_t v_t' / F_t over the columns (cols x cols)
-  double sum_log_f = 0.0; // sum_t log F_t
-  int steady_from = -1;   // first step filtered with the steady-state gain (-1: never)
-  bool ok = true;         // false when F_t became non-positive or non-finite
+  Eigen::MatrixXd cross;   // sum_t v_t v_t' / F_t over the columns (cols x cols)
+  double sum_log_f = 0.0;  // sum_t log F_t
+  int steady_from = -1;    // first step filtered with the steady-state gain (-1: never)
+  bool ok = true;          // false when F_t became non-positive or non-finite
 };
 
 // Stationary covariance of the state: P = T P T' + R R'. Returns false when it does not
@@ -41,10 +41,16 @@ bool stationary_state_covariance(std::span<const double> ar, std::span<const dou
 // Filters every column of `y` (n x cols, row t = time t) and accumulates the cross-product of
 // the standardised innovations. When `innovations` is non-null it receives v_t / sqrt(F_t) of
 // column 0 (the residuals), and `f_values` (if non-null) F_t.
+//
+// `missing` (empty, or one flag per row) marks rows whose observation is missing: the filter
+// predicts through them without an update (gain 0, no innovation, no log F_t), so the summary
+// is the exact likelihood of the observed rows alone. Their values in `y` are never read into
+// the result but must be finite (callers write 0). Innovations and F_t there are 0.
 ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
                               const RowMatrix& y, ArmaFilterWorkspace& ws,
                               std::vector<double>* innovations = nullptr,
-                              std::vector<double>* f_values = nullptr);
+                              std::vector<double>* f_values = nullptr,
+                              std::span<const unsigned char> missing = {});
 
 // Filtered state at the end of a single-column pass: the one-step prediction a_{n|n-1} of the
 // state for time n (just past the data) and its covariance; the forecaster starts from these.
@@ -52,6 +58,7 @@ struct ArmaEndState {
   Eigen::VectorXd state;  // a_{n}: prediction of alpha_n given data up to n - 1
   Eigen::MatrixXd cov;    // its covariance in units of sigma^2
 };
+// A NaN in `y` is a missing observation: the state is predicted through it without an update.
 ArmaEndState arma_end_state(std::span<const double> ar, std::span<const double> ma,
                             std::span<const double> y, ArmaFilterWorkspace& ws);
 

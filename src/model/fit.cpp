@@ -366,8 +366,11 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
   // differenced input pair with the residuals row by row).
   for (size_t i = 0; options.residual_input_check && i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
-    const std::span<const double> u(problem.u[i]);
-    auto check = residual_input_correlation(term.name, fit.residuals, u.subspan(problem.start),
+    // At observed rows only, as the residuals are (missing rows joined: approximate there).
+    std::vector<double> u;
+    for (int t = problem.start; t < static_cast<int>(problem.u[i].size()); ++t)
+      if (!problem.is_missing(t)) u.push_back(problem.u[i][t]);
+    auto check = residual_input_correlation(term.name, fit.residuals, u,
                                             term.order.numerator + term.order.denominator + 1);
     if (!check) continue;
     if (check->p_value < ResidualInputOptions{}.warn_level)

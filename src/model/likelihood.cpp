@@ -19,6 +19,13 @@ int LikelihoodProblem::n_nonlinear() const {
   return k;
 }
 
+int LikelihoodProblem::n_obs() const {
+  int n = n_rows();
+  if (!missing.empty())
+    for (int t = std::max(start, 0); t < static_cast<int>(w.size()); ++t) n -= missing[t] ? 1 : 0;
+  return n;
+}
+
 int LikelihoodProblem::n_linear() const {
   int k = spec.constant ? 1 : 0;
   for (const auto& term : spec.inputs) k += term.order.numerator + 1;
@@ -41,7 +48,7 @@ namespace {
 // input, whose lags are collinear when the raw ones are) finds the first column that adds nothing
 // new; a least-squares fit on the columns before it names the ones it is made of.
 void check_inputs_separable(const LikelihoodProblem& problem) {
-  const int n = problem.n_obs();
+  const int n = problem.n_rows();
   const auto& spec = problem.spec;
   std::vector<Eigen::VectorXd> columns, basis;
   std::vector<std::string> names;
@@ -94,12 +101,16 @@ LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, in
     problem.u.push_back(difference(data.inputs[index], spec.differencing));
   }
   problem.start = start < 0 ? minimum_start(spec) : start;
+  if (std::any_of(problem.w.begin(), problem.w.end(), [](double v) { return std::isnan(v); })) {
+    problem.missing.resize(problem.w.size());
+    for (size_t t = 0; t < problem.w.size(); ++t) problem.missing[t] = std::isnan(problem.w[t]);
+  }
   const int needed = problem.n_params() + 3;
   if (problem.n_obs() < needed)
     throw InputError(fmt::format(
-        "series '{}': only {} observations remain after differencing ({} lost) and the "
-        "largest delay + numerator lag ({}); the model has {} parameters and needs at least {}. "
-        "Use smaller orders or delays, or more data",
+        "series '{}': only {} observations remain after differencing ({} lost), the "
+        "largest delay + numerator lag ({}) and missing values; the model has {} parameters and "
+        "needs at least {}. Use smaller orders or delays, or more data",
         data.target_name, std::max(problem.n_obs(), 0), spec.differencing.lost(), problem.start,
         problem.n_params(), needed));
   for (size_t i = 0; i < problem.u.size(); ++i) {
@@ -219,7 +230,7 @@ void noise_polynomials(const NoiseOrder& ns, std::span<const double> noise, std:
 void build_columns(const LikelihoodProblem& problem, std::span<const double> nonlinear,
                    LikelihoodWorkspace& ws, std::vector<double>& ar, std::vector<double>& ma) {
   const ModelSpec& spec = problem.spec;
-  const int n = problem.n_obs();
+  const int n = problem.n_rows();
   const int start = problem.start;
   const Eigen::Index cols = 1 + problem.n_linear();
   ws.columns.resize(n, cols);
@@ -238,11 +249,21 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
   const int first = spec.constant ? 2 : 1;
   for (int t = 0; t < n; ++t) {
     double* row = ws.columns.data() + static_cast<Eigen::Index>(t) * cols;
+    if (problem.is_missing(start + t)) {  // never read into the likelihood, but must be finite
+      std::fill(row, row + cols, 0.0);
+      continue;
+    }
     row[0] = problem.w[start + t];
     if (spec.constant) row[1] = 1.0;
     for (size_t c = 0; c < ws.sources.size(); ++c) row[first + c] = ws.sources[c][t];
   }
   noise_polynomials(spec.noise, nonlinear.subspan(k), ar, ma);
+}
+
+// The missing flags of the likelihood sample (empty when nothing is missing).
+std::span<const unsigned char> sample_missing(const LikelihoodProblem& problem) {
+  if (problem.missing.empty()) return {};
+  return std::span<const unsigned char>(problem.missing).subspan(problem.start);
 }
 
 double gaussian_loglik(int n, double ssr, double sum_log_f) {
@@ -257,7 +278,8 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
   ProfileValue out;
   std::vector<double> ar, ma;
   build_columns(problem, nonlinear, ws, ar, ma);
-  const auto summary = arma_filter(ar, ma, ws.columns, ws.filter);
+  const auto summary =
+      arma_filter(ar, ma, ws.columns, ws.filter, nullptr, nullptr, sample_missing(problem));
   if (!summary.ok) return out;
   const Eigen::Index k = ws.columns.cols() - 1;
   const int n = problem.n_obs();
@@ -316,11 +338,19 @@ namespace {
 ArmaFilterSummary filter_noise(const LikelihoodProblem& problem, const ModelParams& p,
                                LikelihoodWorkspace& ws, std::vector<double>* innovations) {
   const auto noise = model_noise(problem, p);
-  RowMatrix col(problem.n_obs(), 1);
-  for (int t = 0; t < problem.n_obs(); ++t) col(t, 0) = noise[problem.start + t];
+  RowMatrix col(problem.n_rows(), 1);
+  for (int t = 0; t < problem.n_rows(); ++t)
+    col(t, 0) = problem.is_missing(problem.start + t) ? 0.0 : noise[problem.start + t];
   const auto ar = expand_ar(p.phi, p.seasonal_phi, problem.spec.noise.period);
   const auto ma = expand_ma(p.theta, p.seasonal_theta, problem.spec.noise.period);
-  return arma_filter(ar, ma, col, ws.filter, innovations);
+  auto summary = arma_filter(ar, ma, col, ws.filter, innovations, nullptr, sample_missing(problem));
+  if (innovations && !problem.missing.empty()) {  // observed innovations only
+    size_t k = 0;
+    for (int t = 0; t < problem.n_rows(); ++t)
+      if (!problem.is_missing(problem.start + t)) (*innovations)[k++] = (*innovations)[t];
+    innovations->resize(k);
+  }
+  return summary;
 }
 
 }  // namespace

@@ -26,7 +26,13 @@ struct LikelihoodProblem {
   std::vector<double> w;               // differenced, transformed target (N values)
   std::vector<std::vector<double>> u;  // differenced inputs of spec.inputs, in spec order
   int start = 0;                       // first index of w inside the likelihood
-  int n_obs() const { return static_cast<int>(w.size()) - start; }
+  // 1 where w is missing (NaN: a missing target value, or a difference that involves one);
+  // empty when none is. The Kalman filter predicts through these rows without an update, so
+  // the likelihood is the exact one of the observed values, and the GLS step skips the rows.
+  std::vector<unsigned char> missing;
+  int n_rows() const { return static_cast<int>(w.size()) - start; }  // rows of the sample
+  int n_obs() const;  // observed rows of the sample: the n of sigma^2 and the criteria
+  bool is_missing(int index) const { return !missing.empty() && missing[index] != 0; }
   int n_nonlinear() const;  // deltas, then phi, theta, Phi, Theta
   int n_linear() const;     // constant (if any), then the omegas of each input
   int n_params() const { return n_nonlinear() + n_linear() + 1; }  // + sigma^2
@@ -79,7 +85,7 @@ double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, Likelih
 std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelParams& p);
 
 // Standardised innovations (residuals, variance sigma^2) of the model over the likelihood
-// sample.
+// sample, at observed rows only (n_obs() values, in time order).
 std::vector<double> model_residuals(const LikelihoodProblem& problem, const ModelParams& p,
                                     LikelihoodWorkspace& ws);
 

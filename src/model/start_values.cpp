@@ -29,7 +29,8 @@ void make_admissible(std::vector<double>& a, double sign) {
     bool fine = std::all_of(a.begin(), a.end(), [](double v) { return std::isfinite(v); }) &&
                 coefficients_to_pacf(coef, z);
     if (fine)
-      fine = std::all_of(z.begin(), z.end(), [](double v) { return std::abs(std::tanh(v)) < 0.95; });
+      fine =
+          std::all_of(z.begin(), z.end(), [](double v) { return std::abs(std::tanh(v)) < 0.95; });
     if (fine) return;
     for (auto& v : a) v = std::isfinite(v) ? 0.85 * v : 0.0;
   }
@@ -39,6 +40,23 @@ void make_admissible(std::vector<double>& a, double sign) {
 }  // namespace
 
 std::vector<double> start_values(const LikelihoodProblem& problem) {
+  if (!problem.missing.empty()) {
+    // The regressions need every row: start from a copy with the missing values filled
+    // linearly (the likelihood itself never sees the filled values).
+    LikelihoodProblem filled = problem;
+    filled.missing.clear();
+    auto& w = filled.w;
+    const int n = static_cast<int>(w.size());
+    int last = -1;
+    for (int t = 0; t < n; ++t) {
+      if (std::isnan(w[t])) continue;
+      for (int k = last + 1; k < t; ++k)
+        w[k] = last < 0 ? w[t] : w[last] + (w[t] - w[last]) * (k - last) / double(t - last);
+      last = t;
+    }
+    for (int k = last + 1; k < n; ++k) w[k] = last < 0 ? 0.0 : w[last];
+    return start_values(filled);
+  }
   const ModelSpec& spec = problem.spec;
   const int total = static_cast<int>(problem.w.size());
   std::vector<double> out;

@@ -1404,6 +1404,17 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
   for (const char* key : {"n_obs", "n_params"})
     if (fit.contains(key)) kv.items.emplace_back(key == std::string("n_obs") ? "Observations" : "Parameters (sigma\u00b2 included)",
                                                  json_text(fit[key]));
+  if (fit.contains("frequency") && fit["frequency"].is_string())
+    kv.items.emplace_back("Frequency", fit["frequency"].get<std::string>());
+  // What was missing, filled or inserted, per column (the data layer's own sentences).
+  if (fit.contains("missing") && fit["missing"].is_array()) {
+    std::string lines;
+    for (const auto& line : fit["missing"])
+      if (line.is_string()) lines += (lines.empty() ? "" : "; ") + line.get<std::string>();
+    kv.items.emplace_back("Missing values", lines.empty() ? "none" : lines);
+  }
+  if (fit.contains("seasonal_note") && fit["seasonal_note"].is_string())
+    kv.items.emplace_back("Seasonal period", fit["seasonal_note"].get<std::string>());
   s.blocks.push_back(std::move(kv));
 
   const json empty = json::object();

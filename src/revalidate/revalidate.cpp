@@ -200,7 +200,12 @@ ResidualCheck residual_checks(const FittedModel& model, const SeriesData& data, 
   const auto problem = make_problem(data, model.spec, model.start);
   LikelihoodWorkspace ws;
   const auto all = model_residuals(problem, model.params, ws);
-  const int n = std::min<int>(new_rows, static_cast<int>(all.size()));
+  // Residuals exist at observed rows only: count the observed ones among the new rows.
+  int observed_new = 0;
+  const int total = static_cast<int>(problem.w.size());
+  for (int t = std::max(problem.start, total - new_rows); t < total; ++t)
+    observed_new += problem.is_missing(t) ? 0 : 1;
+  const int n = std::min<int>(observed_new, static_cast<int>(all.size()));
   const std::vector<double> r(all.end() - n, all.end());
   out.n = n;
   const int arma = arma_terms(model.spec);

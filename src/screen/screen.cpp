@@ -580,7 +580,20 @@ ScreenResult screen_series(const SeriesData& data, const RunConfig& config,
                      " input columns but " + std::to_string(data.input_names.size()) + " names");
 
   const auto z = apply_transform(data.target, config.target.transform, "target");
-  const auto w = difference(z, config.differencing);
+  auto w = difference(z, config.differencing);
+  // Missing target values: the correlations need every row, so the screen (an identification
+  // aid, not the likelihood) fills the missing differenced values linearly.
+  {
+    int last = -1;
+    const int total = static_cast<int>(w.size());
+    for (int t = 0; t < total; ++t) {
+      if (std::isnan(w[t])) continue;
+      for (int k = last + 1; k < t; ++k)
+        w[k] = last < 0 ? w[t] : w[last] + (w[t] - w[last]) * (k - last) / double(t - last);
+      last = t;
+    }
+    for (int k = last + 1; k < total; ++k) w[k] = last < 0 ? 0.0 : w[last];
+  }
   const int n = static_cast<int>(w.size());
   if (n < kMinObservations)
     throw InputError(fmt::format(

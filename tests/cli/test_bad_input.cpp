@@ -21,7 +21,9 @@ const auto run = lagsieve::testing::run_lagsieve;
 std::string good_csv(int n = 60) {
   std::string text = "date,heat,outdoor_temp,price\n";
   for (int i = 0; i < n; ++i) {
-    const int day = i % 28 + 1, month = i / 28 + 1;
+    // A real daily calendar from 2024-01-01 (January 31 days, February 29).
+    const int month = i < 31 ? 1 : i < 60 ? 2 : 3;
+    const int day = i - (month == 1 ? 0 : month == 2 ? 31 : 60) + 1;
     char date[16];
     std::snprintf(date, sizeof date, "2024-%02d-%02d", month, day);
     text += std::string(date) + "," + std::to_string(100 + (i * 7) % 13) + "," +
@@ -30,8 +32,6 @@ std::string good_csv(int n = 60) {
   return text;
 }
 
-// Dates above step through Jan..Mar on days 1..28, so they increase but are not daily; the
-// loader only needs them increasing.
 const std::string kGoodYaml = R"(data: {file: data.csv, time: date}
 target: {column: heat}
 inputs:
@@ -128,17 +128,18 @@ std::vector<Case> cases() {
       {"non_finite_cell", "validate", y, csv_with_cell(5, 1, "inf"),
        "data.csv:6: target column 'heat' (column 2): 'inf' is not finite"},
       {"duplicate_time", "validate", y, csv_with_cell(3, 0, "2024-01-02"),
-       "data.csv:4: time column 'date': time stamp 2024-01-02 repeats the one on line 3"},
+       "data.csv:4: time column 'date': time stamp 2024-01-02 repeats the one on data.csv:3"},
       {"unsorted_time", "validate", y, csv_with_cell(3, 0, "2023-12-31"),
-       "time stamp 2023-12-31 comes before 2024-01-02 on line 3; sort the rows by time"},
+       "time stamp 2023-12-31 comes before 2024-01-02 on data.csv:3; sort the rows by time"},
       {"bad_time_stamp", "validate", y, csv_with_cell(3, 0, "03/01/2024"),
        "data.csv:4: time column 'date': '03/01/2024' is not a time stamp"},
       {"absent_column", "validate", replace(y, "column: outdoor_temp", "column: outdoor_tmp"), c,
        "column 'outdoor_tmp' (an input in cfg.yaml) is not in the header; did you mean "
        "'outdoor_temp'?"},
-      {"missing_value_error", "validate", y, csv_with_cell(10, 1, ""),
-       "data.csv:11: target column 'heat' (column 2) has a missing value; fill it in, or set "
-       "`data.missing: interpolate`"},
+      {"missing_value_error", "validate", replace(y, "time: date}", "time: date, missing: error}"),
+       csv_with_cell(10, 1, ""),
+       "data.csv:11: target column 'heat' (column 2) has 1 missing value (line 11); fill them in, "
+       "or set `data.missing: skip`"},
       {"leading_gap_interpolate", "validate",
        replace(y, "time: date}", "time: date, missing: interpolate}"), csv_with_cell(1, 2, "NA"),
        "data.csv:2: input column 'outdoor_temp' starts with a missing value"},
@@ -166,7 +167,7 @@ std::vector<Case> cases() {
        "series 'heat' has 60 rows, too few for the largest candidate"},
       {"levels_out_of_range", "validate", y + "backtest: {levels: [0.8, 1.5]}\n", c,
        "cfg.yaml:9: backtest.levels: level 1.5 is outside (0, 1)"},
-      {"seasonal_without_period", "validate", y + "differencing: {seasonal: 1}\n", c,
+      {"seasonal_period_one", "validate", y + "differencing: {seasonal: 1, period: 1}\n", c,
        "cfg.yaml:9: differencing.period: a seasonal difference needs `period` of at least 2"},
       {"event_after_the_data", "validate",
        replace(y, "noise:", "  - event: tariff\n    shape: step\n    at: 2025-01-01\nnoise:"), c,
@@ -224,7 +225,9 @@ TEST(Cli, GoodConfigValidates) {
   const auto r = run(dir, "validate cfg.yaml");
   EXPECT_EQ(r.code, 0) << r.err;
   EXPECT_EQ(r.err, "");
-  EXPECT_NE(r.out.find("series     heat (60 rows, 0 cells interpolated)"), std::string::npos)
+  EXPECT_NE(r.out.find("series     heat (60 rows; target: 0 missing, 0 interpolated; inputs: 0 "
+                       "missing, 0 interpolated)"),
+            std::string::npos)
       << r.out;
   // 3 delays x 2 numerators, 2 x 2 ARMA orders, constant in or out.
   EXPECT_NE(r.out.find("grid       48 candidate models"), std::string::npos) << r.out;

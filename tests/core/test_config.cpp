@@ -105,7 +105,9 @@ output:  {dir: ../runs/demo}
 TEST(Config, MinimalConfigTakesDefaults) {
   const auto c = parse_config(kHead, kFile);
   EXPECT_EQ(c.data.time, "");
-  EXPECT_EQ(c.data.missing, MissingPolicy::error);
+  EXPECT_EQ(c.data.missing, MissingPolicy::skip);
+  EXPECT_EQ(c.data.input_policy(), MissingPolicy::error);
+  EXPECT_EQ(c.data.gaps, GapPolicy::insert);
   EXPECT_EQ(c.target.transform.kind, TransformKind::none);
   EXPECT_TRUE(c.inputs.empty());
   EXPECT_EQ(c.noise.period, 1);
@@ -156,7 +158,8 @@ TEST(Config, Messages) {
             "coverage as a fraction, e.g. 0.95");
   EXPECT_EQ(error_of(h + "nois: {ar: 1}\n"),
             "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
-            "data, target, differencing, inputs, noise, search, backtest, forecast, output)");
+            "data, target, differencing, inputs, events, noise, search, backtest, forecast, "
+            "output)");
   EXPECT_EQ(error_of("data: {file: d.csv}\n"), "/cfg/dir/config.yaml:1: missing section `target`");
   EXPECT_EQ(error_of("data: {file: d.csv}\ntarget: {column: y, columns: [a]}\n"),
             "/cfg/dir/config.yaml:2: target: give either `column` (one series) or `columns` (a "
@@ -164,10 +167,13 @@ TEST(Config, Messages) {
   EXPECT_EQ(error_of("data: {file: d.csv}\ntarget: {column: y, transform: boxcox}\n"),
             "/cfg/dir/config.yaml:2: target.lambda: `transform: boxcox` needs `lambda` (e.g. 0.5 "
             "for a square root; 0 is the log)");
-  EXPECT_EQ(error_of(h + "differencing: {seasonal: 1}\n"),
+  // Seasonal terms without a period: the period comes from the data's frequency (load.h).
+  EXPECT_TRUE(parse_config(h + "differencing: {seasonal: 1}\n", kFile).differencing_period_from_data);
+  EXPECT_TRUE(parse_config(h + "noise: {seasonal_ma: 1}\n", kFile).noise_period_from_data);
+  EXPECT_EQ(error_of(h + "differencing: {seasonal: 1, period: 1}\n"),
             "/cfg/dir/config.yaml:3: differencing.period: a seasonal difference needs `period` "
             "of at least 2 (e.g. 7 for daily data with a weekly cycle, 12 for monthly data)");
-  EXPECT_EQ(error_of(h + "noise: {seasonal_ma: 1}\n"),
+  EXPECT_EQ(error_of(h + "noise: {seasonal_ma: 1, period: 1}\n"),
             "/cfg/dir/config.yaml:3: noise.period: seasonal AR/MA terms need a period of at "
             "least 2; set `noise.period` or `differencing.period`");
   EXPECT_EQ(error_of(h + "search: {budget: 0}\n"),

@@ -1,5 +1,8 @@
 // Loading series from CSV text against a config: values, gaps, events and the error messages.
+#include <fmt/format.h>
 #include <gtest/gtest.h>
+
+#include <cmath>
 
 #include <filesystem>
 #include <fstream>
@@ -71,6 +74,75 @@ TEST(Load, InterpolatesInteriorGapsAndCountsThem) {
   EXPECT_DOUBLE_EQ(s.target[2], 3.0);
   EXPECT_DOUBLE_EQ(s.inputs[0][3], 8.0);
   EXPECT_EQ(s.time[0], "");
+  // Filled target values are flagged, so nothing scores them as data.
+  ASSERT_EQ(s.target_filled.size(), static_cast<size_t>(s.rows()));
+  EXPECT_FALSE(s.observed(1));
+  EXPECT_FALSE(s.observed(2));
+  EXPECT_TRUE(s.observed(3));
+  ASSERT_EQ(s.fills.size(), 2u);
+  EXPECT_EQ(s.fills[0].column, "y");
+  EXPECT_EQ(s.fills[0].interpolated, 2);
+  EXPECT_EQ(s.fills[1].column, "x");
+  EXPECT_EQ(s.fills[1].interpolated, 1);
+}
+
+TEST(Load, MissingTargetValuesAreSkippedByDefault) {
+  const auto cfg = parse_config("data: {file: d.csv}\ntarget: {column: y}\n", "c.yaml");
+  std::string csv = "y\n1\nNA\n3\n";
+  for (int i = 0; i < 20; ++i) csv += std::to_string(i % 4) + "\n";
+  csv += "NA\n";  // a ragged edge: the last value not yet observed
+  const auto s = series_from_table(cfg, parse_csv(csv, "d.csv"), "y");
+  EXPECT_TRUE(std::isnan(s.target[1]));
+  EXPECT_TRUE(std::isnan(s.target.back()));
+  EXPECT_EQ(s.target_missing(), 2);
+  EXPECT_EQ(s.interpolated, 0);
+  ASSERT_EQ(describe_missing(s).size(), 1u);
+  EXPECT_EQ(describe_missing(s)[0],
+            "target 'y': 2 missing values left out of the likelihood (exact likelihood of the 22 "
+            "observed values)");
+}
+
+TEST(Load, MissingPeriodsAreInsertedAndReported) {
+  const auto cfg = parse_config(
+      "data: {file: d.csv, time: t}\ntarget: {column: y}\n"
+      "inputs:\n  - event: e\n    at: 2024-03\n",
+      "c.yaml");
+  std::string csv = "t,y\n";
+  for (int m = 1; m <= 12; ++m)
+    if (m != 4 && m != 5) csv += fmt::format("2024-{:02d},{}\n", m, m % 3 + m);
+  for (int m = 1; m <= 12; ++m) csv += fmt::format("2025-{:02d},{}\n", m, m % 4);
+  const auto s = series_from_table(cfg, parse_csv(csv, "d.csv"), "y");
+  ASSERT_EQ(s.rows(), 24);
+  EXPECT_EQ(s.time[3], "2024-04");
+  EXPECT_EQ(s.time[4], "2024-05");
+  EXPECT_TRUE(std::isnan(s.target[3]) && std::isnan(s.target[4]));
+  EXPECT_EQ(s.target[5], 6 % 3 + 6);
+  EXPECT_EQ(s.frequency, "monthly");
+  EXPECT_EQ(s.seasonal_hint, 12);
+  ASSERT_EQ(s.gaps.size(), 1u);
+  EXPECT_EQ(s.gaps[0].row, 3);
+  EXPECT_EQ(s.gaps[0].count, 2);
+  EXPECT_EQ(s.inputs[0][2], 1.0);  // the event on the calendar, not on the file's lines
+  const auto strict = parse_config(
+      "data: {file: d.csv, time: t, gaps: error}\n"
+      "target: {column: y}\n",
+      "c.yaml");
+  EXPECT_EQ(error_of(strict, csv),
+            "d.csv:5: time column 't': 2 monthly periods are missing before '2024-06' (after "
+            "'2024-03'); add the rows (empty cells are missing values) or set `data.gaps: "
+            "insert`");
+  // An input on an inserted row is missing: an error naming it unless interpolated.
+  const auto with_input = parse_config(
+      "data: {file: d.csv, time: t}\ntarget: {column: y}\n"
+      "inputs:\n  - column: x\n",
+      "c.yaml");
+  std::string csv2 = "t,y,x\n";
+  for (int d = 1; d <= 28; ++d)
+    if (d != 10) csv2 += fmt::format("2024-02-{:02d},{},{}\n", d, d % 5, d % 7);
+  EXPECT_EQ(error_of(with_input, csv2),
+            "d.csv: row inserted for the missing period 2024-02-10: input column 'x' (column 3) "
+            "has 1 missing value (inserted 2024-02-10); fill them in, or set "
+            "`data.missing_inputs: interpolate` to fill interior gaps linearly");
 }
 
 TEST(Load, Messages) {
@@ -81,18 +153,25 @@ TEST(Load, Messages) {
   EXPECT_EQ(error_of(cfg, "t,y\n1,2\n2,inf\n"),
             "d.csv:3: target column 'y' (column 2): 'inf' is not finite; only finite numbers can "
             "be modelled");
-  EXPECT_EQ(error_of(cfg, "t,y\n1,2\n2,\n3,4\n"),
-            "d.csv:3: target column 'y' (column 2) has a missing value; fill it in, or set "
-            "`data.missing: interpolate` to fill interior gaps linearly");
+  const auto strict = parse_config(
+      "data: {file: d.csv, time: t, missing: error}\n"
+      "target: {column: y}\n",
+      "c.yaml");
+  EXPECT_EQ(error_of(strict, "t,y\n1,2\n2,\n3,4\n"),
+            "d.csv:3: target column 'y' (column 2) has 1 missing value (line 3); fill them in, "
+            "or set `data.missing: skip` (the default: left out of the likelihood) or "
+            "`interpolate`");
   EXPECT_EQ(error_of(cfg, "t,y\n1,2\n1,3\n"),
-            "d.csv:3: time column 't': time stamp 1 repeats the one on line 2; each time stamp "
+            "d.csv:3: time column 't': time stamp 1 repeats the one on d.csv:2; each time stamp "
             "may appear once");
   EXPECT_EQ(error_of(cfg, "t,y\n2,2\n1,3\n"),
-            "d.csv:3: time column 't': time stamp 1 comes before 2 on line 2; sort the rows by "
+            "d.csv:3: time column 't': time stamp 1 comes before 2 on d.csv:2; sort the rows by "
             "time");
   EXPECT_EQ(error_of(cfg, "t,y\n2024-01-01,2\n2024-01-32,3\n"),
-            "d.csv:3: time column 't': '2024-01-32' is not a time stamp; write YYYY-MM-DD, "
-            "YYYY-MM-DD HH:MM[:SS] or an integer");
+            "d.csv:3: time column 't': '2024-01-32' is not a time stamp (the column begins "
+            "'2024-01-01', '2024-01-32'); lagsieve reads 2024-03-01, "
+            "2024-03-01T06:30[:00][Z|+01:00], 2024-03, 2024-Q1, 2024Q1, 2024-W09, 2024 and "
+            "integers; for anything else set data.time_format (e.g. '%d/%m/%Y')");
   EXPECT_EQ(error_of(config("", "heat"), "t,heta,x\n1,2,3\n"),
             "d.csv: column 'heat' (the target in c.yaml) is not in the header; did you mean "
             "'heta'? columns are: t, heta, x");
@@ -116,14 +195,16 @@ TEST(Load, Messages) {
 }
 
 TEST(Load, GapsAtTheEdgesAreErrorsEvenWhenInterpolating) {
-  const auto cfg = parse_config("data: {file: d.csv, missing: interpolate}\ntarget: {column: y}\n",
-                                "c.yaml");
+  const auto cfg =
+      parse_config("data: {file: d.csv, missing: interpolate}\ntarget: {column: y}\n", "c.yaml");
   EXPECT_EQ(error_of(cfg, "y\nNA\n1\n2\n"),
             "d.csv:2: target column 'y' starts with a missing value; interpolation only fills "
-            "gaps between two observed values, so remove the leading rows or fill them in");
+            "gaps between two observed values, so remove the leading rows or fill them in (or use "
+            "`data.missing: skip`)");
   EXPECT_EQ(error_of(cfg, "y\n1\n2\n\"\"\n"),
             "d.csv:4: target column 'y' ends with a missing value; interpolation only fills gaps "
-            "between two observed values, so remove the trailing rows or fill them in");
+            "between two observed values, so remove the trailing rows or fill them in (or use "
+            "`data.missing: skip`, which forecasts from the last observed value)");
 }
 
 TEST(Load, LengthAgainstTheGrid) {
@@ -162,6 +243,46 @@ TEST(Load, PanelFromFile) {
   EXPECT_EQ(all[0].target[2], 0.0);  // 3 % 3
   EXPECT_EQ(all[1].target[2], 3.0);  // 3 % 5
   EXPECT_EQ(load_series_from_csv(cfg, dir / "p.csv", "a").target, all[1].target);
+  std::filesystem::remove_all(dir);
+}
+
+}  // namespace
+}  // namespace lagsieve
+
+namespace lagsieve {
+namespace {
+
+TEST(LoadEvents, ListsWindowsEventFilesAndTheSeasonalDefault) {
+  const auto dir = std::filesystem::temp_directory_path() / "lagsieve_events_test";
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir / "holidays.csv") << "date,name,to\n2024-01-05,fair,\n2024-01-19,fair,\n"
+                                         "2024-01-10,works,2024-01-12\n";
+  const auto cfg = parse_config(
+      "data: {file: d.csv, time: t}\ntarget: {column: y}\ninputs:\n"
+      "  - event: twice\n    at: [2024-01-03, 2024-01-20, 2024-03-01]\n"
+      "  - event: window\n    at: {from: 2024-01-07, to: 2024-01-08}\n"
+      "events: {file: holidays.csv}\nnoise: {seasonal_ma: 1}\n",
+      dir / "c.yaml");
+  std::string csv = "t,y\n";
+  for (int d = 1; d <= 25; ++d) csv += fmt::format("2024-01-{:02d},{}\n", d, (d * 7) % 5);
+  const auto s = series_from_table(cfg, parse_csv(csv, "d.csv"), "y");
+  ASSERT_EQ(s.input_names, (std::vector<std::string>{"twice", "window", "fair", "works"}));
+  auto rows_set = [&](int i) {
+    std::vector<int> out;
+    for (int t = 0; t < s.rows(); ++t)
+      if (s.inputs[i][t] != 0.0) out.push_back(t);
+    return out;
+  };
+  EXPECT_EQ(rows_set(0), (std::vector<int>{2, 19}));  // the March date is after the data
+  EXPECT_EQ(rows_set(1), (std::vector<int>{6, 7}));
+  EXPECT_EQ(rows_set(2), (std::vector<int>{4, 18}));
+  EXPECT_EQ(rows_set(3), (std::vector<int>{9, 10, 11}));
+  // seasonal_ma without a period: 7 from the daily frequency, said in the note.
+  RunConfig resolved = cfg;
+  apply_seasonal_default(resolved, s);
+  EXPECT_EQ(resolved.noise.period, 7);
+  EXPECT_EQ(resolved.seasonal_note,
+            "noise.period 7 from the daily frequency of the data (not set in the config)");
   std::filesystem::remove_all(dir);
 }
 

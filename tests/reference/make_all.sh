@@ -30,6 +30,9 @@ $R $ref/ljung_box/make_ljung_box.R
 $PY $ref/ljung_box/make_ljung_box.py
 $R $ref/residual_ccf/make_residual_ccf.R
 $R $ref/screen/make_indicator_seatbelts.R
+$R $ref/missing_target/make_missing_target.R
+$PY $ref/missing_target/make_missing_target.py
+$R $ref/calendar/make_calendar.R
 
 # Fixtures kept by other topics beside their tests.
 $R $ref/distributions/make_distributions.R
