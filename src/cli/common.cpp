@@ -27,6 +27,14 @@ int run_command(const std::function<int()>& body) {
 
 void finish(int code) { throw CLI::RuntimeError(code); }
 
+int checked_threads(const std::optional<int>& option, int config_value) {
+  if (!option) return config_value;  // search.threads is checked when the config is read
+  if (*option < 0 || *option > kMaxThreads)
+    throw InputError(
+        fmt::format("--threads {}: must be between 0 (all cores) and {}", *option, kMaxThreads));
+  return *option;
+}
+
 LoadedRun load_run(const std::filesystem::path& config_file) {
   LoadedRun run;
   run.config = load_config(config_file);
