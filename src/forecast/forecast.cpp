@@ -1,14 +1,16 @@
 #include "forecast/forecast.h"
 
+#include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
-#include <fmt/format.h>
+#include <functional>
 
 #include "core/error.h"
 #include "data/events.h"
 #include "data/time_index.h"
 #include "data/transform.h"
 #include "evaluation/distributions.h"
+#include "io/config.h"
 #include "model/arma_filter.h"
 #include "model/likelihood.h"
 #include "model/polynomial.h"
@@ -37,10 +39,10 @@ int state_dim(const std::vector<double>& ar, const std::vector<double>& ma) {
 }
 
 // Point forecasts (deviation from the mean) of an ARMA process for `horizon` steps from the
-// predicted state at the origin, and the error covariance (units of sigma^2).
+// predicted state at the origin, and that state's covariance (units of sigma^2).
 struct ArmaPath {
   std::vector<double> mean;
-  Eigen::MatrixXd cov;
+  Eigen::MatrixXd p_origin;
 };
 
 ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
@@ -52,16 +54,41 @@ ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
-  path.cov = arma_forecast_covariance(ar, ma, end.cov, horizon);
+  path.p_origin = end.cov;
   return path;
 }
 
-// Lower-triangular Toeplitz matrix of weights: M(s, j) = w_{s-j}.
-Eigen::MatrixXd toeplitz_lower(const std::vector<double>& w, int n) {
-  Eigen::MatrixXd out = Eigen::MatrixXd::Zero(n, n);
-  for (int s = 0; s < n; ++s)
-    for (int j = 0; j <= s; ++j) out(s, j) = w[s - j];
-  return out;
+// A linear filter applied to a sequence that is zero before its first value (the integration
+// through the differencing, after an input's transfer function where there is one).
+using SequenceFilter = std::function<std::vector<double>(const std::vector<double>&)>;
+
+// Marginal variances (units of the innovation variance) of F applied to the errors of an ARMA
+// forecast over n steps. The error at step k is g_k e + sum_{j=1..k} psi_{k-j} a_j (state error
+// e at the origin with covariance p_origin, future innovations a_j), so F's output at step s is
+// G_s e + sum_{j=1..s} W_{s-j} a_j with G = F(g) column by column and W = F(psi); its variance is
+// G_s P G_s' + sum_{j<s} W_j^2. O(n) for a recursive F, where the full covariance over the
+// horizon costs O(n^3); only marginal intervals are asked for, so this is all that is needed.
+std::vector<double> filtered_arma_variance(const std::vector<double>& ar,
+                                           const std::vector<double>& ma,
+                                           const Eigen::MatrixXd& p_origin, int n,
+                                           const SequenceFilter& f) {
+  const int m = state_dim(ar, ma);
+  const Eigen::MatrixXd g = powers_of_t(ar, m, n);
+  Eigen::MatrixXd big_g(n, m);
+  std::vector<double> column(n);
+  for (int c = 0; c < m; ++c) {
+    for (int s = 0; s < n; ++s) column[s] = g(s, c);
+    const auto filtered = f(column);
+    for (int s = 0; s < n; ++s) big_g(s, c) = filtered[s];
+  }
+  const auto w = f(psi_weights(ar, ma, n));
+  std::vector<double> var(n);
+  double innovations = 0.0;
+  for (int s = 0; s < n; ++s) {
+    var[s] = big_g.row(s) * p_origin * big_g.row(s).transpose() + innovations;
+    innovations += w[s] * w[s];
+  }
+  return var;
 }
 
 }  // namespace
@@ -82,8 +109,9 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
                         const std::vector<InputFuture>& futures, const ForecastOptions& options) {
   const ModelSpec& spec = model.spec;
   const int horizon = options.horizon;
-  if (horizon < 1)
-    throw InputError(fmt::format("the horizon must be at least 1 (got {})", horizon));
+  if (horizon < 1 || horizon > kMaxHorizon)
+    throw InputError(
+        fmt::format("the horizon must be between 1 and {} steps (got {})", kMaxHorizon, horizon));
   const int rows = history.rows();
   const int lost = spec.differencing.lost();
   ForecastResult out;
@@ -99,7 +127,14 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
                                  "more than {} rows)",
                                  rows, lost + minimum_start(spec) + 1));
 
-  Eigen::MatrixXd cov_inputs = Eigen::MatrixXd::Zero(horizon, horizon);
+  // Back through the differencing: y = w + sum_k c_k y_{t-k}, zero before the origin for errors.
+  const auto lags = differencing_lags(spec.differencing);
+  const SequenceFilter integrate = [&lags](std::vector<double> x) {
+    for (size_t s = 0; s < x.size(); ++s)
+      for (size_t k = 1; k <= lags.size() && k <= s; ++k) x[s] += lags[k - 1] * x[s - k];
+    return x;
+  };
+  std::vector<double> var_inputs(horizon, 0.0);  // integrated, summed over forecast inputs
   std::vector<std::vector<double>> x_paths;  // transfer-function output over nw + horizon
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
@@ -154,12 +189,16 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
       for (auto& v : centred) v -= im.mean;
       const auto path = arma_path(im.phi, im.theta, centred, horizon - known);
       for (double v : path.mean) u.push_back(im.mean + v);
-      // Errors of the differenced input at steps known..horizon-1, through the impulse response.
-      Eigen::MatrixXd cov_u = Eigen::MatrixXd::Zero(horizon, horizon);
-      cov_u.bottomRightCorner(horizon - known, horizon - known) = im.sigma2 * path.cov;
-      const auto v = impulse_response(term.order, model.params.inputs[i], horizon);
-      const Eigen::MatrixXd vm = toeplitz_lower(v, horizon);
-      cov_inputs += vm * cov_u * vm.transpose();
+      // Errors of the differenced input from step `known` on, through the transfer function and
+      // the integration (independent of the noise and of the other inputs).
+      const InputOrder& order = term.order;
+      const InputParams& params = model.params.inputs[i];
+      const SequenceFilter through = [&](const std::vector<double>& x) {
+        return integrate(transfer_response(x, order, params));
+      };
+      const auto var =
+          filtered_arma_variance(im.phi, im.theta, path.p_origin, horizon - known, through);
+      for (int s = known; s < horizon; ++s) var_inputs[s] += im.sigma2 * var[s - known];
     }
     x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
   }
@@ -181,17 +220,16 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
     for (const auto& x : x_paths) v += x[nw + s];
     w_hat[s] = v;
   }
-  const Eigen::MatrixXd cov_known = model.params.sigma2 * noise_path.cov;
-  const Eigen::MatrixXd cov_all = cov_known + cov_inputs;
+  std::vector<double> var_known =
+      filtered_arma_variance(ar, ma, noise_path.p_origin, horizon, integrate);
+  for (auto& v : var_known) v *= model.params.sigma2;
+  std::vector<double> var_all(horizon);
+  for (int s = 0; s < horizon; ++s) var_all[s] = var_known[s] + var_inputs[s];
 
   // Back through the differencing: y = w + sum_k c_k y_{t-k}.
   const std::vector<double> head(z.end() - lost, z.end());
   const auto integrated = undifference(head, w_hat, spec.differencing);
   out.level.assign(integrated.end() - horizon, integrated.end());
-  const auto xi = psi_weights(differencing_lags(spec.differencing), {}, horizon);
-  const Eigen::MatrixXd l = toeplitz_lower(xi, horizon);
-  const Eigen::VectorXd var_all = (l * cov_all * l.transpose()).diagonal();
-  const Eigen::VectorXd var_known = (l * cov_known * l.transpose()).diagonal();
 
   const auto& tr = spec.transform;
   out.se.resize(horizon);
@@ -199,8 +237,8 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
   out.median.resize(horizon);
   out.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) {
-    out.se[s] = std::sqrt(std::max(var_all(s), 0.0));
-    out.se_known_inputs[s] = std::sqrt(std::max(var_known(s), 0.0));
+    out.se[s] = std::sqrt(std::max(var_all[s], 0.0));
+    out.se_known_inputs[s] = std::sqrt(std::max(var_known[s], 0.0));
     const double mu = out.level[s];
     const double v = out.se[s] * out.se[s];
     out.median[s] = invert_transform(mu, tr);
