@@ -35,6 +35,10 @@ struct LoadedRun {
 // One rule for both (0 = all cores, at most kMaxThreads); throws InputError naming --threads.
 int checked_threads(const std::optional<int>& option, int config_value);
 
+// Throws InputError naming the option when `path` is not an existing regular file (a data file
+// given on the command line is blamed on its option, not on the config's data.file).
+void require_file(const std::string& path, const std::string& option);
+
 // Reads and validates the config, then loads and checks the data of every target column.
 LoadedRun load_run(const std::filesystem::path& config_file);
 
