@@ -6,6 +6,7 @@
 #include <cmath>
 #include <filesystem>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -15,10 +16,12 @@
 #include "cli/print.h"
 #include "core/error.h"
 #include "core/names.h"
+#include "forecast/fitted_model.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
 #include "model/spec_from_config.h"
 #include "report/report.h"
+#include "search/run_dir.h"
 #include "search/run_folder.h"
 
 namespace lagsieve::cli {
@@ -27,7 +30,7 @@ namespace {
 struct BacktestArgs {
   std::string config;
   std::vector<std::string> models;
-  std::string out;
+  std::optional<std::string> out;  // absent: <output.dir>/backtest
   std::string series;
   std::optional<int> threads;
 };
@@ -41,7 +44,13 @@ int run_backtest_command(const BacktestArgs& args) {
                                  config.config_file.string()));
   const SeriesData& data = pick_series(run, args.series);
   BacktestOptions options = backtest_options(config, data.rows());
-  options.threads = args.threads.value_or(config.search.threads);
+  options.threads = checked_threads(args.threads, config.search.threads);
+  if (args.out && args.out->empty()) check_run_dir_path("", "--out");
+  // A backtest writes a run folder of its own: by default beside the search's files, never over
+  // them. Locked, staged and swapped in whole like every run folder, so a refused or failed
+  // backtest writes nothing.
+  const std::filesystem::path out =
+      args.out ? std::filesystem::path(*args.out) : config.output.dir / "backtest";
   std::vector<BacktestCandidate> candidates;
   for (const auto& path : args.models) {
     const FittedModel model = load_model(path);
@@ -56,16 +65,24 @@ int run_backtest_command(const BacktestArgs& args) {
     candidates.push_back(candidate_from_spec(model_label(spec), spec, config));
   }
   candidates.push_back(seasonal_naive_candidate(options.season));
+  std::string fingerprint = config.config_file.string();
+  for (const auto& m : args.models) fingerprint += "|" + m;
+  RunDir dir(out, {"backtest", text_fingerprint(fingerprint), false,
+                   args.out ? "--out" : "the default folder <output.dir>/backtest"});
+  for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
+  const std::filesystem::path& stage = dir.staging();
   BacktestResult result = run_backtest(data, candidates, options);
   if (result.leader >= 0)
     result.input_value = input_value(data, candidates[result.leader], result.models[result.leader], options);
 
-  const std::filesystem::path out = args.out.empty() ? config.output.dir : std::filesystem::path(args.out);
-  std::filesystem::create_directories(out);
-  write_file_atomic(out / run_files::kBacktest, backtest_csv(result));
-  write_file_atomic(out / run_files::kAccuracy, accuracy_csv(result));
-  write_file_atomic(out / run_files::kComparisons, comparisons_csv(result));
-  write_file_atomic(out / run_files::kInputValue, input_value_csv(result));
+  write_file_atomic(stage / run_files::kBacktest, backtest_csv(result));
+  write_file_atomic(stage / run_files::kAccuracy, accuracy_csv(result));
+  write_file_atomic(stage / run_files::kComparisons, comparisons_csv(result));
+  write_file_atomic(stage / run_files::kInputValue, input_value_csv(result));
+  ReportOptions report_options;
+  report_options.folder_name = dir.out().filename().string();
+  write_report(stage, report_options);
+  dir.commit();
 
   fmt::print("{} · {} origins from row {} by {}, horizons 1..{}, {} window, refit {}\n", data.target_name,
              result.origins.size(), options.first_origin, options.step, options.horizon,
@@ -82,8 +99,7 @@ int run_backtest_command(const BacktestArgs& args) {
   for (const auto& v : result.input_value)
     fmt::print("input value · {}: score {:.4f} with, {:.4f} without (p = {:.3g})\n", v.input, v.score_with,
                v.score_without, v.test.p_value);
-  const auto report = write_report(out);
-  fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());
+  fmt::print("run folder: {} (report: {})\n", out.string(), (out / run_files::kReport).string());
   return kExitOk;
 }
 
@@ -94,7 +110,9 @@ void register_backtest(CLI::App& app) {
   auto args = std::make_shared<BacktestArgs>();
   cmd->add_option("CONFIG", args->config, "Run configuration with a backtest section (YAML)")->required();
   cmd->add_option("--models", args->models, "Model files to compare side by side");
-  cmd->add_option("--out", args->out, "Output folder (default: output.dir of the config)");
+  cmd->add_option(
+      "--out", args->out,
+      "Output folder, a run folder of its own (default: <output.dir of the config>/backtest)");
   cmd->add_option("--series", args->series, "Target column (default: the first)");
   cmd->add_option("--threads", args->threads, "Worker threads (0 = all cores)");
   cmd->callback([args] { finish(run_command([&] { return run_backtest_command(*args); })); });

@@ -11,6 +11,7 @@
 #include "core/error.h"
 #include "data/load.h"
 #include "forecast/model_file.h"
+#include "model/collinearity.h"
 #include "model/fit.h"
 #include "model/spec_from_config.h"
 
@@ -30,6 +31,11 @@ int run_fit(const FitArgs& args) {
   const ModelSpec spec = single_spec(run.config);
   const auto problem = make_problem(data, spec);
   const FitResult fit = fit_model(problem);
+  // A fit that fails because inputs are nearly collinear failed on bad input, not numerically.
+  if (!fit.usable())
+    if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
+      throw InputError(
+          fmt::format("{}: {}; the fit failed numerically because of it", args.config, why));
   if (!args.save.empty() && fit.usable())
     save_model(args.save, make_fitted_model(fit, run.config, data));
   if (args.json) {

@@ -47,6 +47,7 @@ Scenario read_future(const std::string& spec, const FittedModel& model, const Ru
   } else {
     s.name = std::filesystem::path(spec).stem().string();
   }
+  require_file(path, "--future");
   const CsvTable table = read_csv(path);
   const int time_col = config.data.time.empty() ? -1 : table.column_index(config.data.time);
   if (time_col >= 0) {
@@ -87,6 +88,7 @@ int run_forecast(const ForecastArgs& args) {
     throw InputError(
         fmt::format("{}: the model file holds no config text to read data with", args.model));
   const RunConfig config = parse_config(model.training.config_text, model.training.config_file);
+  require_file(args.data, "--data");
   const SeriesData history = load_series_from_csv(config, args.data, model.training.target_column);
   std::vector<Scenario> scenarios;
   for (const auto& f : args.futures)

@@ -66,7 +66,7 @@ int run_revalidate(const RevalidateArgs& args) {
   options.allow_revised_history = args.allow_revised_history;
   options.alpha = args.alpha;
   options.drift_threshold = args.drift_threshold;
-  options.threads = args.threads.value_or(run.config.search.threads);
+  options.threads = checked_threads(args.threads, run.config.search.threads);
   options.progress = progress_printer(args.quiet, data->target_name + " challengers");
   const RevalidationResult r = revalidate(model, *data, run.config, options);
 

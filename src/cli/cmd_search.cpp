@@ -13,7 +13,9 @@ void register_search(CLI::App& app) {
       "search", "Search inputs, delays, orders and noise models; rank, backtest, write a run folder");
   auto args = std::make_shared<SearchArgs>();
   cmd->add_option("CONFIG", args->config, "Run configuration (YAML)")->required();
-  cmd->add_option("--out", args->out, "Output folder (default: output.dir of the config)");
+  cmd->add_option(
+      "--out", args->out,
+      "Output folder (default: output.dir of the config); replaced as a whole unless --resume");
   cmd->add_flag("--resume", args->resume, "Skip the candidates the folder's journal already holds");
   cmd->add_flag("--quiet", args->quiet, "No progress on stderr");
   cmd->add_option("--threads", args->threads, "Worker threads (default: search.threads; 0 = all cores)");

@@ -3,15 +3,20 @@
 #include <fmt/format.h>
 
 #include <memory>
+#include <optional>
 #include <string>
 
 #include "backtest/backtest.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "core/error.h"
 #include "core/names.h"
 #include "data/events.h"
 #include "data/load.h"
 #include "io/config.h"
+#include "model/likelihood.h"
+#include "model/spec_from_config.h"
+#include "search/candidates.h"
 
 namespace lagsieve::cli {
 namespace {
@@ -80,6 +85,38 @@ int validate(const std::string& path) {
           "fitted\n",
           e.event, e.event_row, e.event_time.empty() ? "" : " (" + e.event_time + ")",
           bo.first_origin, e.first_origin, e.first_origin);
+  }
+  // The checks a fit makes on its regressors (an input that copies another, or is a linear
+  // combination of others and the constant over the sample): for the one model of a fit config
+  // they are errors, as in `fit`; for a search, the candidate holding every input at its shortest
+  // lags is checked and a failure is reported (other candidates may still be fitted).
+  std::optional<ModelSpec> single;
+  try {
+    single = single_spec(c);
+  } catch (const InputError&) {
+    // a search config
+  }
+  for (const auto& s : run.series) {
+    if (single) {
+      (void)make_problem(s, *single);
+      continue;
+    }
+    ModelSpec spec;
+    spec.transform = c.target.transform;
+    spec.differencing = c.differencing;
+    for (const auto& in : c.inputs)
+      spec.inputs.push_back({in.name, {in.delay.min, in.numerator.min, in.denominator.min}});
+    spec.noise = {c.noise.ar.min, c.noise.ma.min, c.noise.seasonal_ar.min, c.noise.seasonal_ma.min,
+                  c.noise.period};
+    spec.constant = c.noise.constant != ConstantMode::no;
+    try {
+      (void)make_problem(s, spec, common_start(c));
+    } catch (const InputError& e) {
+      fmt::print(
+          "warning    series {}: candidates with every input at its shortest lags cannot be "
+          "fitted: {}\n",
+          s.target_name, e.what());
+    }
   }
   fmt::print("output     {}\n", c.output.dir.string());
   fmt::print("valid\n");

@@ -27,6 +27,27 @@ int run_command(const std::function<int()>& body) {
 
 void finish(int code) { throw CLI::RuntimeError(code); }
 
+int checked_threads(const std::optional<int>& option, int config_value) {
+  if (!option) return config_value;  // search.threads is checked when the config is read
+  if (*option < 0 || *option > kMaxThreads)
+    throw InputError(
+        fmt::format("--threads {}: must be between 0 (all cores) and {}", *option, kMaxThreads));
+  return *option;
+}
+
+void require_file(const std::string& path, const std::string& option) {
+  std::error_code ec;
+  if (path.empty()) throw InputError(fmt::format("{} '': the file name is empty", option));
+  if (!std::filesystem::exists(path, ec))
+    throw InputError(
+        fmt::format("{} '{}': the file does not exist; check the path (relative to "
+                    "the current folder)",
+                    option, path));
+  if (!std::filesystem::is_regular_file(path, ec))
+    throw InputError(
+        fmt::format("{} '{}' is not a file (a folder?); give a CSV file", option, path));
+}
+
 LoadedRun load_run(const std::filesystem::path& config_file) {
   LoadedRun run;
   run.config = load_config(config_file);

@@ -2,6 +2,7 @@
 // Shared pieces of the command-line front: exit codes, error handling, config + data loading.
 #include <filesystem>
 #include <functional>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -14,6 +15,7 @@ namespace lagsieve::cli {
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitBadInput = 2;        // InputError: config, CSV, model file, options
 inline constexpr int kExitInternal = 3;        // numerical failure or a bug
+inline constexpr int kExitNoModel = 4;         // `search`: no usable candidate, no model file
 inline constexpr int kExitRefitAdvised = 10;     // `revalidate`: verdict refit
 inline constexpr int kExitReplaceAdvised = 11;   // `revalidate`: verdict replace
 
@@ -28,6 +30,14 @@ struct LoadedRun {
   RunConfig config;
   std::vector<SeriesData> series;  // one per target column
 };
+
+// The worker threads of a command: --threads when given, else the config's search.threads.
+// One rule for both (0 = all cores, at most kMaxThreads); throws InputError naming --threads.
+int checked_threads(const std::optional<int>& option, int config_value);
+
+// Throws InputError naming the option when `path` is not an existing regular file (a data file
+// given on the command line is blamed on its option, not on the config's data.file).
+void require_file(const std::string& path, const std::string& option);
 
 // Reads and validates the config, then loads and checks the data of every target column.
 LoadedRun load_run(const std::filesystem::path& config_file);

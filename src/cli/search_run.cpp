@@ -7,20 +7,22 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <map>
 #include <memory>
 
 #include "core/error.h"
 #include "core/names.h"
 #include "data/load.h"
 #include "forecast/fitted_model.h"
+#include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
-#include "forecast/forecast.h"
+#include "report/report.h"
 #include "screen/screen.h"
 #include "search/leaderboard.h"
-#include "search/shortlist.h"
-#include "report/report.h"
+#include "search/run_dir.h"
 #include "search/run_folder.h"
+#include "search/shortlist.h"
 
 namespace lagsieve::cli {
 
@@ -66,15 +68,46 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
   write_file_atomic(path, j.dump(1) + "\n");
 }
 
+namespace {
+
+// Why a series has no usable candidate: the statuses counted and the most frequent message.
+std::string no_candidate_reason(const SearchResult& r) {
+  std::map<std::string, int> statuses, messages;
+  for (const auto& row : r.rows) {
+    ++statuses[std::string(to_string(row.status))];
+    if (!row.message.empty()) ++messages[row.message];
+  }
+  std::string counts;
+  for (const auto& [status, n] : statuses)
+    counts += fmt::format("{}{} {}", counts.empty() ? "" : ", ", n, status);
+  std::string why;
+  int most = 0;
+  for (const auto& [message, n] : messages)
+    if (n > most) most = n, why = message;
+  return fmt::format(
+      "series '{}': no usable candidate among {} ({}){}", r.series, r.rows.size(),
+      counts.empty() ? "none fitted" : counts,
+      why.empty() ? "" : fmt::format("; most often ({} of {}): {}", most, r.rows.size(), why));
+}
+
+}  // namespace
+
 int run_search_command(const SearchArgs& args) {
   const LoadedRun run = load_run(args.config);
   const RunConfig& config = run.config;
-  const std::filesystem::path out = args.out.empty() ? config.output.dir : std::filesystem::path(args.out);
-  std::filesystem::create_directories(out);
-  Journal journal(out / run_files::kJournal, run_fingerprint(config, run.series), args.resume);
+  const int threads = checked_threads(args.threads, config.search.threads);
+  if (args.out && args.out->empty()) check_run_dir_path("", "--out");
+  const std::filesystem::path out = args.out ? std::filesystem::path(*args.out) : config.output.dir;
+  const std::string fingerprint = run_fingerprint(config, run.series);
+  // The folder belongs to this run: locked, staged beside it and swapped in as a whole at the end.
+  RunDir dir(out, {"search", fingerprint, args.resume, args.out ? "--out" : "output.dir"});
+  for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
+  const std::filesystem::path& stage = dir.staging();
+  Journal journal(stage / run_files::kJournal, fingerprint, args.resume);
+  for (const auto& note : journal.notes()) fmt::print(stderr, "lagsieve: warning: {}\n", note);
 
   SearchOptions options;
-  options.threads = args.threads.value_or(config.search.threads);
+  options.threads = threads;
   options.journal = &journal;
 
   std::vector<CandidateRow> all_rows;
@@ -86,46 +119,52 @@ int run_search_command(const SearchArgs& args) {
     results.push_back(run_search(data, config, options));
     auto& r = results.back();
     backtests.emplace_back();
-    if (config.backtest.enabled && !args.no_backtest) {
+    if (config.backtest.enabled && !args.no_backtest && r.has_leader()) {
       if (!args.quiet && ::isatty(STDERR_FILENO))
         fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
       backtests.back() = backtest_shortlist(data, config, r, options.threads);
       const auto& bt = backtests.back()->result;
-      write_file_atomic(out / run_files::per_series(run_files::kBacktest, r.series, several), backtest_csv(bt));
-      write_file_atomic(out / run_files::per_series(run_files::kAccuracy, r.series, several), accuracy_csv(bt));
-      write_file_atomic(out / run_files::per_series(run_files::kComparisons, r.series, several),
+      write_file_atomic(stage / run_files::per_series(run_files::kBacktest, r.series, several),
+                        backtest_csv(bt));
+      write_file_atomic(stage / run_files::per_series(run_files::kAccuracy, r.series, several),
+                        accuracy_csv(bt));
+      write_file_atomic(stage / run_files::per_series(run_files::kComparisons, r.series, several),
                         comparisons_csv(bt));
-      write_file_atomic(out / run_files::per_series(run_files::kInputValue, r.series, several),
+      write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
                         input_value_csv(bt));
     }
     all_rows.insert(all_rows.end(), r.rows.begin(), r.rows.end());
   }
-  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard. Each
-  // file is written atomically, so an interrupted run leaves whole files or none.
+  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard. All of
+  // it goes to the staging folder, which replaces the run folder only once everything is written.
+  std::vector<std::string> without_model;
   for (size_t k = 0; k < results.size(); ++k) {
     const auto& r = results[k];
     const SeriesData& data = run.series[k];
     const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
-    write_file_atomic(out / run_files::per_series(run_files::kScreen, r.series, several),
+    write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
                       to_json(screen).dump(1) + "\n");
-    if (!r.has_leader()) continue;
+    if (!r.has_leader()) {
+      without_model.push_back(no_candidate_reason(r));
+      continue;
+    }
     FittedModel model = make_fitted_model(r.leader, config, data);
     if (backtests[k] && backtests[k]->result.leader >= 0)
       model.backtest = accuracy_json(backtests[k]->result.models[backtests[k]->result.leader],
                                      backtests[k]->options);
-    save_model(out / run_files::model_file(r.series, several), model);
+    save_model(stage / run_files::model_file(r.series, several), model);
     auto fit_json = fit_to_json(r.leader);
     fit_json["series"] = r.series;
     fit_json["frequency"] = data.frequency;
     fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
     if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
-    write_file_atomic(out / run_files::per_series(run_files::kFit, r.series, several),
+    write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
-    write_leader_forecast(out / run_files::per_series(run_files::kForecast, r.series, several),
+    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
                           model, data, config);
   }
-  write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(out / run_files::kLeaderboardJson,
+  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
+  write_file_atomic(stage / run_files::kLeaderboardJson,
                     leaderboard_json(all_rows, config, results).dump(2) + "\n");
 
   for (const auto& r : results) {
@@ -152,8 +191,21 @@ int run_search_command(const SearchArgs& args) {
     if (!r.leader_reason.empty()) fmt::print("  leader: {}\n", r.leader_reason);
     for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
   }
-  const auto report = write_report(out);
-  fmt::print("run folder: {} (report: {})\n", out.string(), report.path.string());
+  ReportOptions report_options;
+  report_options.folder_name = dir.out().filename().string();
+  write_report(stage, report_options);
+  dir.commit(without_model.empty() ? "complete" : "no_usable_candidate");
+  const auto report_path = out / run_files::kReport;
+  if (!without_model.empty()) {
+    for (const auto& why : without_model)
+      fmt::print(stderr,
+                 "lagsieve: error: {}; no model file written (the leaderboard in {} lists "
+                 "every candidate's status and message)\n",
+                 why, out.string());
+    fmt::print("run folder: {} (report: {})\n", out.string(), report_path.string());
+    return kExitNoModel;
+  }
+  fmt::print("run folder: {} (report: {})\n", out.string(), report_path.string());
   return kExitOk;
 }
 

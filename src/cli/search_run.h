@@ -13,7 +13,7 @@ namespace lagsieve::cli {
 
 struct SearchArgs {
   std::string config;
-  std::string out;
+  std::optional<std::string> out;  // absent: output.dir of the config
   bool resume = false;
   bool quiet = false;
   std::optional<int> threads;

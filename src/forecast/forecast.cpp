@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 #include <algorithm>
 #include <cmath>
+#include <functional>
 #include <span>
 
 #include "core/error.h"
@@ -10,6 +11,7 @@
 #include "data/time_index.h"
 #include "data/transform.h"
 #include "evaluation/distributions.h"
+#include "io/config.h"
 #include "model/arma_filter.h"
 #include "model/likelihood.h"
 #include "model/polynomial.h"
@@ -38,15 +40,14 @@ int state_dim(const std::vector<double>& ar, const std::vector<double>& ma) {
 }
 
 // Point forecasts (deviation from the mean) of an ARMA process for `horizon` steps from the
-// predicted state at the origin, and the error covariance (units of sigma^2).
+// predicted state at the origin, and that state's covariance (units of sigma^2).
 struct ArmaPath {
   std::vector<double> mean;
-  Eigen::MatrixXd cov;
+  Eigen::MatrixXd p_origin;
 };
 
 ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
-                   const std::vector<double>& history, int horizon, const std::string& what,
-                   bool covariance = true) {
+                   const std::vector<double>& history, int horizon, const std::string& what) {
   ArmaFilterWorkspace ws;
   const auto end = arma_end_state(ar, ma, history, ws);
   ArmaPath path;
@@ -59,16 +60,41 @@ ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
-  if (covariance) path.cov = arma_forecast_covariance(ar, ma, end.cov, horizon);
+  path.p_origin = end.cov;
   return path;
 }
 
-// Lower-triangular Toeplitz matrix of weights: M(s, j) = w_{s-j}.
-Eigen::MatrixXd toeplitz_lower(const std::vector<double>& w, int n) {
-  Eigen::MatrixXd out = Eigen::MatrixXd::Zero(n, n);
-  for (int s = 0; s < n; ++s)
-    for (int j = 0; j <= s; ++j) out(s, j) = w[s - j];
-  return out;
+// A linear filter applied to a sequence that is zero before its first value (the integration
+// through the differencing, after an input's transfer function where there is one).
+using SequenceFilter = std::function<std::vector<double>(const std::vector<double>&)>;
+
+// Marginal variances (units of the innovation variance) of F applied to the errors of an ARMA
+// forecast over n steps. The error at step k is g_k e + sum_{j=1..k} psi_{k-j} a_j (state error
+// e at the origin with covariance p_origin, future innovations a_j), so F's output at step s is
+// G_s e + sum_{j=1..s} W_{s-j} a_j with G = F(g) column by column and W = F(psi); its variance is
+// G_s P G_s' + sum_{j<s} W_j^2. O(n) for a recursive F, where the full covariance over the
+// horizon costs O(n^3); only marginal intervals are asked for, so this is all that is needed.
+std::vector<double> filtered_arma_variance(const std::vector<double>& ar,
+                                           const std::vector<double>& ma,
+                                           const Eigen::MatrixXd& p_origin, int n,
+                                           const SequenceFilter& f) {
+  const int m = state_dim(ar, ma);
+  const Eigen::MatrixXd g = powers_of_t(ar, m, n);
+  Eigen::MatrixXd big_g(n, m);
+  std::vector<double> column(n);
+  for (int c = 0; c < m; ++c) {
+    for (int s = 0; s < n; ++s) column[s] = g(s, c);
+    const auto filtered = f(column);
+    for (int s = 0; s < n; ++s) big_g(s, c) = filtered[s];
+  }
+  const auto w = f(psi_weights(ar, ma, n));
+  std::vector<double> var(n);
+  double innovations = 0.0;
+  for (int s = 0; s < n; ++s) {
+    var[s] = big_g.row(s) * p_origin * big_g.row(s).transpose() + innovations;
+    innovations += w[s] * w[s];
+  }
+  return var;
 }
 
 }  // namespace
@@ -88,12 +114,12 @@ Eigen::MatrixXd arma_forecast_covariance(const std::vector<double>& ar,
 
 namespace {
 
-// The point forecast on the transformed scale (integrated) and, when asked, the error
-// covariances of the differenced forecasts over the horizon: noise (with the state at the origin)
+// The point forecast on the transformed scale (integrated) and, when asked, the marginal error
+// variances of the integrated forecasts over the horizon: noise (with the state at the origin)
 // and the inputs' own innovations. Re-run with perturbed parameters for the delta method.
 struct Paths {
   std::vector<double> level;
-  Eigen::MatrixXd cov_known, cov_inputs;
+  std::vector<double> var_known, var_inputs;  // integrated marginal variances
   std::vector<std::string> input_treatment;
 };
 
@@ -115,7 +141,14 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
                     "more than {} rows)",
                     rows, lost + minimum_start(spec) + 1));
 
-  Eigen::MatrixXd cov_inputs = Eigen::MatrixXd::Zero(horizon, horizon);
+  // Back through the differencing: y = w + sum_k c_k y_{t-k}, zero before the origin for errors.
+  const auto lags = differencing_lags(spec.differencing);
+  const SequenceFilter integrate = [&lags](std::vector<double> x) {
+    for (size_t s = 0; s < x.size(); ++s)
+      for (size_t k = 1; k <= lags.size() && k <= s; ++k) x[s] += lags[k - 1] * x[s - k];
+    return x;
+  };
+  if (covariances) out.var_inputs.assign(horizon, 0.0);  // summed over forecast inputs
   std::vector<std::vector<double>> x_paths;  // transfer-function output over nw + horizon
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
@@ -172,19 +205,22 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
       std::vector<double> centred(u.begin(), u.end());
       for (auto& v : centred) v -= im.mean;
       const auto path = arma_path(im.phi, im.theta, centred, horizon - known,
-                                  fmt::format("the own model of input '{}'", term.name),
-                                  covariances);
+                                  fmt::format("the own model of input '{}'", term.name));
       for (double v : path.mean) u.push_back(im.mean + v);
       if (!covariances) {
         x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
         continue;
       }
-      // Errors of the differenced input at steps known..horizon-1, through the impulse response.
-      Eigen::MatrixXd cov_u = Eigen::MatrixXd::Zero(horizon, horizon);
-      cov_u.bottomRightCorner(horizon - known, horizon - known) = im.sigma2 * path.cov;
-      const auto v = impulse_response(term.order, model.params.inputs[i], horizon);
-      const Eigen::MatrixXd vm = toeplitz_lower(v, horizon);
-      cov_inputs += vm * cov_u * vm.transpose();
+      // Errors of the differenced input from step `known` on, through the transfer function and
+      // the integration (independent of the noise and of the other inputs).
+      const InputOrder& order = term.order;
+      const InputParams& params = model.params.inputs[i];
+      const SequenceFilter through = [&](const std::vector<double>& x) {
+        return integrate(transfer_response(x, order, params));
+      };
+      const auto var =
+          filtered_arma_variance(im.phi, im.theta, path.p_origin, horizon - known, through);
+      for (int s = known; s < horizon; ++s) out.var_inputs[s] += im.sigma2 * var[s - known];
     }
     x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
   }
@@ -199,7 +235,7 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
   const auto noise_path =
       arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon,
-                "the noise model", covariances);
+                "the noise model");
 
   std::vector<double> w_hat(horizon);
   for (int s = 0; s < horizon; ++s) {
@@ -208,8 +244,8 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
     w_hat[s] = v;
   }
   if (covariances) {
-    out.cov_known = model.params.sigma2 * noise_path.cov;
-    out.cov_inputs = cov_inputs;
+    out.var_known = filtered_arma_variance(ar, ma, noise_path.p_origin, horizon, integrate);
+    for (auto& v : out.var_known) v *= model.params.sigma2;
   }
   const std::vector<double> head(z.end() - lost, z.end());
   const auto integrated = undifference(head, w_hat, spec.differencing);
@@ -249,8 +285,9 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
                                  const ForecastOptions& options) {
   const ModelSpec& spec = model.spec;
   const int horizon = options.horizon;
-  if (horizon < 1)
-    throw InputError(fmt::format("the horizon must be at least 1 (got {})", horizon));
+  if (horizon < 1 || horizon > kMaxHorizon)
+    throw InputError(
+        fmt::format("the horizon must be between 1 and {} steps (got {})", kMaxHorizon, horizon));
   ForecastResult out;
   out.origin = history.rows();
   out.time = next_time_stamps(history.time, horizon, history.time_format);
@@ -258,8 +295,6 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
   Paths base = compute_paths(model, history, futures, options, true);
   out.input_treatment = std::move(base.input_treatment);
   out.level = base.level;
-  const Eigen::MatrixXd& cov_known = base.cov_known;
-  const Eigen::MatrixXd cov_all = cov_known + base.cov_inputs;
 
   // Parameter uncertainty by the delta method: Var = J Cov J' with J the derivative of the level
   // path in the parameters (central differences) and Cov the fit's covariance.
@@ -321,12 +356,11 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
       out.parameter_uncertainty += (k == 0 ? ": " : ", ") + parts[k];
   }
 
-  // Back through the differencing: y = w + sum_k c_k y_{t-k}.
-  const auto xi = psi_weights(differencing_lags(spec.differencing), {}, horizon);
-  const Eigen::MatrixXd l = toeplitz_lower(xi, horizon);
-  const Eigen::VectorXd var_noise = (l * cov_known * l.transpose()).diagonal();
-  const Eigen::VectorXd var_all =
-      (l * cov_all * l.transpose()).diagonal() + var_param_model + var_param_inputs;
+  const Eigen::VectorXd var_noise =
+      Eigen::Map<const Eigen::VectorXd>(base.var_known.data(), horizon);
+  const Eigen::VectorXd var_all = var_noise +
+                                  Eigen::Map<const Eigen::VectorXd>(base.var_inputs.data(), horizon) +
+                                  var_param_model + var_param_inputs;
   const Eigen::VectorXd var_known = var_noise + var_param_model;
   out.share_inputs.resize(horizon);
   out.share_parameters.resize(horizon);

@@ -4,8 +4,9 @@
 // Forecast errors come from three independent sources: the noise innovations (with the
 // uncertainty of the filtered state at the origin), and, for every input whose future is
 // forecast, its own innovations passed through the input's impulse response. The covariance of
-// the differenced errors is built as a matrix over the horizon, then integrated back through the
-// differencing: Cov(y) = L Cov(w) L'. For a long history this equals the classical
+// the integrated errors is accumulated step by step (marginal variances only, so the cost is
+// linear in the horizon; the state error at the origin enters through G_s P G_s'). For a long
+// history this equals the classical
 //   V(k) = sigma^2 sum_{j<k} psi_j^2 + sum_i sigma_i^2 sum_{j<k} (sum_{l<=j} v_{i,l}
 //   psibar_{i,j-l})^2
 // (Box, Jenkins, Reinsel & Ljung, transfer-function forecasting), and it is exact for short ones.

@@ -351,7 +351,8 @@ void read_search(const Reader& rd, const YAML::Node& node, SearchConfig& search)
   if (const auto n = node["criterion"])
     search.criterion = rd.get_enum<Criterion>(n, "search.criterion");
   if (const auto n = node["budget"]) search.budget = rd.get_int(n, "search.budget", 1);
-  if (const auto n = node["threads"]) search.threads = rd.get_int(n, "search.threads");
+  if (const auto n = node["threads"])
+    search.threads = rd.get_int(n, "search.threads", 0, kMaxThreads);
 }
 
 void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt) {
@@ -362,7 +363,8 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
                 "levels", "score", "selection", "selection_level", "leader_statuses"});
   if (const auto n = node["first_origin"]) bt.first_origin = rd.get_int(n, "backtest.first_origin");
   if (const auto n = node["step"]) bt.step = rd.get_int(n, "backtest.step", 1);
-  if (const auto n = node["horizon"]) bt.horizon = rd.get_int(n, "backtest.horizon", 1);
+  if (const auto n = node["horizon"])
+    bt.horizon = rd.get_int(n, "backtest.horizon", 1, kMaxHorizon);
   if (const auto n = node["window"]) bt.window = rd.get_enum<WindowKind>(n, "backtest.window");
   if (const auto n = node["window_length"]) {
     bt.window_length = rd.get_int(n, "backtest.window_length");
@@ -411,7 +413,8 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
 
 void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc) {
   rd.check_map(node, "forecast", {"horizon", "levels", "parameter_uncertainty"});
-  if (const auto n = node["horizon"]) fc.horizon = rd.get_int(n, "forecast.horizon", 1);
+  if (const auto n = node["horizon"])
+    fc.horizon = rd.get_int(n, "forecast.horizon", 1, kMaxHorizon);
   if (const auto n = node["levels"]) fc.levels = rd.get_levels(n, "forecast.levels");
   if (const auto n = node["parameter_uncertainty"])
     fc.parameter_uncertainty = rd.get_bool(n, "forecast.parameter_uncertainty");

@@ -16,6 +16,12 @@ inline constexpr int kMaxDenominator = 4;
 inline constexpr int kMaxArma = 24;         // ar, ma
 inline constexpr int kMaxSeasonalArma = 4;  // seasonal_ar, seasonal_ma
 inline constexpr int kMaxDifferencing = 2;  // regular and seasonal
+// Worker threads (search.threads and --threads alike): 0 = all cores. Far beyond any core count,
+// and below where the thread pool's own limits fail.
+inline constexpr int kMaxThreads = 1024;
+// Forecast and backtest horizons (forecast --horizon, forecast.horizon, backtest.horizon): far
+// beyond any use, and small enough that a typo cannot exhaust memory.
+inline constexpr int kMaxHorizon = 10000;
 
 // Reads and validates the file; paths inside resolve relative to its folder.
 RunConfig load_config(const std::filesystem::path& config_file);

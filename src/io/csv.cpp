@@ -1,5 +1,7 @@
 #include "io/csv.h"
 
+#include <algorithm>
+
 #include <fmt/format.h>
 
 #include <cmath>
@@ -136,6 +138,18 @@ std::string CsvTable::where(int r) const {
 }
 
 CsvTable parse_csv(std::string_view text, const std::string& source) {
+  // A NUL byte is never text: the file is binary or in a wide encoding (UTF-16). Quoting the
+  // cell would cut the message at the NUL, so the spot is named instead.
+  if (const auto nul = text.find('\0'); nul != std::string_view::npos) {
+    const auto head = text.substr(0, nul);
+    const auto line = 1 + std::count(head.begin(), head.end(), '\n');
+    const auto line_start = head.rfind('\n');
+    const auto column = nul - (line_start == std::string_view::npos ? 0 : line_start + 1) + 1;
+    throw InputError(
+        fmt::format("{}:{}: a NUL byte at character {} of the line; the file is not "
+                    "plain text (saved as UTF-16 or binary?); save it as UTF-8 CSV",
+                    source, line, column));
+  }
   CsvTable table;
   table.source = source;
   Parser parser(text, table.source);

@@ -1,4 +1,5 @@
 #include "model/fit.h"
+#include "model/collinearity.h"
 
 #include <fmt/format.h>
 #include <Eigen/Dense>
@@ -513,6 +514,8 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     if (run.z.empty() || !std::isfinite(run.loglik)) {
       fit.status = FitStatus::numerical_failure;
       fit.message = "the likelihood could not be evaluated at any point tried";
+      if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
+        fit.message += "; " + why;
       fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
       return fit;
     }
@@ -527,6 +530,8 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
   if (!value.ok) {
     fit.status = FitStatus::numerical_failure;
     fit.message = "the GLS step failed: regressors are collinear or the noise variance is zero";
+    if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
+      fit.message += "; " + why;
     fit.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
     return fit;
   }

@@ -1,4 +1,5 @@
 #include "model/likelihood.h"
+#include "model/collinearity.h"
 
 #include <fmt/format.h>
 #include <Eigen/Cholesky>
@@ -39,28 +40,26 @@ int minimum_start(const ModelSpec& spec) {
   return start;
 }
 
-namespace {
-
 // Inputs whose lagged values over the estimation sample are (nearly) a linear combination of the
 // constant and the columns before them cannot have separate effects: the GLS step would fail with
 // no name attached. Gram-Schmidt over the columns the omegas multiply (constant first, if any,
 // then each input's lags b..b+s in spec order; with a denominator the regressor is the filtered
 // input, whose lags are collinear when the raw ones are) finds the first column that adds nothing
 // new; a least-squares fit on the columns before it names the ones it is made of.
-void check_inputs_separable(const LikelihoodProblem& problem) {
+std::string collinear_inputs(const LikelihoodProblem& problem, double tolerance) {
   const int n = problem.n_rows();
   const auto& spec = problem.spec;
   std::vector<Eigen::VectorXd> columns, basis;
   std::vector<std::string> names;
-  auto add = [&](const Eigen::VectorXd& column, const std::string& name) {
+  auto add = [&](const Eigen::VectorXd& column, const std::string& name) -> std::string {
     Eigen::VectorXd r = column;
     for (const auto& q : basis) r -= q.dot(r) * q;  // modified Gram-Schmidt
     const double norm = r.norm();
-    if (norm > 1e-9 * column.norm()) {
+    if (norm > tolerance * column.norm()) {
       columns.push_back(column);
       basis.emplace_back(r / norm);
       names.push_back(name);
-      return;
+      return std::string();
     }
     Eigen::MatrixXd x(n, static_cast<Eigen::Index>(columns.size()));
     for (size_t j = 0; j < columns.size(); ++j) x.col(static_cast<Eigen::Index>(j)) = columns[j];
@@ -69,24 +68,27 @@ void check_inputs_separable(const LikelihoodProblem& problem) {
     for (size_t j = 0; j < columns.size(); ++j)
       if (std::abs(beta(static_cast<Eigen::Index>(j))) * columns[j].norm() > 1e-6 * column.norm())
         parts += (parts.empty() ? "" : ", ") + names[j];
-    throw InputError(fmt::format(
+    return fmt::format(
         "{} is (nearly) a linear combination of {} over the estimation sample, so their effects "
         "cannot be told apart; leave one of them out or check the columns",
-        name, parts));
+        name, parts);
   };
-  if (spec.constant) add(Eigen::VectorXd::Ones(n), "the constant");
+  if (spec.constant) {
+    if (auto why = add(Eigen::VectorXd::Ones(n), "the constant"); !why.empty()) return why;
+  }
   for (size_t i = 0; i < problem.u.size(); ++i) {
     const auto& order = spec.inputs[i].order;
     for (int j = 0; j <= order.numerator; ++j) {  // the lagged columns the omegas multiply
       const int lag = order.delay + j;
-      add(Eigen::Map<const Eigen::VectorXd>(problem.u[i].data() + problem.start - lag, n),
-          lag == 0 ? fmt::format("input '{}'", spec.inputs[i].name)
-                   : fmt::format("input '{}' at lag {}", spec.inputs[i].name, lag));
+      auto why =
+          add(Eigen::Map<const Eigen::VectorXd>(problem.u[i].data() + problem.start - lag, n),
+              lag == 0 ? fmt::format("input '{}'", spec.inputs[i].name)
+                       : fmt::format("input '{}' at lag {}", spec.inputs[i].name, lag));
+      if (!why.empty()) return why;
     }
   }
+  return {};
 }
-
-}  // namespace
 
 LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, int start) {
   LikelihoodProblem problem;
@@ -122,7 +124,8 @@ LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, in
           "cannot be estimated; leave it out or check the column",
           spec.inputs[i].name));
   }
-  check_inputs_separable(problem);
+  if (auto why = collinear_inputs(problem, kCollinearTolerance); !why.empty())
+    throw InputError(why);
   return problem;
 }
 

@@ -263,6 +263,7 @@ struct SeriesFiles {
 
 struct RunFolder {
   fs::path dir;
+  std::string name;  // the folder's name as shown (a staged run shows its final name)
   bool several = false;
   std::optional<Leaderboard> leaderboard;
   std::vector<SeriesFiles> series;
@@ -318,8 +319,10 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
   }
   if (!run.several) {
     // One series: its name from the leaderboard, else from whichever file names it.
+    // A backtest folder holds only the backtest tables.
     const bool any = exists(run_files::kFit) || exists(run_files::kScreen) ||
-                     exists(run_files::kForecast) || exists(run_files::model_file("", false));
+                     exists(run_files::kForecast) || exists(run_files::model_file("", false)) ||
+                     exists(run_files::kAccuracy);
     if (names.empty() && any) names.push_back("");
   }
   if (names.empty() && !run.revalidation && !run.leaderboard)
@@ -589,8 +592,7 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
       break;
     }
   HtmlKeyValues kv;
-  kv.items.emplace_back("Run folder", run.dir.filename().empty() ? run.dir.string()
-                                                                   : run.dir.filename().string());
+  kv.items.emplace_back("Run folder", run.name);
   if (first_with_model) {
     const TrainingInfo& tr = first_with_model->model->training;
     if (!tr.config_file.empty()) kv.items.emplace_back("Config file", tr.config_file);
@@ -1582,14 +1584,17 @@ std::string config_details(const std::string& text) {
 ReportResult write_report(const fs::path& run_dir, const ReportOptions& options) {
   options.validate();
   ReportResult result;
-  const RunFolder run = read_run_folder(run_dir, result.warnings);
+  RunFolder run = read_run_folder(run_dir, result.warnings);
   std::vector<std::string> files_read = run.files_read;
 
   Builder b(run, options, result);
   HtmlPage& page = b.page;
-  const std::string folder = run_dir.filename().empty() ? run_dir.parent_path().filename().string()
-                                                        : run_dir.filename().string();
+  const std::string folder = !options.folder_name.empty() ? options.folder_name
+                             : run_dir.filename().empty()
+                                 ? run_dir.parent_path().filename().string()
+                                 : run_dir.filename().string();
   page.title = options.title.empty() ? fmt::format("Run report: {}", folder) : options.title;
+  run.name = folder;
   std::vector<std::string> names;
   for (const auto& sf : run.series) names.push_back(sf.name);
   page.subtitle = names.empty() ? std::string()

@@ -28,6 +28,7 @@ struct ReportOptions {
   int forecast_table_rows = 24; // forecast steps listed under the fan chart
   bool write_charts = true;     // also write charts/*.svg
   std::string title;            // empty: "Run report: <folder name>"
+  std::string folder_name;  // empty: the name of run_dir (a run staged elsewhere passes its own)
   std::string footer = "lagsieve";
 
   // Throws InputError naming the option when a count is not positive.

@@ -9,6 +9,7 @@
 #include <fstream>
 
 #include "core/error.h"
+#include "forecast/fitted_model.h"
 
 namespace lagsieve {
 
@@ -30,15 +31,24 @@ void write_all(int fd, const std::string& text, const std::filesystem::path& pat
 
 }  // namespace
 
+std::string Journal::row_checksum(const std::string& run_fingerprint, const nlohmann::json& row) {
+  nlohmann::json body = row;
+  body.erase("check");
+  return text_fingerprint(run_fingerprint + "\n" + body.dump());
+}
+
 Journal::Journal(std::filesystem::path path, const std::string& run_fingerprint, bool resume)
-    : path_(std::move(path)) {
+    : path_(std::move(path)), run_(run_fingerprint) {
   std::filesystem::create_directories(path_.parent_path().empty() ? "." : path_.parent_path());
   bool keep = false;
   if (resume && std::filesystem::exists(path_)) {
     std::ifstream in(path_);
     std::string line;
     bool header = true;
+    int line_no = 0, untrusted = 0;
+    std::string first_untrusted;
     while (std::getline(in, line)) {
+      ++line_no;
       nlohmann::json j;
       try {
         j = nlohmann::json::parse(line);
@@ -55,9 +65,22 @@ Journal::Journal(std::filesystem::path path, const std::string& run_fingerprint,
               path_.string()));
         continue;
       }
-      if (j.contains("series") && j.contains("key"))
-        rows_[{j["series"].get<std::string>(), j["key"].get<std::string>()}] = j;
+      if (!j.is_object() || !j.contains("series") || !j["series"].is_string() ||
+          !j.contains("key") || !j["key"].is_string())
+        continue;
+      if (!j.contains("check") || !j["check"].is_string() ||
+          j["check"].get<std::string>() != row_checksum(run_fingerprint, j)) {
+        if (untrusted++ == 0)
+          first_untrusted = fmt::format("line {} ({})", line_no, j["key"].get<std::string>());
+        continue;
+      }
+      rows_[{j["series"].get<std::string>(), j["key"].get<std::string>()}] = j;
     }
+    if (untrusted > 0)
+      notes_.push_back(fmt::format(
+          "{}: {} row(s) fail their checksum (edited or damaged; the first at {}); those "
+          "candidates are fitted again",
+          path_.string(), untrusted, first_untrusted));
     keep = !header;
   }
   fd_ = ::open(path_.c_str(), O_WRONLY | O_CREAT | O_APPEND | (keep ? 0 : O_TRUNC), 0644);
@@ -87,7 +110,9 @@ const nlohmann::json* Journal::find(const std::string& series, const std::string
 }
 
 void Journal::append(const nlohmann::json& row) {
-  const std::string line = row.dump() + "\n";
+  nlohmann::json checked = row;
+  checked["check"] = row_checksum(run_, row);
+  const std::string line = checked.dump() + "\n";
   std::lock_guard lock(mutex_);
   write_all(fd_, line, path_);
 }

@@ -312,22 +312,32 @@ void warn_on_leader_residuals(SearchResult& result) {
 
 }  // namespace lagsieve
 
-#include <fstream>
-#include <sstream>
-
 #include "forecast/fitted_model.h"
 
 namespace lagsieve {
 
 std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesData>& series) {
-  std::ifstream in(config.config_file);
-  std::stringstream text;
-  text << in.rdbuf();
+  // Only what a candidate's fit depends on: the data (values and time stamps), how they are
+  // read, the target's transform, the differencing, the inputs and events, and the common sample
+  // start the grid implies. Comments, layout, the strategy, budget, threads, backtest, forecast
+  // and output sections do not change a candidate's result, so they do not block a resume.
+  std::string all = fmt::format("v2|time={}|missing={}|", config.data.time,
+                                static_cast<int>(config.data.missing));
+  for (const auto& c : config.target.columns) all += "target=" + c + ";";
+  all += fmt::format("|transform={},{:.17g}|diff={},{},{}|start={}|period={}|",
+                     static_cast<int>(config.target.transform.kind), config.target.transform.lambda,
+                     config.differencing.regular, config.differencing.seasonal,
+                     config.differencing.period, common_start(config), config.noise.period);
   std::vector<std::string> names;
-  for (const auto& ic : config.inputs)
+  for (const auto& ic : config.inputs) {
+    all +=
+        fmt::format("input={},{},{},{}|", ic.name, ic.is_event, static_cast<int>(ic.shape), ic.at);
     if (!ic.is_event) names.push_back(ic.name);
-  std::string all = text.str();
-  for (const auto& s : series) all += data_fingerprint(s, s.rows(), names);
+  }
+  for (const auto& s : series) {
+    all += s.target_name + "=" + data_fingerprint(s, s.rows(), names) + "|";
+    for (const auto& t : s.time) all += t + ";";
+  }
   return text_fingerprint(all);
 }
 

@@ -63,8 +63,13 @@ Exit wait_for(pid_t pid) {
   return {false, WEXITSTATUS(status)};
 }
 
+// The streams of a run into `folder` go beside it: a run folder holds only the run's own files.
+fs::path log_of(const fs::path& folder, const char* stream) {
+  return folder.parent_path() / (folder.filename().string() + "." + stream + ".txt");
+}
+
 Exit run(const std::vector<std::string>& args, const fs::path& folder) {
-  return wait_for(start(args, folder / "stdout.txt", folder / "stderr.txt"));
+  return wait_for(start(args, log_of(folder, "stdout"), log_of(folder, "stderr")));
 }
 
 // One CSV line split into fields (quoted fields may hold commas and doubled quotes).
@@ -156,8 +161,9 @@ class SearchResume : public ::testing::Test {
     fs::create_directories(dir);
     const std::vector<std::string> args = {"search", (root_ / "run.yaml").string(), "--out",
                                            dir.string(), "--quiet"};
-    const pid_t pid = start(args, dir / "stdout1.txt", dir / "stderr1.txt");
-    const fs::path journal = dir / "journal.jsonl";
+    const pid_t pid = start(args, log_of(dir, "stdout1"), log_of(dir, "stderr1"));
+    // While the run works, its journal is in the staging folder beside the run folder.
+    const fs::path journal = root_ / ("." + name + ".lagsieve-next") / "journal.jsonl";
     const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
     while (line_count(journal) < 1 + total_ / 6 && std::chrono::steady_clock::now() < deadline)
       std::this_thread::sleep_for(std::chrono::milliseconds(5));
@@ -173,10 +179,10 @@ class SearchResume : public ::testing::Test {
     resume.push_back("--resume");
     const Exit e = run(resume, dir);
     EXPECT_FALSE(e.signalled);
-    EXPECT_EQ(e.code, 0) << testing::slurp(dir / "stderr.txt");
+    EXPECT_EQ(e.code, 0) << testing::slurp(log_of(dir, "stderr"));
     // The resumed run took the interrupted run's rows from the journal.
     // The summary line reads "... (F fitted, R from the journal, ...".
-    const std::string out = testing::slurp(dir / "stdout.txt");
+    const std::string out = testing::slurp(log_of(dir, "stdout"));
     const size_t at = out.find(" fitted, ");
     const size_t open = out.rfind('(', at);
     EXPECT_TRUE(at != std::string::npos && open != std::string::npos) << out;
@@ -198,7 +204,7 @@ class SearchResume : public ::testing::Test {
 };
 
 TEST_F(SearchResume, KilledRunResumesToTheSameLeaderboardDespiteATornLine) {
-  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
   const std::string expected = leaderboard_without_times(root_ / "full");
   ASSERT_EQ(std::count(expected.begin(), expected.end(), '\n'), total_ + 1);
   const fs::path dir = interrupt_and_resume("killed", SIGKILL, true);
@@ -207,13 +213,13 @@ TEST_F(SearchResume, KilledRunResumesToTheSameLeaderboardDespiteATornLine) {
 }
 
 TEST_F(SearchResume, InterruptedRunResumesToTheSameLeaderboard) {
-  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
   const fs::path dir = interrupt_and_resume("interrupted", SIGINT, false);
   EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
 }
 
 TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
-  ASSERT_TRUE(full_ok_) << testing::slurp(root_ / "full" / "stderr.txt");
+  ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
   const fs::path dir = root_ / "other";
   fs::create_directories(dir);
   fs::copy_file(root_ / "full" / "journal.jsonl", dir / "journal.jsonl");
@@ -223,12 +229,68 @@ TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
           dir);
   EXPECT_FALSE(e.signalled);
   EXPECT_EQ(e.code, 2);
-  const std::string err = testing::slurp(dir / "stderr.txt");
+  const std::string err = testing::slurp(log_of(dir, "stderr"));
   EXPECT_NE(err.find("journal.jsonl"), std::string::npos) << err;
   EXPECT_NE(err.find("another run"), std::string::npos) << err;
   EXPECT_EQ(testing::slurp(dir / "journal.jsonl"), before)
       << "a refused journal must be left as it was";
   EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
+}
+
+// A row edited by hand (a better BIC than any real fit) fails its checksum: the candidate is
+// fitted again and the ranking is the one of an untouched run.
+TEST_F(SearchResume, TamperedJournalRowIsNotTrusted) {
+  ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
+  const fs::path dir = root_ / "tampered";
+  fs::create_directories(dir);
+  std::ifstream in(root_ / "full" / "journal.jsonl");
+  std::ofstream out(dir / "journal.jsonl");
+  int edited = 0;
+  for (std::string line; std::getline(in, line);) {
+    const auto at = line.find("\"bic\":");
+    if (edited == 0 && at != std::string::npos &&
+        line.find("\"status\":\"ok\"") != std::string::npos) {
+      const auto end = line.find_first_of(",}", at);
+      line = line.substr(0, at) + "\"bic\":-99999.0" + line.substr(end);
+      ++edited;
+    }
+    out << line << "\n";
+  }
+  out.close();
+  ASSERT_EQ(edited, 1);
+  const Exit e = run(
+      {"search", (root_ / "run.yaml").string(), "--out", dir.string(), "--quiet", "--resume"}, dir);
+  EXPECT_FALSE(e.signalled);
+  EXPECT_EQ(e.code, 0);
+  const std::string err = testing::slurp(log_of(dir, "stderr"));
+  EXPECT_NE(err.find("1 row(s) fail their checksum"), std::string::npos) << err;
+  const std::string summary = testing::slurp(log_of(dir, "stdout"));
+  EXPECT_NE(summary.find("(1 fitted, " + std::to_string(total_ - 1) + " from the journal"),
+            std::string::npos)
+      << summary;
+  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
+  EXPECT_EQ(testing::slurp(dir / "leaderboard.csv").find("-99999"), std::string::npos);
+}
+
+// The fingerprint covers what determines the candidates' results only: a comment, other
+// threads and a backtest section do not block --resume; a changed input range that moves the
+// common sample does.
+TEST_F(SearchResume, CommentsAndUnrelatedSectionsDoNotBlockResume) {
+  ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
+  const fs::path dir = root_ / "edited";
+  fs::create_directories(dir);
+  fs::copy_file(root_ / "full" / "journal.jsonl", dir / "journal.jsonl");
+  std::string text = "# edited after the run\n" + config_text("[0, 3]");
+  text.replace(text.find("threads: 2"), 10, "threads: 1");
+  std::ofstream(root_ / "edited.yaml") << text << "forecast: {horizon: 5}  # a comment\n";
+  const Exit e = run(
+      {"search", (root_ / "edited.yaml").string(), "--out", dir.string(), "--quiet", "--resume"},
+      dir);
+  EXPECT_EQ(e.code, 0) << testing::slurp(log_of(dir, "stderr"));
+  EXPECT_NE(testing::slurp(log_of(dir, "stdout")).find("(0 fitted, " + std::to_string(total_)),
+            std::string::npos)
+      << testing::slurp(log_of(dir, "stdout"));
+  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
 }
 
 }  // namespace
