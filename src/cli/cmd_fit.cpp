@@ -3,6 +3,7 @@
 
 #include <cmath>
 #include <memory>
+#include <optional>
 #include <string>
 
 #include "cli/commands.h"
@@ -12,6 +13,8 @@
 #include "forecast/model_file.h"
 #include "model/fit.h"
 #include "model/spec_from_config.h"
+#include "outliers/detect.h"
+#include "outliers/json.h"
 
 namespace lagsieve::cli {
 namespace {
@@ -27,16 +30,26 @@ int run_fit(const FitArgs& args) {
   const LoadedRun run = load_run(args.config);
   const SeriesData& data = pick_series(run, args.series);
   const ModelSpec spec = single_spec(run.config);
-  const auto problem = make_problem(data, spec);
-  const FitResult fit = fit_model(problem);
+  std::optional<OutlierFit> detected;
+  FitResult fit;
+  if (run.config.outliers.enabled) {
+    detected = fit_with_outliers(data, spec, outlier_options(run.config.outliers));
+    fit = detected->fit;
+  } else {
+    fit = fit_model(make_problem(data, spec));
+  }
   if (!args.save.empty() && fit.usable())
-    save_model(args.save, make_fitted_model(fit, run.config, data));
+    save_model(args.save,
+               detected ? make_fitted_model(fit, run.config, detected->data, detected->effects)
+                        : make_fitted_model(fit, run.config, data));
   if (args.json) {
     auto j = fit_to_json(fit);
     j["series"] = data.target_name;
+    if (detected) j["outliers"] = outliers_to_json(*detected);
     fmt::print("{}\n", j.dump(2));
   } else {
     print_fit(fit, data);
+    if (detected) print_outliers(*detected);
     if (!args.save.empty() && fit.usable()) fmt::print("\nmodel file written: {}\n", args.save);
   }
   return fit.usable() ? kExitOk : kExitInternal;

@@ -25,6 +25,8 @@ enum class ConstantMode { yes, no, automatic };  // YAML: true | false | auto
 enum class Strategy { exhaustive, guided, stepwise };
 enum class Criterion { aic, aicc, bic };
 enum class WindowKind { expanding, sliding };
+// Effects the data do not announce, found by outlier detection (src/outliers/).
+enum class OutlierType { additive, level_shift, temporary, innovational };
 
 struct DataConfig {
   std::filesystem::path file;               // resolved relative to the config file
@@ -93,6 +95,18 @@ struct ForecastConfig {
   std::vector<double> levels{0.8, 0.95};
 };
 
+// `outliers:` at the top level: automatic detection of additive outliers, level shifts, temporary
+// changes and innovational outliers, joint with the fit (src/outliers/detect.h). Off when the
+// section is absent.
+struct OutliersConfig {
+  bool enabled = false;  // true when the YAML has an `outliers` section
+  std::vector<OutlierType> detect{OutlierType::additive, OutlierType::level_shift,
+                                  OutlierType::temporary};
+  double critical = 0.0;  // `critical: auto` (0 here) = the rule of default_critical_value(n)
+  int max = 10;           // effects at most
+  double decay = 0.7;     // delta of the temporary change's decay delta^(t - T)
+};
+
 struct OutputConfig {
   std::filesystem::path dir = "runs/out";   // resolved relative to the config file
 };
@@ -107,6 +121,7 @@ struct RunConfig {
   SearchConfig search;
   BacktestConfig backtest;
   ForecastConfig forecast;
+  OutliersConfig outliers;
   OutputConfig output;
 };
 

@@ -120,7 +120,13 @@ ForecastResult forecast(const FittedModel& model, const SeriesData& history,
       ic.shape = use.shape;
       ic.at = use.at;
       const int row = event_row(ic, history.time, model.training.config_file);
-      original = event_values(use.shape, row, rows + horizon);
+      if (use.effect) {
+        OutlierEffect effect = *use.effect;
+        effect.row = row;
+        original = effect_values(effect, rows + horizon);
+      } else {
+        original = event_values(use.shape, row, rows + horizon);
+      }
       known = horizon;
       out.input_treatment.push_back("known (event)");
     } else {

@@ -154,9 +154,10 @@ TEST(Config, Messages) {
   EXPECT_EQ(error_of(h + "backtest: {levels: [0.8, 95]}\n"),
             "/cfg/dir/config.yaml:3: backtest.levels: level 95 is outside (0, 1); write "
             "coverage as a fraction, e.g. 0.95");
-  EXPECT_EQ(error_of(h + "nois: {ar: 1}\n"),
-            "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
-            "data, target, differencing, inputs, noise, search, backtest, forecast, output)");
+  EXPECT_EQ(
+      error_of(h + "nois: {ar: 1}\n"),
+      "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
+      "data, target, differencing, inputs, noise, search, backtest, forecast, outliers, output)");
   EXPECT_EQ(error_of("data: {file: d.csv}\n"), "/cfg/dir/config.yaml:1: missing section `target`");
   EXPECT_EQ(error_of("data: {file: d.csv}\ntarget: {column: y, columns: [a]}\n"),
             "/cfg/dir/config.yaml:2: target: give either `column` (one series) or `columns` (a "

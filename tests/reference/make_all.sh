@@ -25,6 +25,8 @@ $PY $ref/dm_test/make_dm_test.py
 $R $ref/ljung_box/make_ljung_box.R
 $PY $ref/ljung_box/make_ljung_box.py
 $R $ref/residual_ccf/make_residual_ccf.R
+$R $ref/outliers/make_nile_csv.R
+$R $ref/outliers/make_nile.R
 
 # Fixtures kept by other topics beside their tests.
 $R $ref/distributions/make_distributions.R
