@@ -11,28 +11,26 @@
 #include "core/error.h"
 #include "core/names.h"
 #include "forecast/fitted_model.h"
-#include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
-#include "report/report.h"
+#include "forecast/forecast.h"
 #include "screen/screen.h"
 #include "search/leaderboard.h"
-#include "search/run_folder.h"
 #include "search/shortlist.h"
+#include "report/report.h"
+#include "search/run_folder.h"
 
 namespace lagsieve::cli {
 
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what) {
   if (quiet || !::isatty(STDERR_FILENO)) return {};
-  const auto t0 =
-      std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
+  const auto t0 = std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
   return [t0, what](int done, int total) {
-    const double secs =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
+    const double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
     const double rate = secs > 0 ? done / secs : 0.0;
     const double left = rate > 0 ? (total - done) / rate : 0.0;
-    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total,
-               rate, std::max(left, 0.0));
+    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total, rate,
+               std::max(left, 0.0));
     if (done >= total) fmt::print(stderr, "\n");
   };
 }
@@ -63,15 +61,13 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
 int run_search_command(const SearchArgs& args) {
   const LoadedRun run = load_run(args.config);
   const RunConfig& config = run.config;
-  const std::filesystem::path out =
-      args.out.empty() ? config.output.dir : std::filesystem::path(args.out);
+  const std::filesystem::path out = args.out.empty() ? config.output.dir : std::filesystem::path(args.out);
   std::filesystem::create_directories(out);
   Journal journal(out / run_files::kJournal, run_fingerprint(config, run.series), args.resume);
 
   if (config.outliers.enabled)
-    fmt::print(stderr,
-               "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
-               "search ranks the candidates without detected effects\n");
+    fmt::print(stderr, "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
+                       "search ranks the candidates without detected effects\n");
   SearchOptions options;
   options.threads = args.threads.value_or(config.search.threads);
   options.journal = &journal;
@@ -90,10 +86,8 @@ int run_search_command(const SearchArgs& args) {
         fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
       backtests.back() = backtest_shortlist(data, config, r, options.threads);
       const auto& bt = backtests.back()->result;
-      write_file_atomic(out / run_files::per_series(run_files::kBacktest, r.series, several),
-                        backtest_csv(bt));
-      write_file_atomic(out / run_files::per_series(run_files::kAccuracy, r.series, several),
-                        accuracy_csv(bt));
+      write_file_atomic(out / run_files::per_series(run_files::kBacktest, r.series, several), backtest_csv(bt));
+      write_file_atomic(out / run_files::per_series(run_files::kAccuracy, r.series, several), accuracy_csv(bt));
       write_file_atomic(out / run_files::per_series(run_files::kComparisons, r.series, several),
                         comparisons_csv(bt));
       write_file_atomic(out / run_files::per_series(run_files::kInputValue, r.series, several),
@@ -123,17 +117,15 @@ int run_search_command(const SearchArgs& args) {
                           model, data, config);
   }
   write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(out / run_files::kLeaderboardJson,
-                    leaderboard_json(all_rows, config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kLeaderboardJson, leaderboard_json(all_rows, config).dump(2) + "\n");
 
   for (const auto& r : results) {
     int failed = 0;
     for (const auto& row : r.rows) failed += row.rankable() ? 0 : 1;
-    fmt::print(
-        "{} · {} strategy, {} candidates ({} fitted, {} from the journal, {} not usable) in "
-        "{:.1f} s; ranked by {} on {} common observations\n",
-        r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
-        r.seconds, to_string(config.search.criterion), r.rows.empty() ? 0 : r.rows.front().n_obs);
+    fmt::print("{} · {} strategy, {} candidates ({} fitted, {} from the journal, {} not usable) in "
+               "{:.1f} s; ranked by {} on {} common observations\n",
+               r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
+               r.seconds, to_string(config.search.criterion), r.rows.empty() ? 0 : r.rows.front().n_obs);
     const size_t shown = std::min<size_t>(r.rows.size(), 10);
     size_t width = 5;  // the model column fits the longest label shown
     for (size_t i = 0; i < shown; ++i) width = std::max(width, r.rows[i].key.size());
@@ -141,8 +133,8 @@ int run_search_command(const SearchArgs& args) {
                to_string(config.search.criterion), "loglik", "LB p", "backtest", "status");
     for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
-      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key,
-                 width, row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
+      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
+                 row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
     }
