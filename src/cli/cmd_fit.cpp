@@ -3,6 +3,7 @@
 
 #include <cmath>
 #include <memory>
+#include <optional>
 #include <string>
 
 #include "cli/commands.h"
@@ -14,6 +15,8 @@
 #include "model/collinearity.h"
 #include "model/fit.h"
 #include "model/spec_from_config.h"
+#include "outliers/detect.h"
+#include "outliers/json.h"
 
 namespace lagsieve::cli {
 namespace {
@@ -30,23 +33,34 @@ int run_fit(const FitArgs& args) {
   const SeriesData& data = pick_series(run, args.series);
   const ModelSpec spec = single_spec(run.config);
   const auto problem = make_problem(data, spec);
-  const FitResult fit = fit_model(problem);
+  std::optional<OutlierFit> detected;
+  FitResult fit;
+  if (run.config.outliers.enabled) {
+    detected = fit_with_outliers(data, spec, outlier_options(run.config.outliers));
+    fit = detected->fit;
+  } else {
+    fit = fit_model(problem);
+  }
   // A fit that fails because inputs are nearly collinear failed on bad input, not numerically.
   if (!fit.usable())
     if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
       throw InputError(
           fmt::format("{}: {}; the fit failed numerically because of it", args.config, why));
   if (!args.save.empty() && fit.usable())
-    save_model(args.save, make_fitted_model(fit, run.config, data));
+    save_model(args.save,
+               detected ? make_fitted_model(fit, run.config, detected->data, detected->effects)
+                        : make_fitted_model(fit, run.config, data));
   if (args.json) {
     auto j = fit_to_json(fit);
     j["series"] = data.target_name;
     j["frequency"] = data.frequency;
     j["missing"] = describe_missing(data);  // what was missing, filled or inserted, per column
     if (!run.config.seasonal_note.empty()) j["seasonal_note"] = run.config.seasonal_note;
+    if (detected) j["outliers"] = outliers_to_json(*detected);
     fmt::print("{}\n", j.dump(2));
   } else {
     print_fit(fit, data);
+    if (detected) print_outliers(*detected);
     if (!run.config.seasonal_note.empty()) fmt::print("\nnote: {}\n", run.config.seasonal_note);
     if (!args.save.empty() && fit.usable()) fmt::print("\nmodel file written: {}\n", args.save);
   }

@@ -7,6 +7,7 @@
 #include "core/error.h"
 #include "data/load.h"
 #include "model/spec_from_config.h"
+#include "outliers/json.h"
 
 namespace lagsieve::cli {
 
@@ -72,6 +73,20 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
       fmt::print("  {:<20} {}\n", r.polynomial, num(r.min_modulus, 4));
   }
   for (const auto& w : fit.diagnostics.warnings) fmt::print("\nwarning: {}\n", w);
+}
+
+void print_outliers(const OutlierFit& detected) {
+  fmt::print("\ndetected effects (critical |t| {:.2f}; {} detection rounds):\n", detected.critical,
+             detected.rounds);
+  if (detected.effects.empty()) fmt::print("  none\n");
+  bool ambiguous = false;
+  for (const auto& e : detected.effects) {
+    fmt::print("  {}\n", describe_effect(e));
+    ambiguous = ambiguous || !e.ambiguous_with.empty();
+  }
+  for (const auto& e : detected.dropped)
+    fmt::print("  dropped (below the critical value in the joint fit): {}\n", e.name);
+  if (ambiguous) fmt::print("  ambiguous: {}\n", kAmbiguityRule);
 }
 
 }  // namespace lagsieve::cli

@@ -106,6 +106,9 @@ int run_search_command(const SearchArgs& args) {
   Journal journal(stage / run_files::kJournal, fingerprint, args.resume);
   for (const auto& note : journal.notes()) fmt::print(stderr, "lagsieve: warning: {}\n", note);
 
+  if (config.outliers.enabled)
+    fmt::print(stderr, "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
+                       "search ranks the candidates without detected effects\n");
   SearchOptions options;
   options.threads = threads;
   options.journal = &journal;

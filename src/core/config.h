@@ -26,6 +26,8 @@ enum class ConstantMode { yes, no, automatic };  // YAML: true | false | auto
 enum class Strategy { exhaustive, guided, stepwise };
 enum class Criterion { aic, aicc, bic };
 enum class WindowKind { expanding, sliding };
+// Effects the data do not announce, found by outlier detection (src/outliers/).
+enum class OutlierType { additive, level_shift, temporary, innovational };
 
 struct DataConfig {
   std::filesystem::path file;               // resolved relative to the config file
@@ -115,6 +117,18 @@ struct ForecastConfig {
   bool parameter_uncertainty = true;        // intervals include the parameters' estimation error
 };
 
+// `outliers:` at the top level: automatic detection of additive outliers, level shifts, temporary
+// changes and innovational outliers, joint with the fit (src/outliers/detect.h). Off when the
+// section is absent.
+struct OutliersConfig {
+  bool enabled = false;  // true when the YAML has an `outliers` section
+  std::vector<OutlierType> detect{OutlierType::additive, OutlierType::level_shift,
+                                  OutlierType::temporary};
+  double critical = 0.0;  // `critical: auto` (0 here) = the rule of default_critical_value(n)
+  int max = 10;           // effects at most
+  double decay = 0.7;     // delta of the temporary change's decay delta^(t - T)
+};
+
 struct OutputConfig {
   std::filesystem::path dir = "runs/out";   // resolved relative to the config file
 };
@@ -129,6 +143,7 @@ struct RunConfig {
   SearchConfig search;
   BacktestConfig backtest;
   ForecastConfig forecast;
+  OutliersConfig outliers;
   OutputConfig output;
   // Seasonal terms used without a period: the period is the one the data's frequency suggests
   // (apply_seasonal_default in data/load.h fills it in and says so in `seasonal_note`).

@@ -33,6 +33,10 @@ constexpr Table<Criterion, 3> kCriterion{
     {{Criterion::aic, "aic"}, {Criterion::aicc, "aicc"}, {Criterion::bic, "bic"}}};
 constexpr Table<WindowKind, 2> kWindowKind{
     {{WindowKind::expanding, "expanding"}, {WindowKind::sliding, "sliding"}}};
+constexpr Table<OutlierType, 4> kOutlierType{{{OutlierType::additive, "additive"},
+                                              {OutlierType::level_shift, "level_shift"},
+                                              {OutlierType::temporary, "temporary"},
+                                              {OutlierType::innovational, "innovational"}}};
 
 template <typename Enum, size_t N>
 std::string_view lookup(const Table<Enum, N>& table, Enum v) {
@@ -86,6 +90,7 @@ std::string_view to_string(ConstantMode v) { return lookup(kConstantMode, v); }
 std::string_view to_string(Strategy v) { return lookup(kStrategy, v); }
 std::string_view to_string(Criterion v) { return lookup(kCriterion, v); }
 std::string_view to_string(WindowKind v) { return lookup(kWindowKind, v); }
+std::string_view to_string(OutlierType v) { return lookup(kOutlierType, v); }
 
 #define LAGSIEVE_ENUM_NAMES(Enum, table)                                            \
   template <>                                                                       \
@@ -106,6 +111,7 @@ LAGSIEVE_ENUM_NAMES(ConstantMode, kConstantMode)
 LAGSIEVE_ENUM_NAMES(Strategy, kStrategy)
 LAGSIEVE_ENUM_NAMES(Criterion, kCriterion)
 LAGSIEVE_ENUM_NAMES(WindowKind, kWindowKind)
+LAGSIEVE_ENUM_NAMES(OutlierType, kOutlierType)
 #undef LAGSIEVE_ENUM_NAMES
 
 std::string closest_match(std::string_view word, const std::vector<std::string>& candidates) {

@@ -81,7 +81,7 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
 }
 
 FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
-                              const SeriesData& data) {
+                              const SeriesData& data, const std::vector<OutlierEffect>& effects) {
   FittedModel model;
   model.spec = fit.spec;
   model.params = fit.params;
@@ -98,6 +98,14 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
   for (const auto& term : fit.spec.inputs) {
     InputUse use;
     use.name = term.name;
+    for (const auto& e : effects) {
+      if (e.name != term.name) continue;
+      use.is_event = true;
+      use.effect = e;
+      use.shape = e.type == OutlierType::level_shift ? EventShape::step : EventShape::pulse;
+      use.at = e.time.empty() ? fmt::format("{}", e.row) : e.time;
+      use.future = FutureMode::known;
+    }
     for (const auto& ic : config.inputs) {
       if (ic.name != term.name) continue;
       use.is_event = ic.is_event;

@@ -168,10 +168,17 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
       ic.is_event = true;
       ic.shape = use.shape;
       ic.at = use.at;
-      auto time = history.time;
-      const auto ahead = next_time_stamps(history.time, horizon, history.time_format);
-      time.insert(time.end(), ahead.begin(), ahead.end());
-      original = event_column(ic, time, rows, model.training.config_file, history.time_format);
+      if (use.effect) {
+        OutlierEffect effect = *use.effect;
+        effect.row =
+            event_row(ic, history.time, model.training.config_file, history.time_format);
+        original = effect_values(effect, rows + horizon);
+      } else {
+        auto time = history.time;
+        const auto ahead = next_time_stamps(history.time, horizon, history.time_format);
+        time.insert(time.end(), ahead.begin(), ahead.end());
+        original = event_column(ic, time, rows, model.training.config_file, history.time_format);
+      }
       known = horizon;
       out.input_treatment.push_back("known (event)");
     } else {

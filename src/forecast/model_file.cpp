@@ -14,6 +14,7 @@
 #include "forecast/model_checks.h"
 #include "io/atomic_file.h"
 #include "model/spec_from_config.h"
+#include "outliers/json.h"
 
 namespace lagsieve {
 
@@ -166,6 +167,7 @@ json to_json(const FittedModel& m) {
       in["shape"] = to_string(u.shape);
       in["at"] = u.at;
     }
+    if (u.effect) in["detected"] = effect_to_json(*u.effect);
     spec["inputs"].push_back(in);
   }
   doc["spec"] = spec;
@@ -263,6 +265,10 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
       use.shape = r.choice<EventShape>(e, "shape", path);
       use.at = r.text(e, "at", path);
     }
+    // Detected effects (files without the field, older ones included, have none).
+    if (e.contains("detected"))
+      use.effect = effect_from_json(e["detected"], fmt::format("{}: model file '{}detected'",
+                                                               source, path));
     m.spec.inputs.push_back(term);
     m.inputs.push_back(use);
   }

@@ -420,6 +420,47 @@ void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc)
     fc.parameter_uncertainty = rd.get_bool(n, "forecast.parameter_uncertainty");
 }
 
+void read_outliers(const Reader& rd, const YAML::Node& node, OutliersConfig& oc) {
+  oc.enabled = true;
+  if (node.IsNull()) return;  // `outliers:` alone switches detection on with the defaults
+  rd.check_map(node, "outliers", {"detect", "critical", "max", "decay"});
+  if (const auto n = node["detect"]) {
+    if (!n.IsSequence())
+      rd.fail(n, "outliers.detect",
+              fmt::format("expected a list such as [additive, level_shift, temporary], got {}",
+                          Reader::describe(n)));
+    oc.detect.clear();
+    for (size_t i = 0; i < n.size(); ++i) {
+      const auto type = rd.get_enum<OutlierType>(n[i], fmt::format("outliers.detect[{}]", i));
+      if (std::find(oc.detect.begin(), oc.detect.end(), type) != oc.detect.end())
+        rd.fail(n[i], fmt::format("outliers.detect[{}]", i),
+                fmt::format("'{}' is listed twice", to_string(type)));
+      oc.detect.push_back(type);
+    }
+    if (oc.detect.empty()) oc.enabled = false;  // `detect: []` switches detection off
+  }
+  if (const auto n = node["critical"]) {
+    if (n.IsScalar() && n.Scalar() == "auto") {
+      oc.critical = 0.0;
+    } else {
+      oc.critical = rd.get_double(n, "outliers.critical");
+      if (!(oc.critical >= 2.0 && oc.critical <= 10.0))
+        rd.fail(n, "outliers.critical",
+                fmt::format("{} is outside [2, 10]; give a |t| threshold such as 3.5, or `auto` "
+                            "for the rule that depends on the series length",
+                            oc.critical));
+    }
+  }
+  if (const auto n = node["max"]) oc.max = rd.get_int(n, "outliers.max", 1);
+  if (const auto n = node["decay"]) {
+    oc.decay = rd.get_double(n, "outliers.decay");
+    if (!(oc.decay > 0.0 && oc.decay < 1.0))
+      rd.fail(n, "outliers.decay",
+              fmt::format("{} is outside (0, 1); a temporary change decays as decay^(t - T)",
+                          oc.decay));
+  }
+}
+
 }  // namespace
 
 RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) {
@@ -437,7 +478,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
                                  config_file.string()));
   rd.check_map(root, "",
                {"data", "target", "differencing", "inputs", "events", "noise", "search",
-                "backtest", "forecast", "output"});
+                "backtest", "forecast", "outliers", "output"});
 
   RunConfig cfg;
   cfg.config_file = config_file;
@@ -480,6 +521,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
   if (const auto n = root["search"]) read_search(rd, n, cfg.search);
   if (const auto n = root["backtest"]) read_backtest(rd, n, cfg.backtest);
   if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);
+  if (const auto n = root["outliers"]) read_outliers(rd, n, cfg.outliers);
   if (const auto n = root["output"]) {
     rd.check_map(n, "output", {"dir"});
     if (n["dir"]) cfg.output.dir = rd.get_string(n["dir"], "output.dir");

@@ -33,6 +33,8 @@ $R $ref/screen/make_indicator_seatbelts.R
 $R $ref/missing_target/make_missing_target.R
 $PY $ref/missing_target/make_missing_target.py
 $R $ref/calendar/make_calendar.R
+$R $ref/outliers/make_nile_csv.R
+$R $ref/outliers/make_nile.R
 
 # Fixtures kept by other topics beside their tests.
 $R $ref/distributions/make_distributions.R
