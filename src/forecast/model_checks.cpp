@@ -144,6 +144,10 @@ void check_input_models(const Checker& c, const FittedModel& m) {
     c.positive(im.sigma2, path + "sigma2");
     c.stationary(im.phi, path + "phi", "stationary");
     c.invertible(im.theta, path + "theta");
+    if (im.covariance.size() > 0 && im.covariance.rows() != im.p + im.q + 1)
+      c.fail(path + "covariance",
+             fmt::format("has {} rows; it must have p + q + 1 = {} (phi, theta, the mean)",
+                         im.covariance.rows(), im.p + im.q + 1));
   }
 }
 

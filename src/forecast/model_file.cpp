@@ -321,18 +321,21 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     im.sigma2 = r.number(e, "sigma2", path);
     im.aic = r.number(e, "aic", path);
     im.chosen_by_aic = r.boolean(e, "chosen_by_aic", path);
-    // Optional (files written before it existed): a square matrix over phi, theta and the mean.
-    if (e.contains("covariance") && !e["covariance"].is_null()) {
+    // Optional (files written before it existed, or an input model fitted without standard
+    // errors: an empty list): a square matrix over phi, theta and the mean.
+    const bool has_covariance =
+        e.contains("covariance") && !e["covariance"].is_null() &&
+        !(e["covariance"].is_array() && e["covariance"].empty());
+    if (has_covariance) {
       const json& ic = r.list(e, "covariance", path);
-      const auto k = static_cast<size_t>(im.p + im.q + 1);
-      if (ic.size() != k)
-        r.fail(path + "covariance", fmt::format("must have {} rows (p + q + 1)", k));
-      im.covariance.resize(static_cast<Eigen::Index>(k), static_cast<Eigen::Index>(k));
-      for (size_t i = 0; i < k; ++i) {
+      // Square; that it is (p + q + 1) wide is checked with the orders (model_checks).
+      const size_t size = ic.size();
+      im.covariance.resize(static_cast<Eigen::Index>(size), static_cast<Eigen::Index>(size));
+      for (size_t i = 0; i < size; ++i) {
         const std::string row = fmt::format("{}covariance[{}]", path, i);
-        if (!ic[i].is_array() || ic[i].size() != k)
-          r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", k));
-        for (size_t j = 0; j < k; ++j)
+        if (!ic[i].is_array() || ic[i].size() != size)
+          r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", size));
+        for (size_t j = 0; j < size; ++j)
           im.covariance(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
               ic[i][j].is_null() ? std::nan("")
                                  : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
