@@ -47,6 +47,7 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   fmt::print("  {:<28} {:>12}\n\n", "sigma^2 (innovations)", num(fit.sigma2, 6));
   fmt::print("log-likelihood {}   k = {} (sigma^2 counted)   AIC {}   AICc {}   BIC {}\n",
              num(fit.loglik, 8), fit.n_params, num(fit.aic, 8), num(fit.aicc, 8), num(fit.bic, 8));
+  if (const auto note = filter_start_note(fit.spec); !note.empty()) fmt::print("{}\n", note);
   if (!fit.diagnostics.gains.empty()) {
     fmt::print("\nlong-run gain of each input (response to a lasting unit change):\n");
     for (const auto& g : fit.diagnostics.gains)

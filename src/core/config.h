@@ -111,6 +111,13 @@ struct BacktestConfig {
   std::vector<std::string> leader_statuses{"ok", "no_convergence"};
 };
 
+// `fit:` at the top level: how every fit of the run estimates (src/model/fit.h).
+struct FitConfig {
+  // estimated (default): the r pre-sample states of each 1/delta(B) are linear parameters,
+  // counted in k; zero: the filter starts from zeros (compare with tables that do so).
+  FilterStart filter_start = FilterStart::estimated;
+};
+
 struct ForecastConfig {
   int horizon = 0;                          // 0 = backtest.horizon or 12
   std::vector<double> levels{0.8, 0.95};
@@ -142,6 +149,7 @@ struct RunConfig {
   NoiseConfig noise;
   SearchConfig search;
   BacktestConfig backtest;
+  FitConfig fit;
   ForecastConfig forecast;
   OutliersConfig outliers;
   OutputConfig output;

@@ -37,6 +37,8 @@ constexpr Table<OutlierType, 4> kOutlierType{{{OutlierType::additive, "additive"
                                               {OutlierType::level_shift, "level_shift"},
                                               {OutlierType::temporary, "temporary"},
                                               {OutlierType::innovational, "innovational"}}};
+constexpr Table<FilterStart, 2> kFilterStart{
+    {{FilterStart::estimated, "estimated"}, {FilterStart::zero, "zero"}}};
 
 template <typename Enum, size_t N>
 std::string_view lookup(const Table<Enum, N>& table, Enum v) {
@@ -91,6 +93,7 @@ std::string_view to_string(Strategy v) { return lookup(kStrategy, v); }
 std::string_view to_string(Criterion v) { return lookup(kCriterion, v); }
 std::string_view to_string(WindowKind v) { return lookup(kWindowKind, v); }
 std::string_view to_string(OutlierType v) { return lookup(kOutlierType, v); }
+std::string_view to_string(FilterStart v) { return lookup(kFilterStart, v); }
 
 #define LAGSIEVE_ENUM_NAMES(Enum, table)                                            \
   template <>                                                                       \
@@ -112,6 +115,7 @@ LAGSIEVE_ENUM_NAMES(Strategy, kStrategy)
 LAGSIEVE_ENUM_NAMES(Criterion, kCriterion)
 LAGSIEVE_ENUM_NAMES(WindowKind, kWindowKind)
 LAGSIEVE_ENUM_NAMES(OutlierType, kOutlierType)
+LAGSIEVE_ENUM_NAMES(FilterStart, kFilterStart)
 #undef LAGSIEVE_ENUM_NAMES
 
 std::string closest_match(std::string_view word, const std::vector<std::string>& candidates) {

@@ -12,6 +12,12 @@
 //
 // w_t and u_{i,t} are the target and the inputs after the same transform of the target and the
 // same differencing (1 - B)^d (1 - B^S)^D.
+//
+// Start of 1/delta_i(B): the filter's output before the sample is unknown. `estimated` (the
+// default) adds, for each input with r > 0, r linear start states: the part of the input's effect
+// at the first r rows of the likelihood sample that its history before the data carries, which
+// then decays by delta_i(B) (see model/likelihood.h). `zero` starts the filter from zero values
+// before the first differenced row (the conditional start of many printed tables).
 #include <string>
 #include <vector>
 
@@ -50,6 +56,8 @@ struct NoiseOrder {
   bool operator==(const NoiseOrder&) const = default;
 };
 
+enum class FilterStart { estimated, zero };
+
 struct InputTerm {
   std::string name;  // column name or event name
   InputOrder order;
@@ -63,7 +71,12 @@ struct ModelSpec {
   bool constant = true;
   Differencing differencing;
   TargetTransform transform;
+  FilterStart filter_start = FilterStart::estimated;
   bool operator==(const ModelSpec&) const = default;
+  // Start states of input i's filter estimated by the fit: r_i, or 0 (no denominator, zero start).
+  int start_states(size_t i) const {
+    return filter_start == FilterStart::estimated ? inputs[i].order.denominator : 0;
+  }
 };
 
 }  // namespace lagsieve

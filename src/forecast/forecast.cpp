@@ -149,6 +149,9 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
     return x;
   };
   if (covariances) out.var_inputs.assign(horizon, 0.0);  // summed over forecast inputs
+  // The model's sample start in this history: the noise is filtered from here and the filter's
+  // estimated start states apply here, so the transfer function continues from them.
+  const int start = std::clamp(model.start, 0, std::max(nw - 2, 0));
   std::vector<std::vector<double>> x_paths;  // transfer-function output over nw + horizon
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
@@ -215,7 +218,7 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
                                   fmt::format("the own model of input '{}'", term.name));
       for (double v : path.mean) u.push_back(im.mean + v);
       if (!covariances) {
-        x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
+        x_paths.push_back(transfer_output(u, term.order, model.params.inputs[i], start));
         continue;
       }
       // Errors of the differenced input from step `known` on, through the transfer function and
@@ -229,7 +232,7 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
           filtered_arma_variance(im.phi, im.theta, path.p_origin, horizon - known, through);
       for (int s = known; s < horizon; ++s) out.var_inputs[s] += im.sigma2 * var[s - known];
     }
-    x_paths.push_back(transfer_response(u, term.order, model.params.inputs[i]));
+    x_paths.push_back(transfer_output(u, term.order, model.params.inputs[i], start));
   }
 
   // Noise over the history, filtered from the model's sample start; its forecast path.
@@ -237,7 +240,6 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
   for (auto& v : noise) v -= model.params.constant;
   for (const auto& x : x_paths)
     for (int t = 0; t < nw; ++t) noise[t] -= x[t];
-  const int start = std::clamp(model.start, 0, std::max(nw - 2, 0));
   const auto ar = expand_ar(model.params.phi, model.params.seasonal_phi, spec.noise.period);
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
   const auto noise_path =

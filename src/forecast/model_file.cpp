@@ -152,6 +152,7 @@ json to_json(const FittedModel& m) {
                    {"seasonal_q", s.noise.seasonal_q},
                    {"period", s.noise.period}};
   spec["constant"] = s.constant;
+  spec["filter_start"] = to_string(s.filter_start);
   spec["inputs"] = json::array();
   for (size_t i = 0; i < s.inputs.size(); ++i) {
     const auto& t = s.inputs[i];
@@ -180,7 +181,8 @@ json to_json(const FittedModel& m) {
   params["seasonal_phi"] = p.seasonal_phi;
   params["seasonal_theta"] = p.seasonal_theta;
   params["inputs"] = json::array();
-  for (const auto& ip : p.inputs) params["inputs"].push_back({{"omega", ip.omega}, {"delta", ip.delta}});
+  for (const auto& ip : p.inputs)
+    params["inputs"].push_back({{"omega", ip.omega}, {"delta", ip.delta}, {"state", ip.state}});
   doc["params"] = params;
   json cov = json::array();
   for (Eigen::Index i = 0; i < m.covariance.rows(); ++i) {
@@ -249,6 +251,10 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
                   r.integer(nj, "seasonal_q", "spec.noise."),
                   r.integer(nj, "period", "spec.noise.")};
   m.spec.constant = r.boolean(spec, "constant", "spec.");
+  // Files written before the filter start was estimated were fitted from a zero start.
+  m.spec.filter_start = spec.contains("filter_start")
+                            ? r.choice<FilterStart>(spec, "filter_start", "spec.")
+                            : FilterStart::zero;
   const json& ij = r.list(spec, "inputs", "spec.");
   for (size_t i = 0; i < ij.size(); ++i) {
     const std::string path = fmt::format("spec.inputs[{}].", i);
@@ -290,6 +296,7 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     const std::string path = fmt::format("params.inputs[{}].", i);
     m.params.inputs[i].omega = r.numbers(pin[i], "omega", path);
     m.params.inputs[i].delta = r.numbers(pin[i], "delta", path);
+    if (pin[i].contains("state")) m.params.inputs[i].state = r.numbers(pin[i], "state", path);
   }
   const json& cov = r.object(doc, "covariance", "");
   m.param_names = r.texts(cov, "names", "covariance.");
@@ -469,6 +476,8 @@ json fit_to_json(const FitResult& fit) {
   j["n_obs"] = fit.n_obs;
   j["n_params"] = fit.n_params;
   j["n_params_note"] = "counts every estimated parameter, sigma^2 included";
+  j["filter_start"] = to_string(fit.spec.filter_start);
+  if (const auto note = filter_start_note(fit.spec); !note.empty()) j["filter_start_note"] = note;
   j["evaluations"] = fit.evaluations;
   j["seconds"] = fit.seconds;
   j["params"] = json::array();

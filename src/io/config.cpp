@@ -411,6 +411,12 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
   }
 }
 
+void read_fit(const Reader& rd, const YAML::Node& node, FitConfig& fc) {
+  rd.check_map(node, "fit", {"filter_start"});
+  if (const auto n = node["filter_start"])
+    fc.filter_start = rd.get_enum<FilterStart>(n, "fit.filter_start");
+}
+
 void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc) {
   rd.check_map(node, "forecast", {"horizon", "levels", "parameter_uncertainty"});
   if (const auto n = node["horizon"])
@@ -478,7 +484,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
                                  config_file.string()));
   rd.check_map(root, "",
                {"data", "target", "differencing", "inputs", "events", "noise", "search",
-                "backtest", "forecast", "outliers", "output"});
+                "backtest", "fit", "forecast", "outliers", "output"});
 
   RunConfig cfg;
   cfg.config_file = config_file;
@@ -520,6 +526,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
       (cfg.noise.seasonal_ar.max > 0 || cfg.noise.seasonal_ma.max > 0) && cfg.noise.period < 2;
   if (const auto n = root["search"]) read_search(rd, n, cfg.search);
   if (const auto n = root["backtest"]) read_backtest(rd, n, cfg.backtest);
+  if (const auto n = root["fit"]) read_fit(rd, n, cfg.fit);
   if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);
   if (const auto n = root["outliers"]) read_outliers(rd, n, cfg.outliers);
   if (const auto n = root["output"]) {

@@ -29,7 +29,8 @@ int LikelihoodProblem::n_obs() const {
 
 int LikelihoodProblem::n_linear() const {
   int k = spec.constant ? 1 : 0;
-  for (const auto& term : spec.inputs) k += term.order.numerator + 1;
+  for (size_t i = 0; i < spec.inputs.size(); ++i)
+    k += spec.inputs[i].order.numerator + 1 + spec.start_states(i);
   return k;
 }
 
@@ -147,6 +148,9 @@ std::vector<std::string> linear_names(const ModelSpec& spec) {
   for (const auto& term : spec.inputs)
     for (int j = 0; j <= term.order.numerator; ++j)
       names.push_back(fmt::format("{}.omega{}", term.name, j));
+  for (size_t i = 0; i < spec.inputs.size(); ++i)
+    for (int k = 1; k <= spec.start_states(i); ++k)
+      names.push_back(fmt::format("{}.start{}", spec.inputs[i].name, k));
   return names;
 }
 
@@ -166,6 +170,9 @@ std::vector<double> pack_linear(const ModelSpec& spec, const ModelParams& p) {
   if (spec.constant) v.push_back(p.constant);
   for (size_t i = 0; i < spec.inputs.size(); ++i)
     v.insert(v.end(), p.inputs[i].omega.begin(), p.inputs[i].omega.end());
+  for (size_t i = 0; i < spec.inputs.size(); ++i)  // absent states (a zero start) count as 0
+    for (int k = 0; k < spec.start_states(i); ++k)
+      v.push_back(k < static_cast<int>(p.inputs[i].state.size()) ? p.inputs[i].state[k] : 0.0);
   return v;
 }
 
@@ -183,6 +190,8 @@ ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
   if (spec.constant) p.constant = linear[l++];
   for (auto& input : p.inputs)
     for (auto& o : input.omega) o = linear[l++];
+  for (auto& input : p.inputs)
+    for (auto& s : input.state) s = linear[l++];
   p.sigma2 = sigma2;
   return p;
 }
@@ -228,8 +237,8 @@ void noise_polynomials(const NoiseOrder& ns, std::span<const double> noise, std:
                  noise.subspan(ns.p + ns.q + ns.seasonal_p, ns.seasonal_q), ns.period);
 }
 
-// Fills ws.columns: column 0 the target, then the constant and one column per omega. Returns
-// the ARMA polynomials (expanded) through `ar`/`ma`.
+// Fills ws.columns: column 0 the target, then the constant, one column per omega and one per
+// start state. Returns the ARMA polynomials (expanded) through `ar`/`ma`.
 void build_columns(const LikelihoodProblem& problem, std::span<const double> nonlinear,
                    LikelihoodWorkspace& ws, std::vector<double>& ar, std::vector<double>& ma) {
   const ModelSpec& spec = problem.spec;
@@ -238,16 +247,26 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
   const Eigen::Index cols = 1 + problem.n_linear();
   ws.columns.resize(n, cols);
   ws.filtered.resize(spec.inputs.size());
-  // Where each regressor column reads: the filtered input shifted by its delay and lag.
+  // Where each regressor column reads: the filtered input shifted by its delay and lag, then
+  // the start-state columns (already over the sample).
   ws.sources.clear();
+  ws.starts.clear();
   size_t k = 0;
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
     filter_denominator(problem.u[i], nonlinear.subspan(k, order.denominator), ws.filtered[i]);
-    k += order.denominator;
     for (int j = 0; j <= order.numerator; ++j)
       ws.sources.push_back(ws.filtered[i].data() + start - order.delay - j);
+    std::vector<double> unit(order.denominator, 0.0);
+    for (int state = 0; state < spec.start_states(i); ++state) {
+      unit.assign(order.denominator, 0.0);
+      unit[state] = 1.0;
+      ws.starts.push_back(
+          homogeneous_solution(nonlinear.subspan(k, order.denominator), unit, n));
+    }
+    k += order.denominator;
   }
+  for (const auto& column : ws.starts) ws.sources.push_back(column.data());
   // Row by row: the row-major matrix is written contiguously.
   const int first = spec.constant ? 2 : 1;
   for (int t = 0; t < n; ++t) {
@@ -329,7 +348,8 @@ std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelPar
   std::vector<double> noise(problem.w.begin(), problem.w.end());
   for (auto& v : noise) v -= p.constant;
   for (size_t i = 0; i < problem.spec.inputs.size(); ++i) {
-    const auto x = transfer_response(problem.u[i], problem.spec.inputs[i].order, p.inputs[i]);
+    const auto x =
+        transfer_output(problem.u[i], problem.spec.inputs[i].order, p.inputs[i], problem.start);
     for (size_t t = 0; t < noise.size(); ++t) noise[t] -= x[t];
   }
   return noise;

@@ -3,10 +3,17 @@
 //
 // For fixed nonlinear parameters (every delta, phi, theta, Phi, Theta) the model is a linear
 // regression with ARMA errors: w_t = c + sum_i sum_j omega_{i,j} y_{i,t-b_i-j} + n_t, where
-// y_i = u_i / delta_i(B) is filtered from zero pre-sample values (the start-up rule). The ARMA
-// filter whitens the target and every regressor column in one pass; the constant and every
-// omega are then concentrated out by generalised least squares and sigma^2 by its ML estimate,
-// so the optimiser searches only the nonlinear parameters (variable projection).
+// y_i = u_i / delta_i(B) is filtered from zero pre-sample values. With an estimated filter start
+// (FilterStart::estimated) each input with r > 0 adds r more columns: the unknown history before
+// the data changes the output omega_i(B) B^b y_i by a solution of delta_i(B) g = 0 over the
+// sample (the shifted homogeneous solutions of every omega lag lie in one r-dimensional space,
+// since t - b - s >= 0 inside the sample), spanned by the solutions g_k equal to 1 at sample row
+// k and 0 at the other first r rows (k < r). Their coefficients, the start states, are linear
+// like the omegas; the basis stays well defined as delta -> 0, where it becomes pulses at the
+// first rows. The ARMA filter whitens the target and every regressor column in one pass; the
+// constant, every omega and every start state are then concentrated out by generalised least
+// squares and sigma^2 by its ML estimate, so the optimiser searches only the nonlinear
+// parameters (variable projection).
 #include <Eigen/Core>
 #include <span>
 #include <string>
@@ -34,7 +41,8 @@ struct LikelihoodProblem {
   int n_obs() const;  // observed rows of the sample: the n of sigma^2 and the criteria
   bool is_missing(int index) const { return !missing.empty() && missing[index] != 0; }
   int n_nonlinear() const;  // deltas, then phi, theta, Phi, Theta
-  int n_linear() const;     // constant (if any), then the omegas of each input
+  // Constant (if any), the omegas of each input, then the start states of each input.
+  int n_linear() const;
   int n_params() const { return n_nonlinear() + n_linear() + 1; }  // + sigma^2
 };
 
@@ -59,6 +67,7 @@ struct LikelihoodWorkspace {
   ArmaFilterWorkspace filter;
   RowMatrix columns;                          // n x (1 + n_linear): target, then regressors
   std::vector<std::vector<double>> filtered;  // u_i / delta_i(B) of each input
+  std::vector<std::vector<double>> starts;    // start-state columns over the sample
   std::vector<const double*> sources;         // first value of each regressor column in `filtered`
 };
 
@@ -81,7 +90,8 @@ double loglik_at(const LikelihoodProblem& problem, const ModelParams& p, Likelih
                  double* sigma2_out = nullptr);
 
 // Noise of the model at given parameters: n_t = w_t - c - sum_i x_{i,t}, over the whole
-// differenced sample (index 0..N-1; values before `start` use the zero start-up).
+// differenced sample (index 0..N-1; the start states apply from `start` on, values before it
+// use the zero start).
 std::vector<double> model_noise(const LikelihoodProblem& problem, const ModelParams& p);
 
 // Standardised innovations (residuals, variance sigma^2) of the model over the likelihood

@@ -4,9 +4,12 @@ namespace lagsieve {
 
 ModelParams zero_params(const ModelSpec& spec) {
   ModelParams p;
-  for (const auto& term : spec.inputs)
-    p.inputs.push_back({std::vector<double>(term.order.numerator + 1, 0.0),
-                        std::vector<double>(term.order.denominator, 0.0)});
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    const auto& order = spec.inputs[i].order;
+    p.inputs.push_back({std::vector<double>(order.numerator + 1, 0.0),
+                        std::vector<double>(order.denominator, 0.0),
+                        std::vector<double>(spec.start_states(i), 0.0)});
+  }
   p.phi.assign(spec.noise.p, 0.0);
   p.theta.assign(spec.noise.q, 0.0);
   p.seasonal_phi.assign(spec.noise.seasonal_p, 0.0);

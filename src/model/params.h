@@ -10,6 +10,9 @@ namespace lagsieve {
 struct InputParams {
   std::vector<double> omega;  // omega_0..omega_s
   std::vector<double> delta;  // delta_1..delta_r
+  // Estimated start of 1/delta(B) (FilterStart::estimated): the transfer-function output's part
+  // from before the sample at the first r rows of the likelihood sample; empty = zero start.
+  std::vector<double> state = {};
 };
 
 struct ModelParams {

@@ -79,6 +79,32 @@ std::vector<double> transfer_response(std::span<const double> u, const InputOrde
   return x;
 }
 
+std::vector<double> homogeneous_solution(std::span<const double> delta,
+                                         std::span<const double> state, int n) {
+  std::vector<double> g(static_cast<size_t>(std::max(n, 0)), 0.0);
+  const int r = static_cast<int>(delta.size());
+  for (int t = 0; t < n; ++t) {
+    if (t < r) {
+      g[t] = t < static_cast<int>(state.size()) ? state[t] : 0.0;
+      continue;
+    }
+    double v = 0.0;
+    for (int j = 0; j < r; ++j) v += delta[j] * g[t - 1 - j];
+    g[t] = v;
+  }
+  return g;
+}
+
+std::vector<double> transfer_output(std::span<const double> u, const InputOrder& order,
+                                    const InputParams& p, int anchor) {
+  auto x = transfer_response(u, order, p);
+  const int n = static_cast<int>(x.size());
+  if (p.state.empty() || p.delta.empty() || anchor < 0 || anchor >= n) return x;
+  const auto g = homogeneous_solution(p.delta, p.state, n - anchor);
+  for (int t = anchor; t < n; ++t) x[t] += g[t - anchor];
+  return x;
+}
+
 void pacf_to_coefficients(std::span<const double> unconstrained, std::span<double> coef) {
   // Durbin-Levinson: a^{(k)}_j = a^{(k-1)}_j - r_k a^{(k-1)}_{k-j}, a^{(k)}_k = r_k.
   const size_t p = unconstrained.size();

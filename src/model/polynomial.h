@@ -24,10 +24,21 @@ std::vector<double> psi_weights(std::span<const double> ar, std::span<const doub
 // Impulse-response weights v_0..v_{count-1} of omega(B) B^b / delta(B).
 std::vector<double> impulse_response(const InputOrder& order, const InputParams& p, int count);
 
-// x_t = [omega(B) B^b / delta(B)] u_t with zero pre-sample values of u and x (the start-up rule
-// used everywhere; see DEVELOPERS.md).
+// x_t = [omega(B) B^b / delta(B)] u_t with zero pre-sample values of u and x (the zero start;
+// p.state is ignored: also the response to error sequences that are zero before an origin).
 std::vector<double> transfer_response(std::span<const double> u, const InputOrder& order,
                                       const InputParams& p);
+
+// The homogeneous solution g of delta(B) g = 0 over n values with g_k = state_k for k < r (and
+// the recursion g_t = sum_j delta_j g_{t-j} after): how an estimated filter start decays.
+std::vector<double> homogeneous_solution(std::span<const double> delta,
+                                         std::span<const double> state, int n);
+
+// transfer_response plus the input's estimated start (p.state; none when empty) from row
+// `anchor` on: the output deviates from the zero start by state_k at row anchor + k, decaying
+// by delta(B) after. Rows before the anchor keep the zero start.
+std::vector<double> transfer_output(std::span<const double> u, const InputOrder& order,
+                                    const InputParams& p, int anchor);
 
 // Maps unconstrained reals to coefficients a_1..a_k of a polynomial 1 - sum a_j B^j whose roots
 // lie outside the unit circle: z -> tanh(z) = partial autocorrelations -> Durbin-Levinson.

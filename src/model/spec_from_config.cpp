@@ -37,7 +37,24 @@ ModelSpec single_spec(const RunConfig& config) {
   spec.constant = config.noise.constant != ConstantMode::no;
   spec.differencing = config.differencing;
   spec.transform = config.target.transform;
+  spec.filter_start = config.fit.filter_start;
   return spec;
+}
+
+std::string filter_start_note(const ModelSpec& spec) {
+  int with_denominator = 0, states = 0;
+  for (size_t i = 0; i < spec.inputs.size(); ++i) {
+    with_denominator += spec.inputs[i].order.denominator > 0 ? 1 : 0;
+    states += spec.start_states(i);
+  }
+  if (with_denominator == 0) return {};
+  if (spec.filter_start == FilterStart::zero)
+    return "filter start: zero (each 1/delta(B) starts from zeros before the first differenced "
+           "row; fit.filter_start: zero)";
+  return fmt::format(
+      "filter start: estimated ({} start state{} of 1/delta(B), the inputs' effect from before "
+      "the data at the first rows of the sample, are linear parameters counted in k)",
+      states, states == 1 ? "" : "s");
 }
 
 std::string model_label(const ModelSpec& spec) {

@@ -217,7 +217,7 @@ JointFit joint_fit(const SeriesData& data, const ModelSpec& spec,
   if (warm) {
     ModelParams p = *warm;
     p.inputs.resize(j.spec.inputs.size());
-    for (size_t i = spec.inputs.size(); i < p.inputs.size(); ++i) p.inputs[i] = {{0.0}, {}};
+    for (size_t i = spec.inputs.size(); i < p.inputs.size(); ++i) p.inputs[i] = {{0.0}, {}, {}};
     o.warm_start = p;
   }
   j.fit = fit_model(j.problem, o);

@@ -36,6 +36,7 @@ CandidateGrid full_grid(const RunConfig& config) {
   }
   g.differencing = config.differencing;
   g.transform = config.target.transform;
+  g.filter_start = config.fit.filter_start;
   return g;
 }
 
@@ -79,6 +80,7 @@ std::vector<ModelSpec> enumerate(const CandidateGrid& grid) {
   ModelSpec base;
   base.differencing = grid.differencing;
   base.transform = grid.transform;
+  base.filter_start = grid.filter_start;
   base.noise.period = grid.period;
   std::function<void(size_t, ModelSpec&)> recurse = [&](size_t i, ModelSpec& spec) {
     if (i == grid.inputs.size()) {
@@ -126,6 +128,7 @@ ModelSpec suggested_spec(const RunConfig& config, const ScreenResult& screen) {
   ModelSpec spec;
   spec.differencing = g.differencing;
   spec.transform = g.transform;
+  spec.filter_start = g.filter_start;
   for (const auto& in : g.inputs) {
     const InputScreen* s = find_screen(screen, in.name);
     if (in.optional && s && !s->relevant) continue;

@@ -28,6 +28,7 @@ struct CandidateGrid {
   std::vector<bool> constant;  // {true}, {false} or {false, true}
   Differencing differencing;
   TargetTransform transform;
+  FilterStart filter_start = FilterStart::estimated;  // fit.filter_start
 };
 
 CandidateGrid full_grid(const RunConfig& config);

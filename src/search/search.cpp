@@ -318,12 +318,13 @@ namespace lagsieve {
 
 std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesData>& series) {
   // Only what a candidate's fit depends on: the data (values and time stamps), how they are
-  // read, the target's transform, the differencing, the inputs and events, and the common sample
-  // start the grid implies. Comments, layout, the strategy, budget, threads, backtest, forecast
+  // read, the target's transform, the differencing, the filter start (fit.filter_start), the inputs and
+  // events, and the common sample start the grid implies. Comments, layout, the strategy, budget, threads, backtest, forecast
   // and output sections do not change a candidate's result, so they do not block a resume.
-  std::string all = fmt::format("v2|time={}|missing={}|", config.data.time,
+  std::string all = fmt::format("v3|time={}|missing={}|", config.data.time,
                                 static_cast<int>(config.data.missing));
   for (const auto& c : config.target.columns) all += "target=" + c + ";";
+  all += fmt::format("filter_start={}|", to_string(config.fit.filter_start));
   all += fmt::format("|transform={},{:.17g}|diff={},{},{}|start={}|period={}|",
                      static_cast<int>(config.target.transform.kind), config.target.transform.lambda,
                      config.differencing.regular, config.differencing.seasonal,

@@ -129,13 +129,14 @@ TEST(LikelihoodReference, AirlineModelOptimumMatchesExactDifferencedLikelihood) 
 
 TEST(LikelihoodReference, SeriesMTransferFunctionMatchesBaseRProfile) {
   // Differenced BJsales on the differenced lead: b = 3, r = 1, s = 0, MA(1), constant. The base-R
-  // reference filters the lead from a zero pre-sample state, exactly our start-up rule.
+  // reference filters the lead from a zero pre-sample state: fit.filter_start: zero.
   const auto ref = load_fixture("series_m/series_m_r.json");
   const SeriesData data = testing::read_series_m();
   ModelSpec spec;
   spec.inputs = {{"lead", {3, 0, 1}}};
   spec.noise = {0, 1, 0, 0, 1};
   spec.differencing = {1, 0, 1};
+  spec.filter_start = FilterStart::zero;
   const auto fit = fit_model(make_problem(data, spec));
   ASSERT_EQ(fit.status, FitStatus::ok) << fit.message;
   EXPECT_EQ(fit.n_obs, ref["n"].get<int>());
@@ -153,6 +154,51 @@ TEST(LikelihoodReference, SeriesMTransferFunctionMatchesBaseRProfile) {
   EXPECT_NEAR(fit.params.inputs[0].omega[0], pub["omega0"].get<double>(), 0.2);
   EXPECT_NEAR(fit.params.theta[0], pub["theta_in_our_sign"].get<double>(), 0.07);
   EXPECT_NEAR(fit.diagnostics.gains[0].gain, ref["steady_state_gain"].get<double>(), 1e-2);
+}
+
+TEST(LikelihoodReference, SeriesMEstimatedFilterStartMatchesBaseRProfile) {
+  // The same model with the pre-sample state of 1/(1 - delta1 B) estimated (the default): the
+  // base-R reference adds the column delta1^(t - 4) (1 at the first row used) to the zero-start
+  // filtered lead and maximises arima's likelihood over delta1 (make_series_m_estimated_start.R).
+  const auto ref = load_fixture("series_m/series_m_estimated_start_r.json");
+  const auto zero = load_fixture("series_m/series_m_r.json");
+  const SeriesData data = testing::read_series_m();
+  ModelSpec spec;
+  spec.inputs = {{"lead", {3, 0, 1}}};
+  spec.noise = {0, 1, 0, 0, 1};
+  spec.differencing = {1, 0, 1};
+  ASSERT_EQ(spec.filter_start, FilterStart::estimated);
+  const auto fit = fit_model(make_problem(data, spec));
+  ASSERT_EQ(fit.status, FitStatus::ok) << fit.message;
+  EXPECT_EQ(fit.n_obs, ref["n"].get<int>());
+  EXPECT_GE(fit.loglik, ref["loglik"].get<double>() - 1e-6);
+  EXPECT_NEAR(fit.loglik, ref["loglik"].get<double>(), 1e-4);
+  EXPECT_GT(fit.loglik, zero["loglik"].get<double>() + 3.0);  // 18.47 against 15.19
+  EXPECT_NEAR(fit.params.inputs[0].delta[0], ref["delta1"].get<double>(), 1e-4);
+  EXPECT_NEAR(fit.params.inputs[0].omega[0], ref["omega0"].get<double>(), 1e-3);
+  EXPECT_NEAR(fit.params.constant, ref["intercept"].get<double>(), 1e-4);
+  EXPECT_NEAR(fit.params.theta[0], ref["theta"].get<double>(), 1e-4);
+  ASSERT_EQ(fit.params.inputs[0].state.size(), 1u);
+  EXPECT_NEAR(fit.params.inputs[0].state[0], ref["start1"].get<double>(), 1e-3);
+  EXPECT_NEAR(fit.sigma2, ref["sigma2"].get<double>(), 1e-5 * ref["sigma2"].get<double>());
+  EXPECT_EQ(fit.n_params, 6);  // delta1, theta, constant, omega0, the start state, sigma^2
+  EXPECT_EQ(fit.estimates.back().name, "lead.start1");
+  EXPECT_TRUE(std::isfinite(fit.estimates.back().std_error));
+  // The profile at the grid points of the reference (delta1 fixed, everything else optimised
+  // by R): our concentrated profile with only theta left to the optimiser gives the same.
+  const auto problem = make_problem(data, spec);
+  const auto grid = to_vector(ref["profile_grid"]["delta1"]);
+  const auto grid_ll = to_vector(ref["profile_grid"]["loglik"]);
+  LikelihoodWorkspace ws;
+  for (size_t g = 0; g < grid.size(); g += 6) {
+    double best = -1e300;
+    for (double theta = -0.99; theta <= 0.99; theta += 0.0005) {
+      const std::vector<double> nonlinear{grid[g], theta};
+      const auto v = profile_loglik(problem, nonlinear, ws);
+      if (v.ok) best = std::max(best, v.loglik);
+    }
+    EXPECT_NEAR(best, grid_ll[g], 1e-3) << grid[g];
+  }
 }
 
 }  // namespace
