@@ -116,6 +116,9 @@ TEST(Config, MinimalConfigTakesDefaults) {
   EXPECT_EQ(c.search.criterion, Criterion::bic);
   EXPECT_EQ(c.output.dir, std::filesystem::path("/cfg/dir/runs/out"));
   EXPECT_EQ(candidate_grid_size(c), 2);
+  EXPECT_EQ(c.fit.filter_start, FilterStart::estimated);
+  EXPECT_EQ(parse_config(kHead + std::string("fit: {filter_start: zero}\n"), kFile).fit.filter_start,
+            FilterStart::zero);
 }
 
 TEST(Config, PanelTargetsBareBacktestConstantSpellingsAndNoisePeriod) {
@@ -158,8 +161,11 @@ TEST(Config, Messages) {
             "coverage as a fraction, e.g. 0.95");
   EXPECT_EQ(error_of(h + "nois: {ar: 1}\n"),
             "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
-            "data, target, differencing, inputs, events, noise, search, backtest, forecast, "
-            "outliers, output)");
+            "data, target, differencing, inputs, events, noise, search, backtest, fit, "
+            "forecast, outliers, output)");
+  EXPECT_EQ(error_of(h + "fit: {filter_start: zeros}\n"),
+            "/cfg/dir/config.yaml:3: fit.filter_start: unknown value 'zeros'; did you mean "
+            "'zero'? choose one of: estimated, zero");
   EXPECT_EQ(error_of("data: {file: d.csv}\n"), "/cfg/dir/config.yaml:1: missing section `target`");
   EXPECT_EQ(error_of("data: {file: d.csv}\ntarget: {column: y, columns: [a]}\n"),
             "/cfg/dir/config.yaml:2: target: give either `column` (one series) or `columns` (a "

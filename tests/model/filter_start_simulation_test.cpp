@@ -64,7 +64,8 @@ Summary summarise(const std::vector<double>& values, const std::vector<double>& 
 }
 
 // MA estimates (and their s.e.) over the seeds: with the input and a given filter start, or the
-// noise alone (omega = 0 in the simulation, which leaves the random draws unchanged) as ARIMA(0,1,1).
+// noise alone (omega = 0 in the simulation, which leaves the random draws unchanged) as
+// ARIMA(0,1,1).
 Summary ma_estimates(bool with_input, FilterStart start, double* first_residual = nullptr) {
   std::vector<double> theta, se;
   double first = 0.0;
@@ -100,9 +101,10 @@ TEST(FilterStartSimulation, EstimatedStartRecoversTheMaParameterOfASeriesMLikeMo
   const double r_mean = ref["ma_mean"].get<double>();
   const double r_spread = ref["ma_sd"].get<double>();
   const int r_reps = ref["replications"].get<int>();
-  std::printf("MA(1) estimate over %d seeds, truth %.2f (mean, sd over seeds, rms s.e.; mean |first "
-              "residual|)\n",
-              kSeeds, kTheta);
+  std::printf(
+      "MA(1) estimate over %d seeds, truth %.2f (mean, sd over seeds, rms s.e.; mean |first "
+      "residual|)\n",
+      kSeeds, kTheta);
   std::printf("  estimated start      %.4f  %.4f  %.4f   %.3f\n", estimated.mean, estimated.spread,
               estimated.rms_se, first_estimated);
   std::printf("  zero start           %.4f  %.4f  %.4f   %.3f\n", zero.mean, zero.spread,

@@ -5,9 +5,10 @@
 #include <cmath>
 
 #include "fixture.h"
-#include "series_m.h"
+#include "forecast/forecast.h"
 #include "model/fit.h"
 #include "model/likelihood.h"
+#include "series_m.h"
 
 namespace lagsieve {
 namespace {
@@ -89,7 +90,9 @@ TEST(LikelihoodReference, RegressionWithMaErrorsOptimumMatchesR) {
   const auto coef = to_vector(ref["coef"]);
   const auto se = to_vector(ref["se"]);
   for (size_t i = 0; i < names.size(); ++i) {
-    std::string ours = names[i] == "ma1" ? "ma1" : names[i] == "intercept" ? "constant" : "x1.omega0";
+    std::string ours = names[i] == "ma1"         ? "ma1"
+                       : names[i] == "intercept" ? "constant"
+                                                 : "x1.omega0";
     for (const auto& e : fit.estimates)
       if (e.name == ours) {
         EXPECT_NEAR(e.value, coef[i], 1e-3) << ours;
@@ -199,6 +202,57 @@ TEST(LikelihoodReference, SeriesMEstimatedFilterStartMatchesBaseRProfile) {
     }
     EXPECT_NEAR(best, grid_ll[g], 1e-3) << grid[g];
   }
+  // Forecasts continue the filter from the estimated state: R's predict with the state column
+  // continued as delta1^(t - 4) (b = 3, so the lead's future plays no part up to h = 3).
+  FittedModel model;
+  model.spec = fit.spec;
+  model.params = fit.params;
+  model.start = fit.start;
+  InputUse use;
+  use.name = "lead";
+  model.inputs = {use};
+  ForecastOptions options;
+  options.horizon = 3;
+  options.parameter_uncertainty = false;
+  const auto f = forecast(model, data, {{"lead", {0.0, 0.0, 0.0}}}, options);
+  const auto expected = to_vector(ref["sales_forecast"]);
+  for (int h = 0; h < 3; ++h) EXPECT_NEAR(f.level[h], expected[h], 1e-3) << h;
+  // (Here the state has decayed by 0.726^146 at the origin; the next test sees it at work.)
+}
+
+TEST(LikelihoodReference, ForecastContinuesTheFilterFromItsStartState) {
+  // x_t = state * delta^(t - start) with a zero input: on 10 rows from start 2 the forecast is
+  // the decayed state (white noise, no constant, the noise's forecast is zero).
+  FittedModel model;
+  model.spec.inputs = {{"u", {2, 0, 1}}};
+  model.spec.constant = false;
+  model.params = zero_params(model.spec);
+  model.params.inputs[0] = {{1.0}, {0.9}, {5.0}};
+  model.start = 2;
+  InputUse use;
+  use.name = "u";
+  model.inputs = {use};
+  SeriesData history;
+  history.target_name = "y";
+  history.input_names = {"u"};
+  history.inputs = {std::vector<double>(10, 0.0)};
+  for (int t = 0; t < 10; ++t) history.target.push_back(t >= 2 ? 5.0 * std::pow(0.9, t - 2) : 0.0);
+  history.time.assign(10, "");
+  ForecastOptions options;
+  options.horizon = 2;
+  options.parameter_uncertainty = false;
+  const auto f = forecast(model, history, {{"u", {0.0, 0.0}}}, options);
+  EXPECT_NEAR(f.level[0], 5.0 * std::pow(0.9, 8), 1e-12);
+  EXPECT_NEAR(f.level[1], 5.0 * std::pow(0.9, 9), 1e-12);
+  LikelihoodWorkspace ws;
+  LikelihoodProblem problem;  // by hand: make_problem refuses a constant input
+  problem.spec = model.spec;
+  problem.w = history.target;
+  problem.u = history.inputs;
+  problem.start = 2;
+  const auto residuals = model_residuals(problem, model.params, ws);
+  ASSERT_EQ(residuals.size(), 8u);
+  for (double r : residuals) EXPECT_NEAR(r, 0.0, 1e-12);
 }
 
 }  // namespace

@@ -14,7 +14,7 @@ FittedModel sample_model() {
   m.spec.noise = {1, 1, 0, 0, 1};
   m.params = zero_params(m.spec);
   m.params.constant = 0.1;
-  m.params.inputs[0] = {{-5.0, 1.25}, {0.6}};
+  m.params.inputs[0] = {{-5.0, 1.25}, {0.6}, {0.375}};  // an estimated filter start
   m.params.phi = {0.7};
   m.params.theta = {0.3};
   m.params.sigma2 = 64.0 / 3.0;
@@ -54,6 +54,21 @@ TEST(ModelFile, RoundTripKeepsEveryNumber) {
   EXPECT_EQ(back.input_models[0].phi, m.input_models[0].phi);
   EXPECT_EQ(back.inputs[0].future, FutureMode::forecast);
   EXPECT_EQ(back.covariance(0, 0), 0.01);
+  EXPECT_EQ(back.spec.filter_start, FilterStart::estimated);
+  EXPECT_EQ(back.params.inputs[0].state, m.params.inputs[0].state);
+}
+
+TEST(ModelFile, FilesWithoutAFilterStartLoadAsAZeroStart) {
+  // Written before the start states existed: those models were fitted from a zero start.
+  auto doc = to_json(sample_model());
+  doc["spec"].erase("filter_start");
+  doc["params"]["inputs"][0].erase("state");
+  const auto back = fitted_model_from_json(doc, "model.json");
+  EXPECT_EQ(back.spec.filter_start, FilterStart::zero);
+  EXPECT_TRUE(back.params.inputs[0].state.empty());
+  doc = to_json(sample_model());
+  doc["params"]["inputs"][0]["state"] = {0.1, 0.2};
+  EXPECT_NE(refusal(doc).find("params.inputs[0].state"), std::string::npos) << refusal(doc);
 }
 
 TEST(ModelFile, RefusesOtherVersionsMissingFieldsAndNonFiniteNumbers) {

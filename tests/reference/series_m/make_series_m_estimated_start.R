@@ -33,11 +33,21 @@ grid_ll <- vapply(grid, profile, 0)
 best <- grid[which.max(grid_ll)]
 opt <- optimize(profile, interval = c(-0.99, 0.99), maximum = TRUE, tol = 1e-10)
 stopifnot(abs(opt$maximum - best) < 0.1)
-fit <- fit_at(opt$maximum)
+X <- regressors(opt$maximum)  # in this frame, so that predict() can re-read the call's xreg
+fit <- arima(y, order = c(0, 0, 1), xreg = X, include.mean = TRUE, method = "ML",
+             optim.control = tight)
 cf <- coef(fit)
 cat(sprintf("delta1=%.8f omega0=%.8f intercept=%.8f theta=%.8f start1=%.6f sigma2=%.8g loglik=%.8f\n",
             opt$maximum, cf["omega0"], cf["intercept"], cf["ma1"], cf["start1"], fit$sigma2,
             fit$loglik))
+
+# Forecasts of the differenced sales for t = 150..152 (b = 3: the lead is known to t = 149): the
+# zero-start filtered lead continues and the state column continues as delta1^(t - 4); the sales
+# forecast is the last value plus their cumulative sum.
+xf <- as.numeric(stats::filter(dx, opt$maximum, method = "recursive"))
+newx <- cbind(omega0 = xf[(nd - 2):nd], start1 = opt$maximum^(length(y) + 0:2))
+pr <- predict(fit, n.ahead = 3, newxreg = newx)
+sales_forecast <- bj$sales[length(bj$sales)] + cumsum(as.numeric(pr$pred))
 
 write_fixture(list(
   description = paste("Series M transfer-function model, exact ML by profile likelihood over",
@@ -53,5 +63,8 @@ write_fixture(list(
   n = as.integer(fit$nobs),
   delta1 = opt$maximum, omega0 = cf[["omega0"]], intercept = cf[["intercept"]],
   theta = cf[["ma1"]], start1 = cf[["start1"]], sigma2 = fit$sigma2, loglik = fit$loglik,
-  profile_grid = list(delta1 = I(grid), loglik = I(grid_ll))),
+  profile_grid = list(delta1 = I(grid), loglik = I(grid_ll)),
+  forecast_note = paste("predict(fit, n.ahead = 3, newxreg = cbind(xf[147:149],",
+                        "delta1^(146:148))): sales at t = 151..153 = sales[150] + cumsum(pred)"),
+  sales_forecast = I(sales_forecast)),
   ref_dir("series_m", "series_m_estimated_start_r.json"))
