@@ -13,23 +13,22 @@ namespace {
 template <typename Enum, size_t N>
 using Table = std::array<std::pair<Enum, std::string_view>, N>;
 
-constexpr Table<TransformKind, 3> kTransformKind{{{TransformKind::none, "none"},
-                                                  {TransformKind::log, "log"},
-                                                  {TransformKind::boxcox, "boxcox"}}};
+constexpr Table<TransformKind, 3> kTransformKind{{
+    {TransformKind::none, "none"}, {TransformKind::log, "log"}, {TransformKind::boxcox, "boxcox"}}};
 constexpr Table<MissingPolicy, 3> kMissingPolicy{{{MissingPolicy::error, "error"},
                                                   {MissingPolicy::interpolate, "interpolate"},
                                                   {MissingPolicy::skip, "skip"}}};
-constexpr Table<GapPolicy, 2> kGapPolicy{
-    {{GapPolicy::insert, "insert"}, {GapPolicy::error, "error"}}};
+constexpr Table<GapPolicy, 2> kGapPolicy{{{GapPolicy::insert, "insert"}, {GapPolicy::error, "error"}}};
 constexpr Table<EventShape, 3> kEventShape{
     {{EventShape::pulse, "pulse"}, {EventShape::step, "step"}, {EventShape::ramp, "ramp"}}};
 constexpr Table<FutureMode, 2> kFutureMode{
     {{FutureMode::known, "known"}, {FutureMode::forecast, "forecast"}}};
-constexpr Table<ConstantMode, 3> kConstantMode{
-    {{ConstantMode::yes, "true"}, {ConstantMode::no, "false"}, {ConstantMode::automatic, "auto"}}};
+constexpr Table<ConstantMode, 3> kConstantMode{{{ConstantMode::yes, "true"},
+                                                 {ConstantMode::no, "false"},
+                                                 {ConstantMode::automatic, "auto"}}};
 constexpr Table<Strategy, 3> kStrategy{{{Strategy::exhaustive, "exhaustive"},
-                                        {Strategy::guided, "guided"},
-                                        {Strategy::stepwise, "stepwise"}}};
+                                         {Strategy::guided, "guided"},
+                                         {Strategy::stepwise, "stepwise"}}};
 constexpr Table<Criterion, 3> kCriterion{
     {{Criterion::aic, "aic"}, {Criterion::aicc, "aicc"}, {Criterion::bic, "bic"}}};
 constexpr Table<WindowKind, 2> kWindowKind{
@@ -96,14 +95,14 @@ std::string_view to_string(WindowKind v) { return lookup(kWindowKind, v); }
 std::string_view to_string(OutlierType v) { return lookup(kOutlierType, v); }
 std::string_view to_string(FilterStart v) { return lookup(kFilterStart, v); }
 
-#define LAGSIEVE_ENUM_NAMES(Enum, table)                        \
-  template <>                                                   \
-  std::optional<Enum> parse_enum<Enum>(std::string_view text) { \
-    return parse(table, text);                                  \
-  }                                                             \
-  template <>                                                   \
-  std::vector<std::string> enum_choices<Enum>() {               \
-    return choices(table);                                      \
+#define LAGSIEVE_ENUM_NAMES(Enum, table)                                            \
+  template <>                                                                       \
+  std::optional<Enum> parse_enum<Enum>(std::string_view text) {                     \
+    return parse(table, text);                                                      \
+  }                                                                                 \
+  template <>                                                                       \
+  std::vector<std::string> enum_choices<Enum>() {                                   \
+    return choices(table);                                                          \
   }
 
 LAGSIEVE_ENUM_NAMES(TransformKind, kTransformKind)

@@ -1,8 +1,8 @@
 #include "forecast/fitted_model.h"
 
-#include <fmt/format.h>
 #include <cmath>
 #include <cstdint>
+#include <fmt/format.h>
 #include <fstream>
 #include <limits>
 #include <sstream>
@@ -67,10 +67,9 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
       best.aic = fit.aic;
     }
   if (!std::isfinite(best.aic))
-    throw InputError(
-        fmt::format("input '{}': its own ARMA model could not be fitted (too few "
-                    "observations or a constant series)",
-                    name));
+    throw InputError(fmt::format("input '{}': its own ARMA model could not be fitted (too few "
+                                 "observations or a constant series)",
+                                 name));
   best.chosen_by_aic = !given;
   // Small-sample bias of an AR(1) with unknown mean: E[phi_hat] - phi = -(1 + 3 phi) / n + O(n^-2)
   // for the least-squares estimate (Kendall 1954, Biometrika 41; Marriott & Pope 1954,
@@ -93,8 +92,8 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
   return best;
 }
 
-FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config, const SeriesData& data,
-                              const std::vector<OutlierEffect>& effects) {
+FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
+                              const SeriesData& data, const std::vector<OutlierEffect>& effects) {
   FittedModel model;
   model.spec = fit.spec;
   model.params = fit.params;
@@ -128,8 +127,9 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config, con
       use.known_steps = ic.known_steps;
       if (!ic.is_event && ic.future == FutureMode::forecast) {
         const int index = data.input_index(term.name);
-        model.input_models.push_back(fit_input_model(
-            term.name, data.inputs[index], fit.spec.differencing, ic.own_model.p, ic.own_model.q));
+        model.input_models.push_back(fit_input_model(term.name, data.inputs[index],
+                                                     fit.spec.differencing, ic.own_model.p,
+                                                     ic.own_model.q));
       }
     }
     model.inputs.push_back(use);

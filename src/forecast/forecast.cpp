@@ -54,10 +54,9 @@ ArmaPath arma_path(const std::vector<double>& ar, const std::vector<double>& ma,
   const int m = state_dim(ar, ma);
   // A non-stationary AR polynomial has no stationary start: the filter returns an empty state.
   if (end.cov.rows() != m || end.state.size() != m || !end.cov.allFinite())
-    throw InputError(
-        fmt::format("{} has a non-stationary AR polynomial; it cannot be forecast "
-                    "(re-fit the model)",
-                    what));
+    throw InputError(fmt::format("{} has a non-stationary AR polynomial; it cannot be forecast "
+                                 "(re-fit the model)",
+                                 what));
   const Eigen::MatrixXd g = powers_of_t(ar, m, horizon);
   path.mean.resize(horizon);
   for (int s = 0; s < horizon; ++s) path.mean[s] = g.row(s).dot(end.state);
@@ -174,7 +173,8 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
       ic.at = use.at;
       if (use.effect) {
         OutlierEffect effect = *use.effect;
-        effect.row = event_row(ic, history.time, model.training.config_file, history.time_format);
+        effect.row =
+            event_row(ic, history.time, model.training.config_file, history.time_format);
         original = effect_values(effect, rows + horizon);
       } else {
         auto time = history.time;
@@ -242,8 +242,9 @@ Paths compute_paths(const FittedModel& model, const SeriesData& history,
     for (int t = 0; t < nw; ++t) noise[t] -= x[t];
   const auto ar = expand_ar(model.params.phi, model.params.seasonal_phi, spec.noise.period);
   const auto ma = expand_ma(model.params.theta, model.params.seasonal_theta, spec.noise.period);
-  const auto noise_path = arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()),
-                                    horizon, "the noise model");
+  const auto noise_path =
+      arma_path(ar, ma, std::vector<double>(noise.begin() + start, noise.end()), horizon,
+                "the noise model");
 
   std::vector<double> w_hat(horizon);
   for (int s = 0; s < horizon; ++s) {
@@ -366,9 +367,9 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
 
   const Eigen::VectorXd var_noise =
       Eigen::Map<const Eigen::VectorXd>(base.var_known.data(), horizon);
-  const Eigen::VectorXd var_all =
-      var_noise + Eigen::Map<const Eigen::VectorXd>(base.var_inputs.data(), horizon) +
-      var_param_model + var_param_inputs;
+  const Eigen::VectorXd var_all = var_noise +
+                                  Eigen::Map<const Eigen::VectorXd>(base.var_inputs.data(), horizon) +
+                                  var_param_model + var_param_inputs;
   const Eigen::VectorXd var_known = var_noise + var_param_model;
   out.share_inputs.resize(horizon);
   out.share_parameters.resize(horizon);

@@ -111,9 +111,9 @@ void check_params(const Checker& c, const FittedModel& m) {
     c.size(p.inputs[i].delta.size(), order.denominator, path + "delta",
            fmt::format("spec.inputs[{}].denominator", i));
     if (!p.inputs[i].state.empty())  // empty: the filter starts from zero
-      c.size(
-          p.inputs[i].state.size(), spec.start_states(i), path + "state",
-          fmt::format("spec.inputs[{}].denominator with spec.filter_start: estimated (else 0)", i));
+      c.size(p.inputs[i].state.size(), spec.start_states(i), path + "state",
+             fmt::format("spec.inputs[{}].denominator with spec.filter_start: estimated (else 0)",
+                         i));
     c.stationary(p.inputs[i].delta, path + "delta", "stable");
   }
 }

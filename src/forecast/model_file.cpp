@@ -187,8 +187,7 @@ json to_json(const FittedModel& m) {
   json cov = json::array();
   for (Eigen::Index i = 0; i < m.covariance.rows(); ++i) {
     json row = json::array();
-    for (Eigen::Index j = 0; j < m.covariance.cols(); ++j)
-      row.push_back(number_or_null(m.covariance(i, j)));
+    for (Eigen::Index j = 0; j < m.covariance.cols(); ++j) row.push_back(number_or_null(m.covariance(i, j)));
     cov.push_back(row);
   }
   doc["covariance"] = {{"names", m.param_names}, {"matrix", cov}};
@@ -212,20 +211,15 @@ json to_json(const FittedModel& m) {
                                    {"chosen_by_aic", im.chosen_by_aic},
                                    {"covariance", icov}});
   }
-  doc["fit"] = {{"loglik", m.loglik}, {"aic", m.aic},          {"aicc", number_or_null(m.aicc)},
-                {"bic", m.bic},       {"n_obs", m.n_obs},      {"n_params", m.n_params},
+  doc["fit"] = {{"loglik", m.loglik}, {"aic", m.aic},           {"aicc", number_or_null(m.aicc)},
+                {"bic", m.bic},       {"n_obs", m.n_obs},       {"n_params", m.n_params},
                 {"start", m.start},   {"status", m.fit_status}};
   const auto& tr = m.training;
-  doc["training"] = {{"source_file", tr.source_file},
-                     {"target_column", tr.target_column},
-                     {"rows", tr.rows},
-                     {"first_time", tr.first_time},
-                     {"last_time", tr.last_time},
-                     {"frequency", tr.frequency},
-                     {"time_format", tr.time_format},
-                     {"missing_target", tr.missing_target},
-                     {"fingerprint", tr.fingerprint},
-                     {"config_file", tr.config_file},
+  doc["training"] = {{"source_file", tr.source_file}, {"target_column", tr.target_column},
+                     {"rows", tr.rows},               {"first_time", tr.first_time},
+                     {"last_time", tr.last_time},     {"frequency", tr.frequency},
+                     {"time_format", tr.time_format}, {"missing_target", tr.missing_target},
+                     {"fingerprint", tr.fingerprint}, {"config_file", tr.config_file},
                      {"config_text", tr.config_text}};
   doc["backtest"] = m.backtest;
   return doc;
@@ -279,8 +273,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     }
     // Detected effects (files without the field, older ones included, have none).
     if (e.contains("detected"))
-      use.effect =
-          effect_from_json(e["detected"], fmt::format("{}: model file '{}detected'", source, path));
+      use.effect = effect_from_json(e["detected"], fmt::format("{}: model file '{}detected'",
+                                                               source, path));
     m.spec.inputs.push_back(term);
     m.inputs.push_back(use);
   }
@@ -336,8 +330,9 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     im.chosen_by_aic = r.boolean(e, "chosen_by_aic", path);
     // Optional (files written before it existed, or an input model fitted without standard
     // errors: an empty list): a square matrix over phi, theta and the mean.
-    const bool has_covariance = e.contains("covariance") && !e["covariance"].is_null() &&
-                                !(e["covariance"].is_array() && e["covariance"].empty());
+    const bool has_covariance =
+        e.contains("covariance") && !e["covariance"].is_null() &&
+        !(e["covariance"].is_array() && e["covariance"].empty());
     if (has_covariance) {
       const json& ic = r.list(e, "covariance", path);
       // Square; that it is (p + q + 1) wide is checked with the orders (model_checks).
@@ -349,7 +344,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
           r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", size));
         for (size_t j = 0; j < size; ++j)
           im.covariance(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
-              ic[i][j].is_null() ? std::nan("") : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
+              ic[i][j].is_null() ? std::nan("")
+                                 : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
       }
     }
     m.input_models.push_back(im);
@@ -486,31 +482,25 @@ json fit_to_json(const FitResult& fit) {
   j["seconds"] = fit.seconds;
   j["params"] = json::array();
   for (const auto& e : fit.estimates)
-    j["params"].push_back(
-        {{"name", e.name}, {"value", e.value}, {"std_error", number_or_null(e.std_error)}});
+    j["params"].push_back({{"name", e.name}, {"value", e.value}, {"std_error", number_or_null(e.std_error)}});
   json d;
   d["ljung_box"] = json::array();
   for (const auto& lb : fit.diagnostics.ljung_box)
-    d["ljung_box"].push_back(
-        {{"lag", lb.lag}, {"df", lb.df}, {"statistic", lb.statistic}, {"p_value", lb.p_value}});
+    d["ljung_box"].push_back({{"lag", lb.lag}, {"df", lb.df}, {"statistic", lb.statistic}, {"p_value", lb.p_value}});
   d["gains"] = json::array();
   for (const auto& g : fit.diagnostics.gains)
-    d["gains"].push_back({{"input", g.input},
-                          {"gain", number_or_null(g.gain)},
-                          {"std_error", number_or_null(g.std_error)}});
+    d["gains"].push_back({{"input", g.input}, {"gain", number_or_null(g.gain)}, {"std_error", number_or_null(g.std_error)}});
   d["roots"] = json::array();
   for (const auto& r : fit.diagnostics.roots) {
     json roots = json::array();
     for (const auto& z : r.roots) roots.push_back({z.real(), z.imag()});
-    d["roots"].push_back(
-        {{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
+    d["roots"].push_back({{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
   }
   d["warnings"] = fit.diagnostics.warnings;
   if (!fit.diagnostics.residual_acf.empty()) {
     // Residual autocorrelation at lags 1..L with the approximate 2/sqrt(n) band.
     const auto& r = fit.diagnostics.residual_acf;
-    d["residual_acf"] = {
-        {"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
+    d["residual_acf"] = {{"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
     for (size_t k = 1; k <= r.size(); ++k) d["residual_acf"]["lags"].push_back(k);
   }
   // Residuals against each prewhitened input: lags -L..L (input at t-k against residual at t),

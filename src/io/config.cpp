@@ -228,11 +228,11 @@ void read_event_file(const Reader& rd, const YAML::Node& node, const fs::path& b
   // The window end: the named column, or a column called `to` when the file has one.
   const int tc = to_col.empty() ? table.column_index("to") : table.column_index(to_col);
   if (dc < 0 || nc < 0 || (!to_col.empty() && tc < 0))
-    throw InputError(fmt::format(
-        "{}: the event file needs columns '{}' and '{}'{}; its header "
-        "is: {}",
-        table.source, date_col, name_col, to_col.empty() ? "" : fmt::format(" and '{}'", to_col),
-        fmt::join(table.header, ", ")));
+    throw InputError(fmt::format("{}: the event file needs columns '{}' and '{}'{}; its header "
+                                 "is: {}",
+                                 table.source, date_col, name_col,
+                                 to_col.empty() ? "" : fmt::format(" and '{}'", to_col),
+                                 fmt::join(table.header, ", ")));
   std::vector<std::string> order;
   std::map<std::string, std::string> at;
   for (int r = 0; r < table.row_count(); ++r) {
@@ -483,8 +483,8 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
     throw InputError(fmt::format("{}: the config is empty; it needs at least `data` and `target`",
                                  config_file.string()));
   rd.check_map(root, "",
-               {"data", "target", "differencing", "inputs", "events", "noise", "search", "backtest",
-                "fit", "forecast", "outliers", "output"});
+               {"data", "target", "differencing", "inputs", "events", "noise", "search",
+                "backtest", "fit", "forecast", "outliers", "output"});
 
   RunConfig cfg;
   cfg.config_file = config_file;

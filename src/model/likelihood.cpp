@@ -261,7 +261,8 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
     for (int state = 0; state < spec.start_states(i); ++state) {
       unit.assign(order.denominator, 0.0);
       unit[state] = 1.0;
-      ws.starts.push_back(homogeneous_solution(nonlinear.subspan(k, order.denominator), unit, n));
+      ws.starts.push_back(
+          homogeneous_solution(nonlinear.subspan(k, order.denominator), unit, n));
     }
     k += order.denominator;
   }

@@ -22,8 +22,8 @@ std::vector<double> expand_ar(std::span<const double> phi, std::span<const doubl
   return a;
 }
 
-std::vector<double> expand_ma(std::span<const double> theta, std::span<const double> seasonal_theta,
-                              int period) {
+std::vector<double> expand_ma(std::span<const double> theta,
+                              std::span<const double> seasonal_theta, int period) {
   const size_t q = theta.size();
   const size_t len = q + seasonal_theta.size() * static_cast<size_t>(period);
   std::vector<double> m(len, 0.0);
@@ -36,7 +36,8 @@ std::vector<double> expand_ma(std::span<const double> theta, std::span<const dou
   return m;
 }
 
-std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma, int count) {
+std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma,
+                                int count) {
   std::vector<double> psi(std::max(count, 0), 0.0);
   for (int j = 0; j < count; ++j) {
     double v = j == 0 ? 1.0 : (j - 1 < static_cast<int>(ma.size()) ? ma[j - 1] : 0.0);

@@ -23,12 +23,10 @@ ModelSpec single_spec(const RunConfig& config) {
   ModelSpec spec;
   for (size_t i = 0; i < config.inputs.size(); ++i) {
     const auto& in = config.inputs[i];
-    const std::string key =
-        fmt::format("{}: inputs[{}]", config.config_file.filename().string(), i);
-    spec.inputs.push_back(
-        {in.name,
-         {single(in.delay, key + ".delay"), single(in.numerator, key + ".numerator"),
-          single(in.denominator, key + ".denominator")}});
+    const std::string key = fmt::format("{}: inputs[{}]", config.config_file.filename().string(), i);
+    spec.inputs.push_back({in.name,
+                           {single(in.delay, key + ".delay"), single(in.numerator, key + ".numerator"),
+                            single(in.denominator, key + ".denominator")}});
   }
   const std::string noise = config.config_file.filename().string() + ": noise";
   spec.noise.p = single(config.noise.ar, noise + ".ar");
