@@ -13,6 +13,7 @@ $R $ref/ml_optimum/make_ml_optimum.R
 $PY $ref/ml_optimum/make_ml_optimum.py
 $R $ref/series_m/make_series_m.R
 $R $ref/series_m/make_series_m_estimated_start.R
+$R $ref/filter_start/make_filter_start.R
 $R $ref/standard_errors/make_standard_errors.R
 $R $ref/optimum_grid/make_optimum_grid.R
 $PY $ref/optimum_grid/make_optimum_grid.py
