@@ -391,6 +391,12 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
     case 4:
       filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
       break;
+    case 13:  // AR(1) x seasonal AR(1) at period 12
+      filter_columns<13>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 14:  // MA(1) x seasonal MA(1) at period 12
+      filter_columns<14>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
     default:
       ws.states.resize(kColumnGroup, m);
       filter_columns<0>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled,
