@@ -186,8 +186,9 @@ int run(int argc, char** argv) {
   nlohmann::json j;
   fmt::print("n = {}, two inputs (x1 b1 s1, x2 b2 s1, r = 0), constant; thread CPU medians of {}\n",
              kRows, repeat);
-  fmt::print("{:10s} {:>4s} {:>12s} {:>10s} {:>12s} {:>12s} {:>6s} {:>6s}\n", "case", "m", "fit ms",
-             "search ms", "eval us", "loglik", "evals", "starts");
+  fmt::print("{:10s} {:>4s} {:>9s} {:>10s} {:>8s} {:>11s} {:>7s} {:>12s} {:>6s} {:>6s}\n", "case",
+             "m", "fit ms", "search ms", "eval us", "riccati us", "ratio", "loglik", "evals",
+             "starts");
   for (const auto& c : cases()) {
     const auto data = case_data(c);
     if (!dump_dir.empty()) write_csv(data, dump_dir + "/" + c.name + ".csv");
