@@ -2,9 +2,12 @@
 // Exact Gaussian filtering of ARMA noise by the Kalman filter on the state-space form
 //   n_t = Z alpha_t,  alpha_{t+1} = T alpha_t + R a_{t+1},  Z = e_1,
 // T = [ar | I; 0] (m x m, m = max(p', q' + 1)), R = (1, ma_1, ..., ma_{m-1})',
-// with the stationary initial covariance (discrete Lyapunov equation solved by doubling) and
-// sigma^2 = 1 (it is concentrated out by the caller). Once the state covariance has converged
-// the filter switches to the steady-state gain (Gardner, Harvey & Phillips 1980).
+// with the stationary initial covariance and sigma^2 = 1 (it is concentrated out by the caller).
+// Without missing rows the gains come from Chandrasekhar-type recursions, O(m) per step, started
+// from the first column of the stationary covariance (from the autocovariances); with missing
+// rows from the Riccati recursion on the full covariance (the Lyapunov equation solved by
+// doubling), O(m^2) per step. Once the state covariance has converged the filter switches to the
+// steady-state gain (Gardner, Harvey & Phillips 1980).
 //
 // The gains depend only on the ARMA coefficients, so one pass filters several columns at once
 // (the target and every regressor of the GLS step): each column gets its own state vector.
