@@ -129,39 +129,33 @@ bool stationary_state_covariance(std::span<const double> ar, std::span<const dou
   return false;
 }
 
-ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
-                              const RowMatrix& y, ArmaFilterWorkspace& ws,
-                              std::vector<double>* innovations, std::vector<double>* f_values,
-                              std::span<const unsigned char> missing) {
-  ArmaFilterSummary out;
-  const Eigen::Index n = y.rows();
-  const Eigen::Index cols = y.cols();
-  const int m = state_dim(ar.size(), ma.size());
-  out.cross.setZero(cols, cols);
-  if (!stationary_state_covariance(ar, ma, ws, ws.P)) {
-    out.ok = false;
-    return out;
-  }
+namespace {
+
+// The gains K_t = T P_t Z' / F_t and 1 / sqrt(F_t) of every step until the state covariance has
+// converged (then the gain is frozen) or the data end.
+struct GainPass {
+  Eigen::Index transient = 0;  // steps with their own gain; later ones use the last
+  double sum_log_f = 0.0;      // over the transient steps
+  double f = 0.0;              // F of the last transient step
+  bool steady = false;         // the covariance converged (at step `transient`)
+  bool ok = true;
+};
+
+// The Riccati recursion on the full state covariance, O(m^2) per step; it handles missing rows
+// (a skipped update: a_{t+1} = T a_t, P_{t+1} = T P T' + R R').
+GainPass riccati_gains(Eigen::Index n, int m, std::span<const unsigned char> missing,
+                       ArmaFilterWorkspace& ws, std::vector<double>* f_values) {
+  GainPass pass;
+  pass.transient = n;
   ws.TP.resize(m, m);
   ws.Pnext.resize(m, m);
   ws.gain.resize(m);
-  if (innovations) innovations->assign(n, 0.0);
-  if (f_values) f_values->assign(n, 0.0);
-  if (n == 0) return out;
-
-  // 1. The gains depend only on the ARMA coefficients: run the covariance recursion once,
-  // until it has converged (then the gain is frozen) or the data end.
-  ws.gains.resize(n, m);
-  ws.inv_sqrt_f.resize(n);
-  Eigen::Index transient = n;
-  double f = 0.0;
   // The gain may freeze only after the last missing row (a skipped update moves P away again).
   Eigen::Index last_missing = -1;
   for (Eigen::Index t = 0; t < static_cast<Eigen::Index>(missing.size()) && t < n; ++t)
     if (missing[t]) last_missing = t;
   for (Eigen::Index t = 0; t < n; ++t) {
     if (t <= last_missing && missing[t]) {
-      // No observation: a_{t+1} = T a_t, P_{t+1} = T P T' + R R'.
       ws.gains.row(t).setZero();
       ws.inv_sqrt_f(t) = 0.0;
       multiply_t_left(ws.ar_full, ws.P, ws.TP);
@@ -170,17 +164,18 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
       ws.P.swap(ws.Pnext);
       continue;
     }
-    f = ws.P(0, 0);
+    const double f = ws.P(0, 0);
     if (!(f > 0.0) || !std::isfinite(f)) {
-      out.ok = false;
-      return out;
+      pass.ok = false;
+      return pass;
     }
+    pass.f = f;
     // K = T P Z' / F
     multiply_t_left(ws.ar_full, ws.P.col(0), ws.gain);
     ws.gain /= f;
     ws.gains.row(t) = ws.gain.transpose();
     ws.inv_sqrt_f(t) = 1.0 / std::sqrt(f);
-    out.sum_log_f += std::log(f);
+    pass.sum_log_f += std::log(f);
     if (f_values) (*f_values)[t] = f;
     // P_{t+1} = T P T' + R R' - K K' F
     multiply_t_left(ws.ar_full, ws.P, ws.TP);
@@ -190,11 +185,188 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
     const double change = (ws.Pnext - ws.P).cwiseAbs().maxCoeff();
     ws.P.swap(ws.Pnext);
     if (change < kSteadyTolerance && t > last_missing) {
-      transient = t + 1;
-      out.steady_from = static_cast<int>(transient);
+      pass.transient = t + 1;
+      pass.steady = true;
       break;
     }
   }
+  return pass;
+}
+
+// Whether 1 - sum a_j B^j has every root outside the unit circle: the step-down recursion (the
+// Durbin-Levinson recursion run backwards) keeps every partial autocorrelation inside (-1, 1).
+bool is_stationary(const double* coef, int p, Eigen::VectorXd& a, Eigen::VectorXd& prev) {
+  a = Eigen::Map<const Eigen::VectorXd>(coef, p);
+  prev.resize(p);
+  for (int k = p - 1; k >= 0; --k) {
+    const double r = a(k);
+    if (!(std::abs(r) < 1.0)) return false;
+    const double denom = 1.0 - r * r;
+    for (int j = 0; j < k; ++j) prev(j) = (a(j) + r * a(k - 1 - j)) / denom;
+    for (int j = 0; j < k; ++j) a(j) = prev(j);
+  }
+  return true;
+}
+
+// First column of the stationary state covariance (sigma^2 = 1) from the autocovariances
+// gamma(k) of the ARMA process and its psi-weights: unrolling the state recursion gives
+//   alpha_t(l) = sum_{j=0}^{m-1-l} (ar_{l+j} n_{t-1-j} + R_{l+j} a_{t-j}),
+// so P(0, l) = Cov(n_t, alpha_t(l)) = sum_j (ar_{l+j} gamma(j + 1) + R_{l+j} psi_j). The
+// autocovariances solve the (p + 1) x (p + 1) system
+//   gamma(k) - sum_i phi_i gamma(|k - i|) = sum_{j >= k} theta_j psi_{j-k},  k = 0..p
+// (Brockwell & Davis 1991, sec. 3.3, the second method), and follow by the recursion beyond.
+// Costs O(p^3 + m^2) against the O(m^3 log) of the doubling, which the filter needs only for the
+// full covariance. Returns false for a non-stationary AR part.
+bool stationary_first_column(int p, int q, int m, ArmaFilterWorkspace& ws, Eigen::VectorXd& col) {
+  const double* ar = ws.ar_full.data();
+  const double* ma = ws.ma_full.data();  // ma[0] = 1
+  if (p > 0 && !is_stationary(ar, p, ws.lyap_tmp_v, ws.chandra_tw)) return false;
+  Eigen::VectorXd& psi = ws.psi;
+  Eigen::VectorXd& gamma = ws.gamma;
+  psi.resize(m);
+  for (int j = 0; j < m; ++j) {
+    double v = ma[j];
+    for (int i = 1; i <= std::min(j, p); ++i) v += ar[i - 1] * psi(j - i);
+    psi(j) = v;
+  }
+  gamma.setZero(m + 1);
+  if (p == 0) {
+    for (int k = 0; k < m; ++k)
+      for (int j = 0; j + k < m; ++j) gamma(k) += ma[j] * ma[j + k];
+  } else {
+    // c_k = sum_{j=k}^{q} theta_j psi_{j-k}
+    auto rhs = [&](int k) {
+      double c = 0.0;
+      for (int j = k; j <= q; ++j) c += ma[j] * psi(j - k);
+      return c;
+    };
+    ws.lyap_a.setZero(p + 1, p + 1);
+    ws.gamma_rhs.resize(p + 1);
+    for (int k = 0; k <= p; ++k) {
+      ws.lyap_a(k, k) += 1.0;
+      for (int i = 1; i <= p; ++i) ws.lyap_a(k, std::abs(k - i)) -= ar[i - 1];
+      ws.gamma_rhs(k) = rhs(k);
+    }
+    ws.gamma_lu.compute(ws.lyap_a);
+    gamma.head(p + 1) = ws.gamma_lu.solve(ws.gamma_rhs);
+    for (int k = p + 1; k <= m; ++k) {
+      double v = rhs(k);
+      for (int i = 1; i <= p; ++i) v += ar[i - 1] * gamma(k - i);
+      gamma(k) = v;
+    }
+  }
+  col.resize(m);
+  for (int l = 0; l < m; ++l) {
+    double v = 0.0;
+    for (int j = 0; l + j < m; ++j) v += ar[l + j] * gamma(j + 1) + ma[l + j] * psi(j);
+    col(l) = v;
+  }
+  return col.allFinite() && col(0) > 0.0;
+}
+
+// The same gains by the Chandrasekhar-type recursions of a time-invariant model (Morf, Sidhu &
+// Kailath 1974; Harvey 1989, sec. 3.3.4): the filter needs only F_t and T P_t Z', and from the
+// stationary start the change P_{t+1} - P_t = W_t M_t W_t' has rank one, so
+//   F_{t+1} = F_t + M_t w_t^2,                  w_t = Z W_t = W_t(0),
+//   T P_{t+1} Z' = T P_t Z' + M_t w_t T W_t,
+//   W_{t+1} = T W_t - (T P_t Z') w_t / F_t,     M_{t+1} = M_t - M_t^2 w_t^2 / F_{t+1},
+// from W_0 = T P_0 Z', M_0 = -1 / F_0: O(m) per step with the companion T instead of the
+// O(m^2) update of P (14 states for an MA(1) x seasonal MA(1) at period 12). Only the first
+// column of P_0 is read. The steady state is declared on the same test as the Riccati pass:
+// max |P_{t+1} - P_t| = |M_t| max_i W_t(i)^2 below the tolerance.
+GainPass chandrasekhar_gains(Eigen::Index n, int m, const Eigen::VectorXd& p0,
+                             ArmaFilterWorkspace& ws, std::vector<double>* f_values) {
+  GainPass pass;
+  pass.transient = n;
+  const double* ar = ws.ar_full.data();
+  ws.gain.resize(m);       // T P_t Z'
+  ws.chandra_w.resize(m);  // W_t
+  ws.chandra_tw.resize(m);
+  double* kbar = ws.gain.data();
+  double* w = ws.chandra_w.data();
+  double* tw = ws.chandra_tw.data();
+  double f = p0(0);
+  for (int i = 0; i < m; ++i) kbar[i] = ar[i] * f + (i + 1 < m ? p0(i + 1) : 0.0);
+  for (int i = 0; i < m; ++i) w[i] = kbar[i];
+  double mm = -1.0 / f;
+  for (Eigen::Index t = 0; t < n; ++t) {
+    if (!(f > 0.0) || !std::isfinite(f)) {
+      pass.ok = false;
+      return pass;
+    }
+    pass.f = f;
+    const double inv_f = 1.0 / f;
+    double* k = ws.gains.data() + t * m;
+    for (int i = 0; i < m; ++i) k[i] = kbar[i] * inv_f;
+    ws.inv_sqrt_f(t) = 1.0 / std::sqrt(f);
+    pass.sum_log_f += std::log(f);
+    if (f_values) (*f_values)[t] = f;
+    double w_max = 0.0;
+    for (int i = 0; i < m; ++i) w_max = std::max(w_max, std::abs(w[i]));
+    if (std::abs(mm) * w_max * w_max < kSteadyTolerance) {
+      pass.transient = t + 1;
+      pass.steady = true;
+      break;
+    }
+    const double w0 = w[0];
+    for (int i = 0; i + 1 < m; ++i) tw[i] = ar[i] * w0 + w[i + 1];
+    tw[m - 1] = ar[m - 1] * w0;
+    const double mw = mm * w0;
+    const double f_next = f + mw * w0;
+    const double shift = w0 * inv_f;
+    for (int i = 0; i < m; ++i) {
+      w[i] = tw[i] - kbar[i] * shift;
+      kbar[i] += mw * tw[i];
+    }
+    mm -= mw * mw / f_next;
+    f = f_next;
+  }
+  return pass;
+}
+
+}  // namespace
+
+ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double> ma,
+                              const RowMatrix& y, ArmaFilterWorkspace& ws,
+                              std::vector<double>* innovations, std::vector<double>* f_values,
+                              std::span<const unsigned char> missing) {
+  ArmaFilterSummary out;
+  const Eigen::Index n = y.rows();
+  const Eigen::Index cols = y.cols();
+  const int m = state_dim(ar.size(), ma.size());
+  out.cross.setZero(cols, cols);
+  if (innovations) innovations->assign(n, 0.0);
+  if (f_values) f_values->assign(n, 0.0);
+  ws.gains.resize(n, m);
+  ws.inv_sqrt_f.resize(n);
+
+  // 1. The gains depend only on the ARMA coefficients: run the covariance recursion once,
+  // until it has converged (then the gain is frozen) or the data end. The fast recursion needs
+  // only the first column of the stationary covariance; with missing rows the Riccati one needs
+  // all of it.
+  const bool any_missing =
+      std::any_of(missing.begin(), missing.end(), [](unsigned char flag) { return flag != 0; });
+  const bool fast = !any_missing && ws.recursion == GainRecursion::fast;
+  load_polynomials(ar, ma, m, ws);
+  const bool stationary =
+      fast ? stationary_first_column(static_cast<int>(ar.size()), static_cast<int>(ma.size()), m,
+                                     ws, ws.p0_column)
+           : stationary_state_covariance(ar, ma, ws, ws.P);
+  if (!stationary) {
+    out.ok = false;
+    return out;
+  }
+  if (n == 0) return out;
+  const GainPass pass = fast ? chandrasekhar_gains(n, m, ws.p0_column, ws, f_values)
+                             : riccati_gains(n, m, missing, ws, f_values);
+  if (!pass.ok) {
+    out.ok = false;
+    return out;
+  }
+  const Eigen::Index transient = pass.transient;
+  const double f = pass.f;
+  out.sum_log_f = pass.sum_log_f;
+  if (pass.steady) out.steady_from = static_cast<int>(transient);
   // Every later step has the same F.
   out.sum_log_f += static_cast<double>(n - transient) * std::log(f);
   if (f_values)
@@ -218,6 +390,12 @@ ArmaFilterSummary arma_filter(std::span<const double> ar, std::span<const double
       break;
     case 4:
       filter_columns<4>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 13:  // AR(1) x seasonal AR(1) at period 12
+      filter_columns<13>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
+      break;
+    case 14:  // MA(1) x seasonal MA(1) at period 12
+      filter_columns<14>(y, m, ar_coef, ws.gains, ws.inv_sqrt_f, transient, ws.scaled, nullptr);
       break;
     default:
       ws.states.resize(kColumnGroup, m);

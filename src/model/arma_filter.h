@@ -2,13 +2,17 @@
 // Exact Gaussian filtering of ARMA noise by the Kalman filter on the state-space form
 //   n_t = Z alpha_t,  alpha_{t+1} = T alpha_t + R a_{t+1},  Z = e_1,
 // T = [ar | I; 0] (m x m, m = max(p', q' + 1)), R = (1, ma_1, ..., ma_{m-1})',
-// with the stationary initial covariance (discrete Lyapunov equation solved by doubling) and
-// sigma^2 = 1 (it is concentrated out by the caller). Once the state covariance has converged
-// the filter switches to the steady-state gain (Gardner, Harvey & Phillips 1980).
+// with the stationary initial covariance and sigma^2 = 1 (it is concentrated out by the caller).
+// Without missing rows the gains come from Chandrasekhar-type recursions, O(m) per step, started
+// from the first column of the stationary covariance (from the autocovariances); with missing
+// rows from the Riccati recursion on the full covariance (the Lyapunov equation solved by
+// doubling), O(m^2) per step. Once the state covariance has converged the filter switches to the
+// steady-state gain (Gardner, Harvey & Phillips 1980).
 //
 // The gains depend only on the ARMA coefficients, so one pass filters several columns at once
 // (the target and every regressor of the GLS step): each column gets its own state vector.
 #include <Eigen/Core>
+#include <Eigen/LU>
 #include <span>
 #include <vector>
 
@@ -16,10 +20,19 @@ namespace lagsieve {
 
 using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
 
+// How the filter computes its gains. `fast` uses the O(m)-per-step Chandrasekhar-type
+// recursions when no row is missing (the Riccati recursion otherwise); `riccati` always updates
+// the full state covariance (O(m^2) per step), the reference the fast one is tested against.
+enum class GainRecursion { fast, riccati };
+
 // Scratch space reused across likelihood evaluations of one fit (never shared between threads).
 struct ArmaFilterWorkspace {
   Eigen::MatrixXd P, TP, Pnext, lyap_a, lyap_tmp;
   Eigen::VectorXd gain, ar_full, ma_full;
+  Eigen::VectorXd chandra_w, chandra_tw;  // W_t and T W_t of the Chandrasekhar recursions
+  Eigen::VectorXd p0_column, psi, gamma, gamma_rhs, lyap_tmp_v;  // the stationary first column
+  Eigen::PartialPivLU<Eigen::MatrixXd> gamma_lu;                 // its autocovariance system
+  GainRecursion recursion = GainRecursion::fast;
   RowMatrix states;            // scratch states of one column group (4 x m) when m > 4
   RowMatrix gains;             // Kalman gain K_t of each step before the steady state (steps x m)
   Eigen::VectorXd inv_sqrt_f;  // 1 / sqrt(F_t) of the same steps
