@@ -224,7 +224,8 @@ JointFit joint_fit(const SeriesData& data, const ModelSpec& spec,
   return j;
 }
 
-// Size, s.e. and ratio of each effect from a joint fit (its terms follow the base inputs).
+}  // namespace
+
 void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects) {
   for (auto& e : effects) {
     const auto key = e.name + ".omega0";
@@ -237,6 +238,8 @@ void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects) {
       }
   }
 }
+
+namespace {
 
 void set_noise(OutlierEffect& e, const ModelSpec& spec, const ModelParams& p) {
   e.differencing = spec.differencing;

@@ -104,6 +104,9 @@ OutlierFit fit_with_effects(const SeriesData& data, const ModelSpec& spec,
                             const std::vector<OutlierEffect>& effects, const FitOptions& options,
                             int start = -1);
 
+// Size, s.e. and ratio of each effect from a fit that holds it as an input `<name>.omega0`.
+void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects);
+
 // The data with one column per effect, and the spec with one term per effect.
 SeriesData with_effect_columns(const SeriesData& data, const std::vector<OutlierEffect>& effects);
 ModelSpec with_effect_terms(const ModelSpec& spec, const std::vector<OutlierEffect>& effects);
