@@ -30,12 +30,12 @@
 namespace lagsieve {
 
 struct NewEffectsCheck {
-  bool run = false;      // false: asked for by neither the config nor the model
+  bool run = false;  // false: asked for by neither the config nor the model
   double critical = 0.0;
   int new_rows = 0;
-  int tested_rows = 0;   // new rows with a residual
+  int tested_rows = 0;               // new rows with a residual
   std::vector<OutlierEffect> found;  // row order; size and statistic at the deployed parameters
-  std::string note;      // why it did not run, when asked
+  std::string note;                  // why it did not run, when asked
 };
 
 // The check on the rows after model.training.rows of `data` (which holds the model's effect
