@@ -85,7 +85,7 @@ void print_search_outliers(const SearchOutliers& o) {
   }
   fmt::print(
       "  detected effects (on {}, critical |t| {:.2f}; shared by the {} shortlisted candidates, "
-      "{:.2f} s; sizes from the leader's fit):\n",
+      "{:.3f} s; sizes from the leader's fit):\n",
       o.detected_on, o.critical, o.shortlisted, o.seconds);
   for (const auto& e : o.effects) fmt::print("    {}\n", describe_effect(e));
 }
