@@ -86,6 +86,50 @@ std::optional<EffectsSection> effects_section(const json& fit, const std::string
     for (int t = 0; t < n; ++t) history.x.push_back(t + 1);
     history.y = values;
     chart.series.push_back(history);
+    // A level shift also shows as the mean of the history between consecutive shifts (dashed),
+    // and every effect as a faint strip in its colour over the data range.
+    double lo = kNaN, hi = kNaN;
+    for (double v : values)
+      if (std::isfinite(v)) {
+        lo = std::isfinite(lo) ? std::min(lo, v) : v;
+        hi = std::isfinite(hi) ? std::max(hi, v) : v;
+      }
+    std::vector<int> shifts{0};
+    for (const auto& e : effects) {
+      const int row = e.contains("row") && e["row"].is_number_integer() ? e["row"].get<int>() : -1;
+      if (row < 0 || row >= n) continue;
+      if (text(e, "type") == "level_shift") shifts.push_back(row);
+      Band strip;
+      strip.name = text(e, "name");
+      strip.x = {row + 0.5, row + 1.5};
+      strip.lower = {lo, lo};
+      strip.upper = {hi, hi};
+      strip.colour = effect_colour(text(e, "type"));
+      strip.opacity = 0.18;
+      chart.bands.push_back(std::move(strip));
+    }
+    if (shifts.size() > 1) {
+      std::sort(shifts.begin(), shifts.end());
+      shifts.push_back(n);
+      LineSeries level;
+      level.name = "mean between level shifts";
+      level.colour = effect_colour("level_shift");
+      level.style = LineStyle::dashed;
+      for (size_t k = 0; k + 1 < shifts.size(); ++k) {
+        double sum = 0.0;
+        int count = 0;
+        for (int t = shifts[k]; t < shifts[k + 1]; ++t)
+          if (std::isfinite(values[t])) sum += values[t], ++count;
+        const double mean = count > 0 ? sum / count : kNaN;
+        for (int t = shifts[k]; t < shifts[k + 1]; ++t) {
+          level.x.push_back(t + 1);
+          level.y.push_back(mean);
+        }
+        level.x.push_back(kNaN);  // a gap at the shift
+        level.y.push_back(kNaN);
+      }
+      chart.series.push_back(std::move(level));
+    }
     for (const char* type : kTypes) {
       LineSeries m;
       m.name = words(type);
