@@ -30,6 +30,24 @@ std::vector<double> future_values(const SeriesData& data, const std::string& nam
   return {u.begin() + from, u.begin() + from + count};
 }
 
+// Warm-start values for `spec` from a fit of a spec with the same noise model but perhaps other
+// inputs (detected effects enter as the origins pass them): inputs matched by name, new ones 0.
+ModelParams warm_params(const ModelSpec& spec, const FittedModel& previous) {
+  if (previous.spec.inputs.size() == spec.inputs.size()) return previous.params;
+  ModelParams p = zero_params(spec);
+  const ModelParams& q = previous.params;
+  p.constant = q.constant;
+  p.phi = q.phi;
+  p.theta = q.theta;
+  p.seasonal_phi = q.seasonal_phi;
+  p.seasonal_theta = q.seasonal_theta;
+  p.sigma2 = q.sigma2;
+  for (size_t i = 0; i < spec.inputs.size(); ++i)
+    for (size_t k = 0; k < previous.spec.inputs.size() && k < q.inputs.size(); ++k)
+      if (previous.spec.inputs[k].name == spec.inputs[i].name) p.inputs[i] = q.inputs[k];
+  return p;
+}
+
 // Fits the candidate's spec on one window; warm-started from `previous` when given.
 std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesData& window,
                                       int start, const std::optional<FittedModel>& previous) {
@@ -37,7 +55,7 @@ std::optional<FittedModel> fit_window(const BacktestCandidate& c, const SeriesDa
   FitOptions options;
   options.standard_errors = false;
   options.diagnostics = false;
-  if (previous) options.warm_start = previous->params;
+  if (previous) options.warm_start = warm_params(c.spec, *previous);
   const FitResult fit = fit_model(problem, options);
   if (!fit.usable()) return std::nullopt;
   FittedModel m;
@@ -116,6 +134,39 @@ void seasonal_naive(ModelBacktest& out, const SeriesData& data, int origin, int 
 
 void score_model(ModelBacktest& m, const BacktestOptions& o);
 
+}  // namespace
+
+BacktestCandidate known_at_origin(const BacktestCandidate& c, const SeriesData& window, int from,
+                                  int origin) {
+  BacktestCandidate out = c;
+  out.spec.inputs.clear();
+  out.inputs.clear();
+  out.input_orders.clear();
+  for (size_t i = 0; i < c.spec.inputs.size(); ++i) {
+    bool keep = true;
+    if (i < c.inputs.size() && c.inputs[i].effect) {
+      const int row = c.inputs[i].effect->row;
+      // Constant over the window: it began before a sliding window (absorbed by the level, or
+      // zero); kept only as the level of a model without constant or differencing.
+      bool constant = true;
+      const int index = window.input_index(c.spec.inputs[i].name);
+      if (index >= 0)
+        for (double v : window.inputs[index]) constant = constant && v == window.inputs[index][0];
+      const bool is_level = index >= 0 && !window.inputs[index].empty() &&
+                            window.inputs[index][0] != 0.0 && !c.spec.constant &&
+                            c.spec.differencing.lost() == 0;
+      keep = row < origin && !(constant && !is_level && row <= from);
+    }
+    if (!keep) continue;
+    out.spec.inputs.push_back(c.spec.inputs[i]);
+    if (i < c.inputs.size()) out.inputs.push_back(c.inputs[i]);
+    if (i < c.input_orders.size()) out.input_orders.push_back(c.input_orders[i]);
+  }
+  return out;
+}
+
+namespace {
+
 ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
                            const BacktestOptions& o, const std::vector<int>& origins) {
   ModelBacktest out;
@@ -139,7 +190,7 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       const bool refit_now =
           !c.fixed && (o.refit > 0 ? k % static_cast<size_t>(o.refit) == 0 : k == 0);
       if (refit_now) {
-        auto fitted = fit_window(c, window, o.start, last_fit);
+        auto fitted = fit_window(known_at_origin(c, window, from, origin), window, o.start, last_fit);
         if (fitted) {
           current = std::move(fitted);
           last_fit = current;
@@ -434,7 +485,12 @@ std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCan
                                        const ModelBacktest& leader_result,
                                        const BacktestOptions& options) {
   std::vector<BacktestCandidate> without;
+  std::vector<size_t> left_out;  // the index of the input each run leaves out
   for (size_t i = 0; i < leader.spec.inputs.size(); ++i) {
+    // Detected effects are not inputs whose value is asked about (they mark events in the
+    // history, which every model of the search shares).
+    if (i < leader.inputs.size() && leader.inputs[i].effect) continue;
+    left_out.push_back(i);
     BacktestCandidate c = leader;
     c.fixed.reset();
     c.spec.inputs.erase(c.spec.inputs.begin() + i);
@@ -448,7 +504,7 @@ std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCan
   const auto with = scaled_error_by_origin(leader_result.production, result.origins);
   for (size_t i = 0; i < without.size(); ++i) {
     InputValueRow row;
-    row.input = leader.spec.inputs[i].name;
+    row.input = leader.spec.inputs[left_out[i]].name;
     row.score_with = leader_result.score;
     row.score_without = result.models[i].score;
     const auto alt = scaled_error_by_origin(result.models[i].production, result.origins);

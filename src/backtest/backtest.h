@@ -109,6 +109,14 @@ struct BacktestResult {
 BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& candidates,
                             const BacktestOptions& options);
 
+// The candidate as it can be fitted at `origin` from the window of rows from..origin-1: a
+// detected effect (an input with `effect`) dated at or after the origin cannot be known there and
+// is left out of that origin's fit (rather than dropping the origin); one whose column is
+// constant over the window (it began before a sliding window) is left out as well. Other inputs
+// are kept.
+BacktestCandidate known_at_origin(const BacktestCandidate& c, const SeriesData& window, int from,
+                                  int origin);
+
 // Diebold-Mariano tests of the leader against every other model, per horizon (squared loss).
 std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result);
 

@@ -17,11 +17,13 @@
 #include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
+#include "outliers/detect.h"
 #include "report/report.h"
 #include "screen/screen.h"
 #include "search/leaderboard.h"
 #include "search/run_dir.h"
 #include "search/run_folder.h"
+#include "search/search_outliers.h"
 #include "search/shortlist.h"
 
 namespace lagsieve::cli {
@@ -70,6 +72,24 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
 
 namespace {
 
+// The detected set under the ranking table: where it came from, each effect, the cost.
+void print_search_outliers(const SearchOutliers& o) {
+  if (!o.note.empty()) {
+    fmt::print("  detected effects: none ({})\n", o.note);
+    return;
+  }
+  if (o.effects.empty()) {
+    fmt::print("  detected effects: none above the critical |t| {:.2f} (on {})\n", o.critical,
+               o.detected_on);
+    return;
+  }
+  fmt::print(
+      "  detected effects (on {}, critical |t| {:.2f}; shared by the {} shortlisted candidates, "
+      "{:.3f} s; sizes from the leader's fit):\n",
+      o.detected_on, o.critical, o.shortlisted, o.seconds);
+  for (const auto& e : o.effects) fmt::print("    {}\n", describe_effect(e));
+}
+
 // Why a series has no usable candidate: the statuses counted and the most frequent message.
 std::string no_candidate_reason(const SearchResult& r) {
   std::map<std::string, int> statuses, messages;
@@ -106,9 +126,6 @@ int run_search_command(const SearchArgs& args) {
   Journal journal(stage / run_files::kJournal, fingerprint, args.resume);
   for (const auto& note : journal.notes()) fmt::print(stderr, "lagsieve: warning: {}\n", note);
 
-  if (config.outliers.enabled)
-    fmt::print(stderr, "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
-                       "search ranks the candidates without detected effects\n");
   SearchOptions options;
   options.threads = threads;
   options.journal = &journal;
@@ -151,7 +168,11 @@ int run_search_command(const SearchArgs& args) {
       without_model.push_back(no_candidate_reason(r));
       continue;
     }
-    FittedModel model = make_fitted_model(r.leader, config, data);
+    // With detected effects: the data with their columns, and the leader's set in its model file.
+    const SeriesData fitted = search_data(data, r);
+    FittedModel model = make_fitted_model(r.leader, config, fitted,
+                                          r.rows.empty() ? std::vector<OutlierEffect>{}
+                                                         : row_effects(r.rows.front(), r));
     if (backtests[k] && backtests[k]->result.leader >= 0)
       model.backtest = accuracy_json(backtests[k]->result.models[backtests[k]->result.leader],
                                      backtests[k]->options);
@@ -161,10 +182,11 @@ int run_search_command(const SearchArgs& args) {
     fit_json["frequency"] = data.frequency;
     fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
     if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
+    if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
     write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
     write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
-                          model, data, config);
+                          model, fitted, config);
   }
   write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
   write_file_atomic(stage / run_files::kLeaderboardJson,
@@ -181,16 +203,22 @@ int run_search_command(const SearchArgs& args) {
     const size_t shown = std::min<size_t>(r.rows.size(), 10);
     size_t width = 5;  // the model column fits the longest label shown
     for (size_t i = 0; i < shown; ++i) width = std::max(width, r.rows[i].key.size());
-    fmt::print("  {:>4}  {:<{}} {:>11} {:>9} {:>8} {:>9}  {}\n", "rank", "model", width,
+    // With detected effects, a last column names those fitted with each row.
+    const bool effects_column = r.outliers && !r.outliers->effects.empty();
+    fmt::print("  {:>4}  {:<{}} {:>11} {:>9} {:>8} {:>9}  {:<14}{}\n", "rank", "model", width,
                to_string(config.search.criterion), "loglik", "LB p", "bt " + config.backtest.score,
-               "status");
+               "status", effects_column ? " effects" : "");
     for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
-      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
-                 row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
+      std::string effects;
+      for (const auto& e : row.effects) effects += " " + e;
+      if (effects_column && effects.empty()) effects = " (none)";
+      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {:<14}{}\n", row.rank, row.key,
+                 width, row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
-                 to_string(row.status));
+                 to_string(row.status), effects_column ? effects : "");
     }
+    if (r.outliers) print_search_outliers(*r.outliers);
     if (!r.leader_reason.empty()) fmt::print("  leader: {}\n", r.leader_reason);
     for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
   }

@@ -224,7 +224,8 @@ JointFit joint_fit(const SeriesData& data, const ModelSpec& spec,
   return j;
 }
 
-// Size, s.e. and ratio of each effect from a joint fit (its terms follow the base inputs).
+}  // namespace
+
 void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects) {
   for (auto& e : effects) {
     const auto key = e.name + ".omega0";
@@ -237,6 +238,8 @@ void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects) {
       }
   }
 }
+
+namespace {
 
 void set_noise(OutlierEffect& e, const ModelSpec& spec, const ModelParams& p) {
   e.differencing = spec.differencing;
@@ -400,9 +403,16 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
     for (const auto& e : effects)
       if (e.row - first_row >= 0 && e.row - first_row < n) excluded[e.row - first_row] = true;
     std::vector<OutlierEffect> found;
+    bool tentative = false;
     while (static_cast<int>(effects.size() + found.size()) < options.max_effects) {
       const auto c = largest_statistic(residuals, options.detect, signatures, excluded, constant);
-      if (c.index < 0 || !(std::abs(c.statistic) > critical)) break;
+      // Tentative entry: nothing above C at these parameters, but an effect that distorts them
+      // (a level shift pulls an ARMA toward a unit root, which masks it) may exceed C once they
+      // are re-estimated with it; the largest above `entry` is tried once in a joint fit.
+      const bool above = c.index >= 0 && std::abs(c.statistic) > critical;
+      tentative = !above && found.empty() && c.index >= 0 && options.entry > 0.0 &&
+                  std::abs(c.statistic) > options.entry;
+      if (!above && !tentative) break;
       OutlierEffect e;
       e.type = c.type;
       e.row = first_row + c.index;
@@ -425,6 +435,7 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
         }
         for (int t = 0; t < n; ++t) residuals[t] -= ce / cc * constant[t];
       }
+      if (tentative) break;
     }
     if (found.empty()) break;
     // Stage 2: the joint fit with every effect; an effect the data cannot carry (collinear with
@@ -435,7 +446,15 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
       for (auto& e : trial) set_noise(e, current.spec, current.fit.params);
       trial.insert(trial.end(), found.begin(), found.end());
       try {
-        auto next = joint_fit(data, spec, trial, start, quick, &current.fit.params);
+        auto next =
+            joint_fit(data, spec, trial, start, tentative ? with_se : quick, &current.fit.params);
+        if (next.fit.usable() && tentative) {
+          // Kept only when the joint fit confirms it above C + margin (the parameters have
+          // adapted to it there, so the bar is higher); otherwise detection ends here.
+          std::vector<OutlierEffect> last{trial.back()};
+          read_sizes(next.fit, last);
+          if (!(std::abs(last[0].statistic) >= critical + options.entry_margin)) break;
+        }
         if (next.fit.usable()) {
           effects = std::move(trial);
           current = std::move(next);

@@ -13,6 +13,10 @@
 //
 //  1. At the current parameters: the largest |tau| over rows and types; above the critical value
 //     C it is recorded and its effect removed from the residuals; repeat until none exceeds C.
+//     When none exceeds C in a round, the largest above `entry` (3.0) is tried tentatively: it
+//     enters the joint fit of step 2 and stays only if its |size / s.e.| there reaches C + 1 (an
+//     effect can mask itself by distorting the parameters, e.g. a level shift under an ARMA(1,1)
+//     pulled toward a unit root); detection ends otherwise.
 //  2. Re-estimate the whole model (ARMA and transfer functions) with every effect found as an
 //     event input of order b = s = r = 0 (its size concentrated out by GLS like any omega);
 //     go back to 1 on the new residuals until no new effect is found (or `max_effects`).
@@ -37,7 +41,12 @@ struct OutlierOptions {
   double decay = 0.7;      // delta of the temporary change
   int max_rounds = 10;     // detect / re-estimate rounds at most
   double ambiguity = 0.9;  // types whose responses correlate above this are not told apart
-  FitOptions fit;          // the final fit's options (intermediate fits skip diagnostics)
+  // Tentative entry (stage 1): when no statistic exceeds C, the largest above `entry` is tried
+  // once in a joint fit and kept only if its |size / s.e.| there reaches C + entry_margin
+  // (entry 0 = off).
+  double entry = 3.0;
+  double entry_margin = 1.0;
+  FitOptions fit;  // the final fit's options (intermediate fits skip diagnostics)
 };
 
 // From the config's `outliers` section.
@@ -103,6 +112,9 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
 OutlierFit fit_with_effects(const SeriesData& data, const ModelSpec& spec,
                             const std::vector<OutlierEffect>& effects, const FitOptions& options,
                             int start = -1);
+
+// Size, s.e. and ratio of each effect from a fit that holds it as an input `<name>.omega0`.
+void read_sizes(const FitResult& fit, std::vector<OutlierEffect>& effects);
 
 // The data with one column per effect, and the spec with one term per effect.
 SeriesData with_effect_columns(const SeriesData& data, const std::vector<OutlierEffect>& effects);

@@ -19,6 +19,7 @@
 #include "io/csv.h"
 #include "model/polynomial.h"
 #include "model/spec_from_config.h"
+#include "report/effects_section.h"
 #include "report/html.h"
 #include "report/svg.h"
 #include "search/run_folder.h"
@@ -1619,6 +1620,13 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
     if (sf.forecast)
       if (auto s = forecast_section(b, sf, options)) page.sections.push_back(std::move(*s));
     if (auto s = backtest_section(b, run, sf, options, files_read)) page.sections.push_back(std::move(*s));
+    if (sf.fit)
+      if (auto e = effects_section(*sf.fit, b.suffix(sf))) {
+        if (!e->chart_svg.empty())
+          e->section.blocks.insert(e->section.blocks.begin(),
+                                   b.figure(e->chart_svg, b.stem("effects", sf), e->chart_caption));
+        page.sections.push_back(std::move(e->section));
+      }
     if (sf.fit) page.sections.push_back(diagnostics_section(b, sf));
   }
   if (run.series.empty() && !run.revalidation)

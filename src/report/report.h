@@ -11,6 +11,7 @@
 //   Leaderboard        leaderboard.json: the top rows, sortable
 //   Forecast           forecast.json: fan chart, inputs forecast beside inputs known
 //   Backtest           accuracy.csv, backtest.csv, comparisons.csv, input_value.csv
+//   Detected effects   fit.json `outliers`: history with the effects marked, their table
 //   Leader diagnostics fit.json: residual ACF, Ljung-Box, gains, roots, estimates, warnings
 //
 // Backtest files that carry no series suffix (and no `series` column) are taken to belong to

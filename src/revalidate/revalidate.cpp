@@ -14,6 +14,7 @@
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
 #include "search/candidates.h"
+#include "revalidate/new_effects.h"
 #include "search/shortlist.h"
 
 namespace lagsieve {
@@ -337,9 +338,10 @@ void RevalidateOptions::validate() const {
     throw InputError(fmt::format("revalidate: comparison refit interval {} must be >= 0", comparison_refit));
 }
 
-RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
+RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
                               const RunConfig& config, const RevalidateOptions& options) {
   options.validate();
+  const SeriesData data = with_model_effects(model, given);  // the model's detected effects
   const auto t0 = std::chrono::steady_clock::now();
   RevalidationResult out;
   out.alpha = options.alpha;
@@ -419,6 +421,8 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
 
   // 3. Residuals of the new period.
   out.residuals = residual_checks(model, data, out.history.new_rows, options, deployed);
+  // 3b. New effects in the new period (new_effects.h): a threshold rule, not one of the m tests.
+  out.new_effects = new_effects_check(model, data, config.outliers);
 
   // 4c. Challenger against the deployed model, per horizon.
   ch.score_deployed = deployed.score;
@@ -501,6 +505,11 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& data,
     refit_reasons.push_back(fmt::format(
         "new-period residual variance is {:.2f} times the fitted sigma^2 (p = {} < {:.4f})",
         res.variance.ratio, fmt_p(res.variance.p_value), level));
+  for (const auto& e : out.new_effects.found)
+    refit_reasons.push_back(fmt::format(
+        "new effect in the new period: {} (|statistic| above the critical value {:.2f}; a re-fit "
+        "takes it in as an event input)",
+        describe_new_effect(e), out.new_effects.critical));
   int best_dep = -1, best_ref = -1;
   for (size_t i = 0; i < ch.by_horizon.size(); ++i) {
     const auto& c = ch.by_horizon[i];
@@ -648,6 +657,7 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
     rj["coverage_horizon_1"].push_back({{"level", c.level}, {"count", c.count}, {"inside", c.inside},
                                         {"observed", num(c.observed)}, {"p_value", num(c.p_value)}});
   j["residuals"] = rj;
+  j["new_effects"] = new_effects_json(r.new_effects);
   const auto& ch = r.challengers;
   json cj = {{"candidates", ch.candidates},
              {"ranked_by", ch.ranked_by},
@@ -726,6 +736,14 @@ std::string summary_text(const RevalidationResult& r) {
   for (const auto& c : res.coverage)
     line(fmt::format("  1-step {}% intervals held {} of {} ({:.1f}%), p = {}", level_name(c.level), c.inside,
                      c.count, 100.0 * c.observed, fmt_p(c.p_value)));
+  if (r.new_effects.run) {
+    line("");
+    line(fmt::format("New effects in the new rows (critical |statistic| {:.2f}, {} rows tested)",
+                     r.new_effects.critical, r.new_effects.tested_rows));
+    if (r.new_effects.found.empty())
+      line(r.new_effects.note.empty() ? "  none" : "  " + r.new_effects.note);
+    for (const auto& e : r.new_effects.found) line("  " + describe_new_effect(e));
+  }
   line("");
   const auto& ch = r.challengers;
   line(fmt::format("Challengers: {} candidates, ranked by {}", ch.candidates, ch.ranked_by));

@@ -31,7 +31,8 @@
 //   replace  the best challenger beats the deployed model significantly at some horizon AND beats
 //            the deployed structure re-fitted significantly at some horizon (so re-fitting alone
 //            would not catch up; both at alpha / m, an intersection, so the level stays alpha);
-//   refit    otherwise, when any parameter drifted beyond the threshold, or accuracy degraded at
+//   refit    otherwise, when any parameter drifted beyond the threshold, or a new effect (level
+//            shift, outlier, ...) was detected in the new period (new_effects.h), or accuracy degraded at
 //            some horizon, or a residual test rejects, or the challenger beats the deployed model
 //            (but not its re-fit);
 //   keep     otherwise.
@@ -50,6 +51,7 @@
 #include "evaluation/diebold_mariano.h"
 #include "forecast/fitted_model.h"
 #include "revalidate/checks.h"
+#include "revalidate/new_effects.h"
 #include "search/search.h"
 
 namespace lagsieve {
@@ -175,6 +177,7 @@ struct RevalidationResult {
   PerformanceCheck performance;
   DriftCheck drift;
   ResidualCheck residuals;
+  NewEffectsCheck new_effects;      // effects in the new period (new_effects.h)
   ChallengerCheck challengers;
   double alpha = 0.05;
   int tests = 0;                    // m, the tests that can move the verdict

@@ -24,18 +24,20 @@ std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConf
   for (const auto& in : config.inputs) out += "," + csv_field(in.name);
   out +=
       ",p,q,seasonal_p,seasonal_q,constant,loglik,n_obs,n_params,aic,aicc,bic,ljung_box_p,"
-      "status,fit_seconds,backtest_score,backtest_rank,selection,message\n";
+      "status,fit_seconds,backtest_score,backtest_rank,selection,message,effects\n";
   for (const auto& r : rows) {
     out += fmt::format("{},{},{}", csv_field(r.series), r.rank, csv_field(r.key));
     for (const auto& in : config.inputs) out += "," + input_cell(r, in.name);
-    out += fmt::format(",{},{},{},{},{},{},{},{},{},{},{},{},{},{:.4f},{},{},{},{}\n",
+    std::string effects;  // detected effects fitted with the row, space-separated
+    for (const auto& e : r.effects) effects += (effects.empty() ? "" : " ") + e;
+    out += fmt::format(",{},{},{},{},{},{},{},{},{},{},{},{},{},{:.4f},{},{},{},{},{}\n",
                        r.spec.noise.p, r.spec.noise.q, r.spec.noise.seasonal_p,
                        r.spec.noise.seasonal_q, r.spec.constant ? "yes" : "no",
                        csv_number(r.loglik), r.n_obs, r.n_params, csv_number(r.aic),
                        csv_number(r.aicc), csv_number(r.bic), csv_number(r.ljung_box_p),
                        to_string(r.status), r.seconds, csv_number(r.backtest_score),
                        r.backtest_rank > 0 ? std::to_string(r.backtest_rank) : "",
-                       csv_field(r.selection), csv_field(r.message));
+                       csv_field(r.selection), csv_field(r.message), csv_field(effects));
   }
   return out;
 }

@@ -18,6 +18,7 @@
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
 #include "search/candidates.h"
+#include "search/search_outliers.h"
 
 namespace lagsieve {
 
@@ -71,6 +72,7 @@ json to_json(const CandidateRow& r) {
     j["backtest_rank"] = r.backtest_rank;
   }
   if (!r.selection.empty()) j["selection"] = r.selection;
+  if (!r.effects.empty()) j["effects"] = r.effects;
   return j;
 }
 
@@ -260,6 +262,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
   rank_rows(result.rows, config.search.criterion);
+  if (config.outliers.enabled) detect_on_shortlist(data, config, result, threads);
 
   // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;
   // boundary and rejected fits do not by default), moved to the front. A shortlist backtest
@@ -280,8 +283,10 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
     result.leader_reason = fmt::format(
         "{} has the lowest {} among the fits whose status may lead ({})", result.rows.front().key,
         to_string(config.search.criterion), fmt::join(config.backtest.leader_statuses, ", "));
-    const auto problem = make_problem(data, result.rows.front().spec, result.start);
+    const auto problem = make_problem(search_data(data, result),
+                                      fitted_spec(result.rows.front(), result), result.start);
     result.leader = fit_model(problem);
+    update_effect_sizes(result);
     warn_on_leader_residuals(result);
   } else {
     result.leader_reason = "no candidate with a status that may lead";

@@ -13,6 +13,7 @@
 #include "core/config.h"
 #include "core/series.h"
 #include "model/fit.h"
+#include "outliers/effects.h"
 #include "screen/screen.h"
 #include "search/journal.h"
 
@@ -39,6 +40,9 @@ struct CandidateRow {
   double backtest_score = std::numeric_limits<double>::quiet_NaN();
   int backtest_rank = 0;  // 1 = lowest backtest score
   std::string selection;  // its part in the choice of the leader (selection.h), in words
+  // Names of the detected effects fitted with this row (search_outliers.h); empty: fitted
+  // without. `spec` and `key` stay those of the candidate itself.
+  std::vector<std::string> effects;
 
   double criterion(Criterion c) const {
     return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic;
@@ -60,6 +64,19 @@ struct SearchOptions {
   std::function<void(int done, int total)> progress;
 };
 
+// Outlier detection in a search (config `outliers`; search_outliers.h): one detection on the
+// criterion leader, its set shared by every shortlisted candidate.
+struct SearchOutliers {
+  std::string detected_on;  // key of the candidate detection ran on
+  double critical = 0.0;
+  int rounds = 0;
+  std::vector<OutlierEffect> effects;  // the shared set; sizes from the leader's fit
+  std::vector<OutlierEffect> dropped;  // found, then below the critical value in the joint fit
+  int shortlisted = 0;                 // rows re-fitted with the set
+  double seconds = 0.0;                // detection plus the re-fits
+  std::string note;                    // why nothing was detected, when detection failed
+};
+
 struct SearchResult {
   std::string series;
   std::vector<CandidateRow> rows;  // ranked
@@ -75,6 +92,7 @@ struct SearchResult {
   std::string sorted_by;
   std::string leader_reason;
   std::vector<std::string> warnings;
+  std::optional<SearchOutliers> outliers;  // with an `outliers` section
   bool has_leader() const { return leader.usable(); }
 };
 

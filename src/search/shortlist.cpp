@@ -7,6 +7,7 @@
 #include "core/names.h"
 #include "model/likelihood.h"
 #include "search/candidates.h"
+#include "search/search_outliers.h"
 #include "search/selection.h"
 
 #include <fmt/format.h>
@@ -22,26 +23,35 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
 
   for (const auto& row : search.rows)
     if (row.rankable() && static_cast<int>(out.candidates.size()) < size)
-      out.candidates.push_back(candidate_from_spec(row.key, row.spec, config));
+      out.candidates.push_back(row_candidate(row.key, row, search, config));
   if (out.candidates.empty()) return out;
 
   // Benchmark 1: the best candidate without inputs, else the leader's noise model alone.
-  ModelSpec no_inputs = out.candidates.front().spec;
-  no_inputs.inputs.clear();
+  // It keeps the shortlist's detected effects (they mark the history; they are not inputs).
+  CandidateRow no_inputs;
+  no_inputs.spec = out.candidates.front().spec;
+  no_inputs.spec.inputs.clear();
   for (const auto& row : search.rows)
     if (row.rankable() && row.spec.inputs.empty()) {
-      no_inputs = row.spec;
+      no_inputs.spec = row.spec;
       break;
     }
-  auto bench = candidate_from_spec("benchmark: " + candidate_key(no_inputs), no_inputs, config);
+  for (const auto& row : search.rows)
+    if (row.rankable()) {
+      no_inputs.effects = row.effects;
+      break;
+    }
+  auto bench = row_candidate("benchmark: " + candidate_key(no_inputs.spec), no_inputs, search,
+                             config);
   bench.benchmark = true;
   out.candidates.push_back(bench);
   out.candidates.push_back(seasonal_naive_candidate(out.options.season));
   return out;
 }
 
-ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& config,
+ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& config,
                                      SearchResult& search, int threads) {
+  const SeriesData data = search_data(plain, search);  // with the detected effects' columns
   ShortlistBacktest out = shortlist_plan(data, config, search, config.backtest.shortlist, threads);
   if (out.candidates.empty()) return out;
   out.result = run_backtest(data, out.candidates, out.options);
@@ -107,6 +117,7 @@ ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& co
     const auto& lead = out.candidates[out.result.leader];
     if (!search.has_leader() || !(lead.spec == search.leader.spec)) {
       search.leader = fit_model(make_problem(data, lead.spec, search.start));
+      update_effect_sizes(search);
     }
     out.result.input_value =
         input_value(data, lead, out.result.models[out.result.leader], out.options);
