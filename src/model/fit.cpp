@@ -122,6 +122,11 @@ struct OptimiserRun {
   nlopt::result code = nlopt::FAILURE;
 };
 
+// Evaluations one optimiser run may spend (FitOptions::max_evaluations, 0 = by dimension).
+int evaluation_budget(const FitOptions& options, int dim) {
+  return options.max_evaluations > 0 ? options.max_evaluations : 300 + 150 * dim;
+}
+
 OptimiserRun optimise(const LikelihoodProblem& problem, const std::vector<Block>& blocks,
                       std::vector<double> z0, const FitOptions& options, LikelihoodWorkspace& ws) {
   const auto dim = static_cast<unsigned>(z0.size());
@@ -135,7 +140,7 @@ OptimiserRun optimise(const LikelihoodProblem& problem, const std::vector<Block>
   opt.set_min_objective(objective, &obj);
   opt.set_ftol_rel(options.relative_tolerance);
   opt.set_xtol_rel(1e-8);
-  opt.set_maxeval(options.max_evaluations > 0 ? options.max_evaluations : 300 + 150 * int(dim));
+  opt.set_maxeval(evaluation_budget(options, static_cast<int>(dim)));
   opt.set_initial_step(std::vector<double>(dim, 0.15));
   OptimiserRun run;
   double value = 0.0;
@@ -432,10 +437,12 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     std::vector<double> other_optima;  // log-likelihoods reached from the other starts
     // Extra starts run at a coarse tolerance and budget (most end in the basin already found,
     // and the last digits are where an optimiser spends its evaluations); one that ends above
-    // the best so far is then polished at the full tolerance from where it stopped.
+    // the best so far is then polished at the full tolerance from where it stopped. Their budget
+    // is a third of a full start's (100 + 50 per parameter by default), so a smaller
+    // max_evaluations caps them too.
     FitOptions coarse = options;
     coarse.relative_tolerance = std::max(options.relative_tolerance, 1e-6);
-    coarse.max_evaluations = 100 + 50 * dim;
+    coarse.max_evaluations = std::max(1, evaluation_budget(options, dim) / 3);
     auto explore = [&](const std::vector<double>& z_start) {
       auto trial = optimise(problem, blocks, z_start, coarse, ws);
       if (!trial.z.empty() && std::isfinite(trial.loglik) && trial.loglik > run.loglik + 1e-6) {

@@ -26,7 +26,8 @@ enum class FitStatus { ok, no_convergence, boundary, numerical_failure, rejected
 std::string_view to_string(FitStatus s);
 
 struct FitOptions {
-  int max_evaluations = 0;            // 0: 300 + 150 * (number of nonlinear parameters)
+  // Per start; 0: 300 + 150 * (number of nonlinear parameters). Extra starts get a third.
+  int max_evaluations = 0;
   double relative_tolerance = 1e-10;  // stop when the log-likelihood changes less (relative)
   double boundary_pacf = 0.995;       // |partial autocorrelation| beyond: on the boundary
   bool standard_errors = true;        // profile-likelihood curvature (about d^2/2 evaluations)

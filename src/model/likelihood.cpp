@@ -53,6 +53,18 @@ std::string collinear_inputs(const LikelihoodProblem& problem, double tolerance)
   std::vector<Eigen::VectorXd> columns, basis;
   std::vector<std::string> names;
   auto add = [&](const Eigen::VectorXd& column, const std::string& name) -> std::string {
+    // A column of zeros (a lag reaching only zeros of an input) is a combination of nothing:
+    // said as it is, also when no column comes before it.
+    if (column.isZero(0.0))
+      return fmt::format(
+          "{} is zero at every row of the estimation sample, so its effect cannot be estimated; "
+          "leave it out, use another delay or check the column",
+          name);
+    if (!std::isfinite(column.norm()))
+      return fmt::format(
+          "{} has values too large to compute with over the estimation sample (their squares "
+          "overflow); rescale the column",
+          name);
     Eigen::VectorXd r = column;
     for (const auto& q : basis) r -= q.dot(r) * q;  // modified Gram-Schmidt
     const double norm = r.norm();
