@@ -210,7 +210,8 @@ ModelParams unpack(const ModelSpec& spec, std::span<const double> nonlinear,
 
 namespace {
 
-// y = u / delta(B) from zero pre-sample values (the start-up rule), into `out`.
+// y = u / delta(B) from zero pre-sample values (the zero-start response; an estimated start adds
+// the start-state columns of build_columns), into `out`.
 void filter_denominator(const std::vector<double>& u, std::span<const double> delta,
                         std::vector<double>& out) {
   const int total = static_cast<int>(u.size());

@@ -52,8 +52,9 @@ std::string filter_start_note(const ModelSpec& spec) {
     return "filter start: zero (each 1/delta(B) starts from zeros before the first differenced "
            "row; fit.filter_start: zero)";
   return fmt::format(
-      "filter start: estimated ({} start state{} of 1/delta(B), the inputs' effect from before "
-      "the data at the first rows of the sample, are linear parameters counted in k)",
+      "filter start: estimated; k counts {} start state{} of 1/delta(B) (the inputs' effect "
+      "from before the data at the first rows of the sample; fit.filter_start: zero leaves "
+      "them out)",
       states, states == 1 ? "" : "s");
 }
 
