@@ -130,6 +130,7 @@ TEST(ReportEffects, NileSearchAndReportEndToEnd) {
   const std::string html = testing::slurp(dir / "run" / "report.html");
   EXPECT_NE(html.find("Detected effects"), std::string::npos);
   EXPECT_NE(html.find("LS@1899"), std::string::npos);
+  EXPECT_NE(html.find("Detected effects</th>"), std::string::npos) << "no effects column";
   const std::string chart = testing::slurp(dir / "run" / "charts" / "effects.svg");
   EXPECT_NE(chart.find("data-series=\"level shift\" data-x=\"29\""), std::string::npos);
   std::filesystem::remove_all(dir);
