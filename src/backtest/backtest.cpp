@@ -190,7 +190,8 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       const bool refit_now =
           !c.fixed && (o.refit > 0 ? k % static_cast<size_t>(o.refit) == 0 : k == 0);
       if (refit_now) {
-        auto fitted = fit_window(known_at_origin(c, window, from, origin), window, o.start, last_fit);
+        auto fitted =
+            fit_window(known_at_origin(c, window, from, origin), window, o.start, last_fit);
         if (fitted) {
           current = std::move(fitted);
           last_fit = current;

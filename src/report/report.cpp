@@ -187,6 +187,7 @@ struct LeaderboardRow {
   int backtest_rank = 0;
   int n_params = 0;
   int n_obs = 0;
+  std::string effects;  // detected effects fitted with the row, "" when none
 };
 
 // Per series: what the rows are sorted by, why the leader was chosen, the run's warnings.
@@ -232,6 +233,9 @@ Leaderboard read_leaderboard(const fs::path& file) {
     row.n_params = std::isfinite(k) ? static_cast<int>(k) : 0;
     const double n = f.number(r, "n_obs", path);
     row.n_obs = std::isfinite(n) ? static_cast<int>(n) : 0;
+    if (r.contains("effects") && r["effects"].is_array())
+      for (const auto& e : r["effects"])
+        if (e.is_string()) row.effects += (row.effects.empty() ? "" : ", ") + e.get<std::string>();
     lb.rows.push_back(std::move(row));
   }
   if (doc.contains("series_notes") && doc["series_notes"].is_array())
@@ -844,6 +848,10 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
                {"Parameters", "", NumberFormat::automatic, 0},
                {"Log-likelihood", "", NumberFormat::fixed, 2},
                {"Status", "", NumberFormat::automatic, 3}};
+  // With outlier detection, a last column names the detected effects each row was fitted with.
+  const bool any_effects = std::any_of(sf.rows.begin(), sf.rows.end(),
+                                       [](const LeaderboardRow& r) { return !r.effects.empty(); });
+  if (any_effects) t.columns.push_back({"Detected effects", "", NumberFormat::automatic, 3});
   std::map<std::string, int> by_status;
   for (const auto& r : sf.rows) ++by_status[r.status];
   for (size_t i = 0; i < sf.rows.size() && static_cast<int>(i) < options.leaderboard_rows; ++i) {
@@ -854,6 +862,7 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
     t.rows.push_back({cell(r.rank), cell(r.key), cell(r.criterion), cell(r.criterion - best),
                       cell(r.backtest_score), cell(r.ljung_box_p), cell(r.n_params), cell(r.loglik),
                       cell(status)});
+    if (any_effects) t.rows.back().push_back(cell(r.effects.empty() ? "none" : r.effects));
   }
   std::vector<std::string> counts;
   for (const auto& [status, count] : by_status) counts.push_back(fmt::format("{} {}", count, status));

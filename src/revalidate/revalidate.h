@@ -32,9 +32,9 @@
 //            the deployed structure re-fitted significantly at some horizon (so re-fitting alone
 //            would not catch up; both at alpha / m, an intersection, so the level stays alpha);
 //   refit    otherwise, when any parameter drifted beyond the threshold, or a new effect (level
-//            shift, outlier, ...) was detected in the new period (new_effects.h), or accuracy degraded at
-//            some horizon, or a residual test rejects, or the challenger beats the deployed model
-//            (but not its re-fit);
+//            shift, outlier, ...) was detected in the new period (new_effects.h), or accuracy
+//            degraded at some horizon, or a residual test rejects, or the challenger beats the
+//            deployed model (but not its re-fit);
 //   keep     otherwise.
 // Every verdict comes with the reasons that produced it, numbers included.
 #include <functional>

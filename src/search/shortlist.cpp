@@ -41,8 +41,8 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
       no_inputs.effects = row.effects;
       break;
     }
-  auto bench = row_candidate("benchmark: " + candidate_key(no_inputs.spec), no_inputs, search,
-                             config);
+  auto bench =
+      row_candidate("benchmark: " + candidate_key(no_inputs.spec), no_inputs, search, config);
   bench.benchmark = true;
   out.candidates.push_back(bench);
   out.candidates.push_back(seasonal_naive_candidate(out.options.season));

@@ -111,6 +111,26 @@ TEST(SearchOutliers, PlantedLevelShiftSharedByEveryShortlistedCandidate) {
   EXPECT_GT(std::abs(shift->statistic), o.critical);
 }
 
+TEST(SearchOutliers, SameResultOnOneAndTwoThreads) {
+  const SearchCase c = shift_case(31);
+  const SeriesData data = shifted(c, 5.0);
+  RunConfig one = outlier_config(c, 6);
+  one.search.threads = 1;
+  const RunConfig two = outlier_config(c, 6);
+  const SearchResult a = run_search(data, one, options_of(one));
+  const SearchResult b = run_search(data, two, options_of(two));
+  ASSERT_EQ(a.rows.size(), b.rows.size());
+  for (size_t i = 0; i < a.rows.size(); ++i) {
+    EXPECT_EQ(a.rows[i].key, b.rows[i].key);
+    EXPECT_EQ(a.rows[i].loglik, b.rows[i].loglik) << a.rows[i].key;
+    EXPECT_EQ(a.rows[i].effects, b.rows[i].effects);
+  }
+  ASSERT_TRUE(a.outliers && b.outliers);
+  ASSERT_EQ(a.outliers->effects.size(), b.outliers->effects.size());
+  for (size_t i = 0; i < a.outliers->effects.size(); ++i)
+    EXPECT_EQ(a.outliers->effects[i].size, b.outliers->effects[i].size);
+}
+
 TEST(SearchOutliers, OffWithoutTheSectionAndRowsUntouchedWhenNothingIsFound) {
   const SearchCase c = shift_case(32);
   const SeriesData data = simulate(testing::simulation_of(c));  // no effect planted
