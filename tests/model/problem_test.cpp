@@ -115,6 +115,26 @@ TEST(Problem, ConstantInputIsNamed) {
       << msg;
 }
 
+TEST(Problem, AZeroInputWithoutAConstantIsNamed) {
+  // An input that is zero but for its last row is not constant over the estimation sample, yet
+  // one step late it is zero at every row: a column with nothing before it to be a combination
+  // of (without a constant) once crashed the collinearity check.
+  auto d = base_data();
+  std::vector<double> pulse(80, 0.0);
+  pulse.back() = 5.0;
+  add_input(d, "pulse", pulse);
+  for (const bool constant : {false, true}) {
+    auto spec = spec_with({"pulse"}, constant);
+    spec.inputs[0].order.delay = 1;
+    const auto msg = message_of(d, spec);
+    EXPECT_NE(msg.find("input 'pulse' at lag 1 is zero at every row of the estimation sample"),
+              std::string::npos)
+        << msg;
+    EXPECT_NE(msg.find("leave it out, use another delay or check the column"), std::string::npos)
+        << msg;
+  }
+}
+
 TEST(Problem, LagsBeyondTheSeriesAreRefused) {
   const auto d = base_data();
   auto spec = spec_with({"a"}, true);
