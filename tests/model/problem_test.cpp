@@ -135,6 +135,19 @@ TEST(Problem, AZeroInputWithoutAConstantIsNamed) {
   }
 }
 
+TEST(Problem, AnInputTooLargeToComputeWithIsNamed) {
+  // Values near 1e200 square to beyond the largest double: the check cannot measure the column
+  // and says so instead of reading the overflow as collinearity.
+  auto d = base_data();
+  std::vector<double> huge(80);
+  for (int t = 0; t < 80; ++t) huge[t] = 1e200 * (1.0 + d.inputs[0][t]);
+  add_input(d, "huge", huge);
+  const auto msg = message_of(d, spec_with({"huge"}, true));
+  EXPECT_NE(msg.find("input 'huge' has values too large to compute with"), std::string::npos)
+      << msg;
+  EXPECT_NE(msg.find("rescale the column"), std::string::npos) << msg;
+}
+
 TEST(Problem, LagsBeyondTheSeriesAreRefused) {
   const auto d = base_data();
   auto spec = spec_with({"a"}, true);
