@@ -115,6 +115,39 @@ TEST(Problem, ConstantInputIsNamed) {
       << msg;
 }
 
+TEST(Problem, AZeroInputWithoutAConstantIsNamed) {
+  // An input that is zero but for its last row is not constant over the estimation sample, yet
+  // one step late it is zero at every row: a column with nothing before it to be a combination
+  // of (without a constant) once crashed the collinearity check.
+  auto d = base_data();
+  std::vector<double> pulse(80, 0.0);
+  pulse.back() = 5.0;
+  add_input(d, "pulse", pulse);
+  for (const bool constant : {false, true}) {
+    auto spec = spec_with({"pulse"}, constant);
+    spec.inputs[0].order.delay = 1;
+    const auto msg = message_of(d, spec);
+    EXPECT_NE(msg.find("input 'pulse' at lag 1 is zero at every row of the estimation sample"),
+              std::string::npos)
+        << msg;
+    EXPECT_NE(msg.find("leave it out, use another delay or check the column"), std::string::npos)
+        << msg;
+  }
+}
+
+TEST(Problem, AnInputTooLargeToComputeWithIsNamed) {
+  // Values near 1e200 square to beyond the largest double: the check cannot measure the column
+  // and says so instead of reading the overflow as collinearity.
+  auto d = base_data();
+  std::vector<double> huge(80);
+  for (int t = 0; t < 80; ++t) huge[t] = 1e200 * (1.0 + d.inputs[0][t]);
+  add_input(d, "huge", huge);
+  const auto msg = message_of(d, spec_with({"huge"}, true));
+  EXPECT_NE(msg.find("input 'huge' has values too large to compute with"), std::string::npos)
+      << msg;
+  EXPECT_NE(msg.find("rescale the column"), std::string::npos) << msg;
+}
+
 TEST(Problem, LagsBeyondTheSeriesAreRefused) {
   const auto d = base_data();
   auto spec = spec_with({"a"}, true);
