@@ -135,6 +135,7 @@ std::vector<ModelSpec> grid(bool seasonal) {
 
 struct GridTiming {
   int candidates = 0, failed = 0;
+  long evaluations = 0, starts = 0;
   double cpu = 0.0;
 };
 
@@ -145,6 +146,8 @@ GridTiming time_grid(const SeriesData& data, const std::vector<ModelSpec>& specs
   for (const auto& spec : specs) {
     const auto fit = fit_model(make_problem(data, spec), options);
     ++g.candidates;
+    g.evaluations += fit.evaluations;
+    g.starts += fit.starts;
     if (!fit.usable()) ++g.failed;
   }
   g.cpu = thread_cpu_seconds() - c0;
@@ -228,12 +231,14 @@ int run(int argc, char** argv) {
     const char* label = seasonal ? "seasonal" : "non_seasonal";
     fmt::print(
         "grid {:12s}: {:5d} candidates, {:6.3f} CPU s, {:7.0f} candidates per CPU second "
-        "({} failed)\n",
-        label, g.candidates, g.cpu, g.candidates / g.cpu, g.failed);
+        "({} failed; {:.0f} evaluations and {:.2f} starts per candidate)\n",
+        label, g.candidates, g.cpu, g.candidates / g.cpu, g.failed,
+        double(g.evaluations) / g.candidates, double(g.starts) / g.candidates);
     j["grid"][label] = {{"candidates", g.candidates},
                         {"cpu_seconds", g.cpu},
                         {"per_cpu_second", g.candidates / g.cpu},
-                        {"failed", g.failed}};
+                        {"failed", g.failed},
+                        {"evaluations_per_candidate", double(g.evaluations) / g.candidates}};
   }
   if (!json_path.empty()) std::ofstream(json_path) << j.dump(2) << '\n';
   return 0;
