@@ -194,16 +194,15 @@ HtmlSection performance(const Fields& f, const json& doc) {
         levels.push_back(std::stod(k.substr(9)) / 100.0);
   HtmlTable t;
   t.caption = "Accuracy by horizon: now and at training time";
-  t.columns = {{"Steps ahead", "", NumberFormat::automatic, 0},
+  t.columns = {{"Steps", "", NumberFormat::automatic, 0},
                {"Forecasts", "", NumberFormat::automatic, 0},
-               {"Mean abs. error", "target units", NumberFormat::automatic, 3},
+               {"MAE", "target units", NumberFormat::automatic, 3},
                {"MASE now", "", NumberFormat::fixed, 3},
-               {"MASE at training", "", NumberFormat::fixed, 3},
-               {"Ratio", "now / then", NumberFormat::fixed, 2}};
+               {"MASE then", "", NumberFormat::fixed, 3},
+               {"Ratio", "", NumberFormat::fixed, 2}};
   for (double l : levels)
-    t.columns.push_back(
-        {fmt::format("Inside {} interval", pct(l)), "now / then", NumberFormat::automatic, 0});
-  t.columns.push_back({"p (worse than then)", "", NumberFormat::p_value, 3});
+    t.columns.push_back({fmt::format("In {}", pct(l)), "now / then", NumberFormat::automatic, 0});
+  t.columns.push_back({"p worse", "", NumberFormat::p_value, 3});
   std::vector<std::string> notes;
   for (size_t i = 0; i < rows.size(); ++i) {
     const json& r = rows[i];
