@@ -229,10 +229,10 @@ HtmlSection performance(const Fields& f, const json& doc) {
     t.rows.push_back(std::move(row));
   }
   t.note =
-      "MASE: mean absolute error scaled by the in-sample seasonal naive error, so 1 means as good "
-      "as "
-      "repeating last season. p: one-sided test that the new rows' error exceeds the training-time "
-      "one.";
+      "Steps: steps ahead. MAE: mean absolute error. MASE: the absolute error scaled by the "
+      "in-sample seasonal naive error (1 = as good as repeating last season); then = the "
+      "training-time backtest. In 80%: share of actual values inside the 80% interval. p worse: "
+      "one-sided test that the new rows' error exceeds the training-time one.";
   if (!notes.empty()) {
     t.note += " Not tested: ";
     for (size_t i = 0; i < notes.size(); ++i) t.note += (i ? "; " : "") + notes[i];
@@ -306,7 +306,7 @@ HtmlSection residuals(const Fields& f, const json& doc) {
   t.rows.push_back(
       {text(fmt::format("Autocorrelation (Ljung-Box, {} lags, {} df)",
                         f.integer(r, "ljung_box_lag", p), f.integer(r, "ljung_box_df", p))),
-       text(""), num(q),
+       TableValue{}, num(q),
        std::isfinite(q) ? num(f.number(r, "ljung_box_p", p))
                         : text("not tested: too few errors for the lags"),
        text("the model misses dynamics of the new rows")});
@@ -375,8 +375,8 @@ HtmlSection challengers(const Fields& f, const json& doc) {
   for (size_t i = 0; i < untested.size(); ++i) {
     const std::string up = fmt::format("{}untested_horizons[{}].", p, i);
     t.rows.push_back({whole(f.integer(untested[i], "horizon", up)),
-                      whole(f.integer(untested[i], "pairs", up)), text(""), text("not tested"),
-                      text(""), text("not tested")});
+                      whole(f.integer(untested[i], "pairs", up)), TableValue{}, text("not tested"),
+                      TableValue{}, text("not tested")});
   }
   std::sort(t.rows.begin(), t.rows.end(), [](const auto& a, const auto& b) {
     return std::get<long long>(a[0]) < std::get<long long>(b[0]);
