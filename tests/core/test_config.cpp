@@ -159,7 +159,7 @@ TEST(Config, Messages) {
   EXPECT_EQ(error_of(h + "nois: {ar: 1}\n"),
             "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
             "data, target, differencing, inputs, events, noise, search, backtest, forecast, "
-            "outliers, output)");
+            "outliers, revalidate, output)");
   EXPECT_EQ(error_of("data: {file: d.csv}\n"), "/cfg/dir/config.yaml:1: missing section `target`");
   EXPECT_EQ(error_of("data: {file: d.csv}\ntarget: {column: y, columns: [a]}\n"),
             "/cfg/dir/config.yaml:2: target: give either `column` (one series) or `columns` (a "

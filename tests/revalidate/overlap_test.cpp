@@ -11,6 +11,7 @@
 
 #include "core/error.h"
 #include "forecast/model_file.h"
+#include "io/config.h"
 #include "revalidate/overlap.h"
 #include "revalidate/revalidate.h"
 #include "revalidate_test_util.h"
@@ -90,6 +91,22 @@ TEST(RevalidateCadence, TheMinimumOfNewRowsIsAnOption) {
       std::string::npos);
   o.min_new_rows = 0;
   EXPECT_NE(message_of(s.model, s.data, s.config, o).find("must be at least 1"), std::string::npos);
+}
+
+TEST(RevalidateCadence, TheMinimumIsReadFromTheConfig) {
+  const std::string base = "data: {file: d.csv}\ntarget: {column: y}\n";
+  EXPECT_EQ(parse_config(base, "c.yaml").revalidate.min_new_rows, 1);
+  EXPECT_EQ(
+      parse_config(base + "revalidate: {min_new_rows: 3}\n", "c.yaml").revalidate.min_new_rows, 3);
+  for (const std::string bad : {"revalidate: {min_new_rows: 0}\n", "revalidate: {min_rows: 2}\n"}) {
+    try {
+      parse_config(base + bad, "c.yaml");
+      ADD_FAILURE() << bad;
+    } catch (const InputError& e) {
+      EXPECT_NE(std::string(e.what()).find("c.yaml:3"), std::string::npos) << e.what();
+      EXPECT_NE(std::string(e.what()).find("revalidate"), std::string::npos) << e.what();
+    }
+  }
 }
 
 TEST(RevalidateCadence, ARollingExtractGivesTheSameResultAsTheWholeFile) {
