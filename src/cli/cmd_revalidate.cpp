@@ -33,13 +33,17 @@ struct RevalidateArgs {
   std::optional<int> threads;
   double alpha = 0.05;
   double drift_threshold = 3.0;
+  std::optional<int> min_new_rows;  // default: the config's revalidate.min_new_rows (1)
 };
 
 int exit_code(Verdict v) {
   switch (v) {
-    case Verdict::keep: return kExitOk;
-    case Verdict::refit: return kExitRefitAdvised;
-    case Verdict::replace: return kExitReplaceAdvised;
+    case Verdict::keep:
+      return kExitOk;
+    case Verdict::refit:
+      return kExitRefitAdvised;
+    case Verdict::replace:
+      return kExitReplaceAdvised;
   }
   return kExitInternal;
 }
@@ -58,14 +62,16 @@ int run_revalidate(const RevalidateArgs& args) {
     targets += (targets.empty() ? "" : ", ") + s.target_name;
   }
   if (!data)
-    throw InputError(fmt::format("{}: the model was trained on target '{}', which {} does not load "
-                                 "(its targets: {}); name that column under target",
-                                 args.model, model.training.target_column, args.config, targets));
+    throw InputError(
+        fmt::format("{}: the model was trained on target '{}', which {} does not load "
+                    "(its targets: {}); name that column under target",
+                    args.model, model.training.target_column, args.config, targets));
 
   RevalidateOptions options;
   options.allow_revised_history = args.allow_revised_history;
   options.alpha = args.alpha;
   options.drift_threshold = args.drift_threshold;
+  options.min_new_rows = args.min_new_rows.value_or(run.config.revalidate.min_new_rows);
   options.threads = checked_threads(args.threads, run.config.search.threads);
   options.progress = progress_printer(args.quiet, data->target_name + " challengers");
   const RevalidationResult r = revalidate(model, *data, run.config, options);
@@ -78,7 +84,8 @@ int run_revalidate(const RevalidateArgs& args) {
   if (r.refit_model) save_model(out / kRefitModelFile, *r.refit_model);
   if (r.challenger_model) save_model(out / kChallengerModelFile, *r.challenger_model);
   write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(r.search.rows, run.config));
-  write_file_atomic(out / run_files::kLeaderboardJson, leaderboard_json(r.search.rows, run.config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kLeaderboardJson,
+                    leaderboard_json(r.search.rows, run.config).dump(2) + "\n");
   write_file_atomic(out / run_files::kBacktest, backtest_csv(r.comparison));
   write_file_atomic(out / run_files::kAccuracy, accuracy_csv(r.comparison));
   write_file_atomic(out / run_files::kComparisons, comparisons_csv(r.comparison));
@@ -103,22 +110,30 @@ int run_revalidate(const RevalidateArgs& args) {
 }  // namespace
 
 void register_revalidate(CLI::App& app) {
-  auto* cmd = app.add_subcommand(
-      "revalidate",
-      "Re-check a deployed model on the rows after its training data and against fresh challengers; "
-      "exit 0 keep, 10 refit advised, 11 replace advised, 2 bad input");
+  auto* cmd = app.add_subcommand("revalidate",
+                                 "Re-check a deployed model on the rows after its training data "
+                                 "and against fresh challengers; "
+                                 "exit 0 keep, 10 refit advised, 11 replace advised, 2 bad input");
   auto args = std::make_shared<RevalidateArgs>();
-  cmd->add_option("MODEL", args->model, "The deployed model file (JSON from fit --save or search)")->required();
-  cmd->add_option("CONFIG", args->config, "Run configuration (YAML) whose data hold the training rows and the new ones")
+  cmd->add_option("MODEL", args->model, "The deployed model file (JSON from fit --save or search)")
       ->required();
-  cmd->add_option("--out", args->out, "Output folder (default: <output.dir of the config>/revalidation)");
+  cmd->add_option("CONFIG", args->config,
+                  "Run configuration (YAML) whose data hold the training rows and the new ones")
+      ->required();
+  cmd->add_option("--out", args->out,
+                  "Output folder (default: <output.dir of the config>/revalidation)");
   cmd->add_flag("--allow-revised-history", args->allow_revised_history,
                 "Go on when the training rows differ from the data the model was trained on");
   cmd->add_flag("--json", args->json, "Print the JSON summary instead of the readable one");
   cmd->add_flag("--quiet", args->quiet, "No progress on stderr");
-  cmd->add_option("--threads", args->threads, "Worker threads (default: search.threads; 0 = all cores)");
+  cmd->add_option("--threads", args->threads,
+                  "Worker threads (default: search.threads; 0 = all cores)");
   cmd->add_option("--alpha", args->alpha, "False-alarm level of a verdict other than keep")
       ->capture_default_str();
+  cmd->add_option(
+      "--min-new-rows", args->min_new_rows,
+      "Fewest new observed target values to re-validate on (default: revalidate.min_new_rows "
+      "of the config, else 1; few values give a verdict with a thin-evidence note)");
   cmd->add_option("--drift-threshold", args->drift_threshold,
                   "Flag a parameter that moved more than this many original standard errors")
       ->capture_default_str();

@@ -136,6 +136,15 @@ struct OutliersConfig {
   double decay = 0.7;     // delta of the temporary change's decay delta^(t - T)
 };
 
+// `revalidate:` at the top level: settings of `lagsieve revalidate` that belong with the data's
+// cadence (see README, Re-validation).
+struct RevalidateConfig {
+  // Fewest new observed target values a re-validation accepts. 1 by default: a monthly series
+  // re-checked every month has one new value; the tests that need more rows say "not tested" and
+  // the verdict says that the evidence is thin.
+  int min_new_rows = 1;
+};
+
 struct OutputConfig {
   std::filesystem::path dir = "runs/out";   // resolved relative to the config file
 };
@@ -152,6 +161,7 @@ struct RunConfig {
   FitConfig fit;
   ForecastConfig forecast;
   OutliersConfig outliers;
+  RevalidateConfig revalidate;
   OutputConfig output;
   // Seasonal terms used without a period: the period is the one the data's frequency suggests
   // (apply_seasonal_default in data/load.h fills it in and says so in `seasonal_note`).

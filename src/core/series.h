@@ -29,6 +29,12 @@ struct SeriesData {
   // 1 where the target value was not observed but filled (interpolate); empty when none was.
   // Such values are never scored as data.
   std::vector<unsigned char> target_filled;
+  // The same per input (index as `inputs`); the list or an input's entry is empty when none of
+  // its values was filled. Re-validation tells a filled value from a revised one by it.
+  std::vector<std::vector<unsigned char>> input_filled;
+  bool input_was_filled(size_t input, int t) const {
+    return input < input_filled.size() && !input_filled[input].empty() && input_filled[input][t];
+  }
   struct InsertedGap {
     int row = 0;    // first inserted row (0-based, in the rows above)
     int count = 0;  // periods inserted
@@ -67,6 +73,9 @@ inline SeriesData slice_rows(const SeriesData& data, int from, int to) {
   s.seasonal_hint = data.seasonal_hint;
   if (!data.target_filled.empty())
     s.target_filled.assign(data.target_filled.begin() + from, data.target_filled.begin() + to);
+  for (const auto& f : data.input_filled)
+    s.input_filled.push_back(f.empty() ? std::vector<unsigned char>()
+                                       : std::vector<unsigned char>(f.begin() + from, f.begin() + to));
   s.target.assign(data.target.begin() + from, data.target.begin() + to);
   if (!data.time.empty()) s.time.assign(data.time.begin() + from, data.time.begin() + to);
   for (const auto& u : data.inputs) s.inputs.emplace_back(u.begin() + from, u.begin() + to);

@@ -75,8 +75,10 @@ std::string list_rows(const CsvTable& table, const RowMap& map, const std::vecto
 
 // Reads a numeric column onto the series rows; missing cells (and inserted rows) become NaN and
 // are then left (skip, target only), filled linearly (interpolate) or refused (error).
+// `filled` receives 1 per row filled by interpolation (left empty when none was).
 std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int col, bool is_target,
-                                 MissingPolicy policy, SeriesData& s) {
+                                 MissingPolicy policy, SeriesData& s,
+                                 std::vector<unsigned char>& filled) {
   const auto& name = table.header[col];
   const std::string role = is_target ? "target" : "input";
   const int n = static_cast<int>(map.table_row.size());
@@ -139,7 +141,7 @@ std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int c
         is_target ? " (or use `data.missing: skip`, which forecasts from the last observed "
                     "value)"
                   : ""));
-  if (is_target) s.target_filled.assign(static_cast<size_t>(n), 0);
+  filled.assign(static_cast<size_t>(n), 0);
   for (size_t i = 0; i < missing.size();) {
     const int lo = missing[i] - 1;  // last observed before the gap
     size_t j = i;
@@ -148,7 +150,7 @@ std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int c
     for (int r = lo + 1; r < hi; ++r) {
       const double w = static_cast<double>(r - lo) / static_cast<double>(hi - lo);
       v[r] = (1.0 - w) * v[lo] + w * v[hi];
-      if (is_target) s.target_filled[r] = 1;
+      filled[r] = 1;
     }
     s.interpolated += hi - lo - 1;
     fill.interpolated += hi - lo - 1;
@@ -354,7 +356,7 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
   }
 
   const int yc = find_column(table, target_column, "the target in " + cfg);
-  s.target = read_numeric(table, map, yc, true, config.data.missing, s);
+  s.target = read_numeric(table, map, yc, true, config.data.missing, s, s.target_filled);
   if (s.fills.empty()) s.fills.push_back({target_column, true, 0, 0});
   if (is_constant(s.target))
     throw InputError(
@@ -374,6 +376,7 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
   for (const auto& in : config.inputs) {
     const auto what = fmt::format("input '{}' ({}:{})", in.name, cfg, in.line);
     std::vector<double> values;
+    std::vector<unsigned char> filled;
     if (in.is_event) {
       values = event_column(in, s.time, s.rows(), cfg, s.time_format);
     } else {
@@ -381,7 +384,7 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
         throw InputError(fmt::format("{}:{}: input '{}' is the time column; it cannot be an input",
                                      cfg, in.line, in.name));
       const int c = find_column(table, in.name, "an input in " + cfg);
-      values = read_numeric(table, map, c, false, config.data.input_policy(), s);
+      values = read_numeric(table, map, c, false, config.data.input_policy(), s, filled);
     }
     if (is_constant(values))
       throw InputError(fmt::format(
@@ -391,6 +394,10 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
           in.is_event ? "or move `at` inside the data" : "or check the column"));
     s.input_names.push_back(in.name);
     s.inputs.push_back(std::move(values));
+    if (!filled.empty()) {
+      s.input_filled.resize(s.inputs.size());
+      s.input_filled.back() = std::move(filled);
+    }
   }
   if (config.differencing_period_from_data || config.noise_period_from_data) {
     RunConfig resolved = config;

@@ -1,8 +1,8 @@
 #include "forecast/fitted_model.h"
 
 #include <cmath>
-#include <cstdint>
 #include <fmt/format.h>
+#include <cstdint>
 #include <fstream>
 #include <limits>
 #include <sstream>
@@ -39,6 +39,25 @@ std::string data_fingerprint(const SeriesData& data, int rows,
   return text_fingerprint(text);
 }
 
+TrainingRows training_rows(const SeriesData& data, const std::vector<std::string>& input_names) {
+  TrainingRows out;
+  out.time = data.time;
+  out.time.resize(static_cast<size_t>(data.rows()));
+  out.columns.push_back(data.target_name);
+  out.values.push_back(data.target);
+  out.filled.push_back(data.target_filled);
+  for (const auto& name : input_names) {
+    const int index = data.input_index(name);
+    if (index < 0) continue;
+    out.columns.push_back(name);
+    out.values.push_back(data.inputs[index]);
+    out.filled.push_back(static_cast<size_t>(index) < data.input_filled.size()
+                             ? data.input_filled[index]
+                             : std::vector<unsigned char>());
+  }
+  return out;
+}
+
 InputModel fit_input_model(const std::string& name, const std::vector<double>& input,
                            const Differencing& diff, std::optional<int> p, std::optional<int> q) {
   LikelihoodProblem problem;
@@ -67,9 +86,10 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
       best.aic = fit.aic;
     }
   if (!std::isfinite(best.aic))
-    throw InputError(fmt::format("input '{}': its own ARMA model could not be fitted (too few "
-                                 "observations or a constant series)",
-                                 name));
+    throw InputError(
+        fmt::format("input '{}': its own ARMA model could not be fitted (too few "
+                    "observations or a constant series)",
+                    name));
   best.chosen_by_aic = !given;
   // Small-sample bias of an AR(1) with unknown mean: E[phi_hat] - phi = -(1 + 3 phi) / n + O(n^-2)
   // for the least-squares estimate (Kendall 1954, Biometrika 41; Marriott & Pope 1954,
@@ -92,8 +112,8 @@ InputModel fit_input_model(const std::string& name, const std::vector<double>& i
   return best;
 }
 
-FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
-                              const SeriesData& data, const std::vector<OutlierEffect>& effects) {
+FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config, const SeriesData& data,
+                              const std::vector<OutlierEffect>& effects) {
   FittedModel model;
   model.spec = fit.spec;
   model.params = fit.params;
@@ -127,9 +147,8 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
       use.known_steps = ic.known_steps;
       if (!ic.is_event && ic.future == FutureMode::forecast) {
         const int index = data.input_index(term.name);
-        model.input_models.push_back(fit_input_model(term.name, data.inputs[index],
-                                                     fit.spec.differencing, ic.own_model.p,
-                                                     ic.own_model.q));
+        model.input_models.push_back(fit_input_model(
+            term.name, data.inputs[index], fit.spec.differencing, ic.own_model.p, ic.own_model.q));
       }
     }
     model.inputs.push_back(use);
@@ -150,6 +169,7 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
   for (const auto& ic : config.inputs)
     if (!ic.is_event) all_columns.push_back(ic.name);
   tr.fingerprint = data_fingerprint(data, data.rows(), all_columns);
+  tr.data = training_rows(data, all_columns);
   tr.config_file = config.config_file.string();
   if (std::ifstream in(config.config_file); in) {
     std::stringstream text;

@@ -135,6 +135,63 @@ class Reader {
 
 }  // namespace
 
+namespace {
+
+// training.data: {"time": [...], "columns": [{"name", "values" (null = missing), "filled_rows"
+// (1-based, rows filled by interpolation)}]}; values keep full precision (shortest round trip).
+json training_rows_json(const TrainingRows& d) {
+  json j = {{"time", d.time}, {"columns", json::array()}};
+  for (size_t c = 0; c < d.columns.size(); ++c) {
+    json values = json::array();
+    for (double v : d.values[c]) values.push_back(number_or_null(v));
+    json filled = json::array();
+    for (int t = 0; t < d.rows(); ++t)
+      if (d.was_filled(c, t)) filled.push_back(t + 1);
+    j["columns"].push_back({{"name", d.columns[c]}, {"values", values}, {"filled_rows", filled}});
+  }
+  return j;
+}
+
+TrainingRows training_rows_from_json(const Reader& r, const json& j, int rows) {
+  const std::string path = "training.data.";
+  if (!j.is_object()) r.fail("training.data", "must be an object (or absent)");
+  TrainingRows d;
+  d.time = r.texts(j, "time", path);
+  if (static_cast<int>(d.time.size()) != rows)
+    r.fail(path + "time",
+           fmt::format("has {} stamps for the {} training rows", d.time.size(), rows));
+  const json& cols = r.list(j, "columns", path);
+  if (cols.empty()) r.fail(path + "columns", "is empty; it holds at least the target");
+  for (size_t c = 0; c < cols.size(); ++c) {
+    const std::string cp = fmt::format("{}columns[{}].", path, c);
+    d.columns.push_back(r.text(cols[c], "name", cp));
+    const json& vj = r.list(cols[c], "values", cp);
+    if (static_cast<int>(vj.size()) != rows)
+      r.fail(cp + "values", fmt::format("has {} values for the {} training rows", vj.size(), rows));
+    std::vector<double> values;
+    for (size_t t = 0; t < vj.size(); ++t)
+      values.push_back(vj[t].is_null() ? std::nan("")
+                                       : r.finite(vj[t], fmt::format("{}values[{}]", cp, t)));
+    d.values.push_back(std::move(values));
+    std::vector<unsigned char> filled;
+    if (cols[c].contains("filled_rows")) {
+      const json& fj = r.list(cols[c], "filled_rows", cp);
+      if (!fj.empty()) filled.assign(static_cast<size_t>(rows), 0);
+      for (size_t k = 0; k < fj.size(); ++k) {
+        const std::string fp = fmt::format("{}filled_rows[{}]", cp, k);
+        if (!fj[k].is_number_integer() || fj[k].get<long long>() < 1 ||
+            fj[k].get<long long>() > rows)
+          r.fail(fp, fmt::format("must be a row number from 1 to {}", rows));
+        filled[static_cast<size_t>(fj[k].get<long long>() - 1)] = 1;
+      }
+    }
+    d.filled.push_back(std::move(filled));
+  }
+  return d;
+}
+
+}  // namespace
+
 json to_json(const FittedModel& m) {
   json doc;
   doc["format"] = kModelFormat;
@@ -187,7 +244,8 @@ json to_json(const FittedModel& m) {
   json cov = json::array();
   for (Eigen::Index i = 0; i < m.covariance.rows(); ++i) {
     json row = json::array();
-    for (Eigen::Index j = 0; j < m.covariance.cols(); ++j) row.push_back(number_or_null(m.covariance(i, j)));
+    for (Eigen::Index j = 0; j < m.covariance.cols(); ++j)
+      row.push_back(number_or_null(m.covariance(i, j)));
     cov.push_back(row);
   }
   doc["covariance"] = {{"names", m.param_names}, {"matrix", cov}};
@@ -211,16 +269,22 @@ json to_json(const FittedModel& m) {
                                    {"chosen_by_aic", im.chosen_by_aic},
                                    {"covariance", icov}});
   }
-  doc["fit"] = {{"loglik", m.loglik}, {"aic", m.aic},           {"aicc", number_or_null(m.aicc)},
-                {"bic", m.bic},       {"n_obs", m.n_obs},       {"n_params", m.n_params},
+  doc["fit"] = {{"loglik", m.loglik}, {"aic", m.aic},          {"aicc", number_or_null(m.aicc)},
+                {"bic", m.bic},       {"n_obs", m.n_obs},      {"n_params", m.n_params},
                 {"start", m.start},   {"status", m.fit_status}};
   const auto& tr = m.training;
-  doc["training"] = {{"source_file", tr.source_file}, {"target_column", tr.target_column},
-                     {"rows", tr.rows},               {"first_time", tr.first_time},
-                     {"last_time", tr.last_time},     {"frequency", tr.frequency},
-                     {"time_format", tr.time_format}, {"missing_target", tr.missing_target},
-                     {"fingerprint", tr.fingerprint}, {"config_file", tr.config_file},
+  doc["training"] = {{"source_file", tr.source_file},
+                     {"target_column", tr.target_column},
+                     {"rows", tr.rows},
+                     {"first_time", tr.first_time},
+                     {"last_time", tr.last_time},
+                     {"frequency", tr.frequency},
+                     {"time_format", tr.time_format},
+                     {"missing_target", tr.missing_target},
+                     {"fingerprint", tr.fingerprint},
+                     {"config_file", tr.config_file},
                      {"config_text", tr.config_text}};
+  if (!tr.data.empty()) doc["training"]["data"] = training_rows_json(tr.data);
   doc["backtest"] = m.backtest;
   return doc;
 }
@@ -273,8 +337,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     }
     // Detected effects (files without the field, older ones included, have none).
     if (e.contains("detected"))
-      use.effect = effect_from_json(e["detected"], fmt::format("{}: model file '{}detected'",
-                                                               source, path));
+      use.effect =
+          effect_from_json(e["detected"], fmt::format("{}: model file '{}detected'", source, path));
     m.spec.inputs.push_back(term);
     m.inputs.push_back(use);
   }
@@ -330,9 +394,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
     im.chosen_by_aic = r.boolean(e, "chosen_by_aic", path);
     // Optional (files written before it existed, or an input model fitted without standard
     // errors: an empty list): a square matrix over phi, theta and the mean.
-    const bool has_covariance =
-        e.contains("covariance") && !e["covariance"].is_null() &&
-        !(e["covariance"].is_array() && e["covariance"].empty());
+    const bool has_covariance = e.contains("covariance") && !e["covariance"].is_null() &&
+                                !(e["covariance"].is_array() && e["covariance"].empty());
     if (has_covariance) {
       const json& ic = r.list(e, "covariance", path);
       // Square; that it is (p + q + 1) wide is checked with the orders (model_checks).
@@ -344,8 +407,7 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
           r.fail(row, fmt::format("must be a list of {} numbers (null where not estimated)", size));
         for (size_t j = 0; j < size; ++j)
           im.covariance(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
-              ic[i][j].is_null() ? std::nan("")
-                                 : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
+              ic[i][j].is_null() ? std::nan("") : r.finite(ic[i][j], fmt::format("{}[{}]", row, j));
       }
     }
     m.input_models.push_back(im);
@@ -373,6 +435,8 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   tr.fingerprint = r.text(tj2, "fingerprint", "training.");
   tr.config_file = r.text(tj2, "config_file", "training.");
   tr.config_text = r.text(tj2, "config_text", "training.");
+  if (tj2.contains("data") && !tj2["data"].is_null())
+    tr.data = training_rows_from_json(r, tj2["data"], tr.rows);  // absent in older model files
   m.backtest = doc.contains("backtest") ? doc["backtest"] : json(nullptr);
   check_fitted_model(m, source);
   return m;
@@ -482,25 +546,31 @@ json fit_to_json(const FitResult& fit) {
   j["seconds"] = fit.seconds;
   j["params"] = json::array();
   for (const auto& e : fit.estimates)
-    j["params"].push_back({{"name", e.name}, {"value", e.value}, {"std_error", number_or_null(e.std_error)}});
+    j["params"].push_back(
+        {{"name", e.name}, {"value", e.value}, {"std_error", number_or_null(e.std_error)}});
   json d;
   d["ljung_box"] = json::array();
   for (const auto& lb : fit.diagnostics.ljung_box)
-    d["ljung_box"].push_back({{"lag", lb.lag}, {"df", lb.df}, {"statistic", lb.statistic}, {"p_value", lb.p_value}});
+    d["ljung_box"].push_back(
+        {{"lag", lb.lag}, {"df", lb.df}, {"statistic", lb.statistic}, {"p_value", lb.p_value}});
   d["gains"] = json::array();
   for (const auto& g : fit.diagnostics.gains)
-    d["gains"].push_back({{"input", g.input}, {"gain", number_or_null(g.gain)}, {"std_error", number_or_null(g.std_error)}});
+    d["gains"].push_back({{"input", g.input},
+                          {"gain", number_or_null(g.gain)},
+                          {"std_error", number_or_null(g.std_error)}});
   d["roots"] = json::array();
   for (const auto& r : fit.diagnostics.roots) {
     json roots = json::array();
     for (const auto& z : r.roots) roots.push_back({z.real(), z.imag()});
-    d["roots"].push_back({{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
+    d["roots"].push_back(
+        {{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
   }
   d["warnings"] = fit.diagnostics.warnings;
   if (!fit.diagnostics.residual_acf.empty()) {
     // Residual autocorrelation at lags 1..L with the approximate 2/sqrt(n) band.
     const auto& r = fit.diagnostics.residual_acf;
-    d["residual_acf"] = {{"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
+    d["residual_acf"] = {
+        {"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
     for (size_t k = 1; k <= r.size(); ++k) d["residual_acf"]["lags"].push_back(k);
   }
   // Residuals against each prewhitened input: lags -L..L (input at t-k against residual at t),

@@ -484,7 +484,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
                                  config_file.string()));
   rd.check_map(root, "",
                {"data", "target", "differencing", "inputs", "events", "noise", "search",
-                "backtest", "fit", "forecast", "outliers", "output"});
+                "backtest", "fit", "forecast", "outliers", "revalidate", "output"});
 
   RunConfig cfg;
   cfg.config_file = config_file;
@@ -529,6 +529,11 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
   if (const auto n = root["fit"]) read_fit(rd, n, cfg.fit);
   if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);
   if (const auto n = root["outliers"]) read_outliers(rd, n, cfg.outliers);
+  if (const auto n = root["revalidate"]) {
+    rd.check_map(n, "revalidate", {"min_new_rows"});
+    if (const auto m = n["min_new_rows"])
+      cfg.revalidate.min_new_rows = rd.get_int(m, "revalidate.min_new_rows", 1, 1000000);
+  }
   if (const auto n = root["output"]) {
     rd.check_map(n, "output", {"dir"});
     if (n["dir"]) cfg.output.dir = rd.get_string(n["dir"], "output.dir");

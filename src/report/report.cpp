@@ -21,6 +21,7 @@
 #include "model/spec_from_config.h"
 #include "report/effects_section.h"
 #include "report/html.h"
+#include "report/revalidation_page.h"
 #include "report/svg.h"
 #include "search/run_folder.h"
 
@@ -488,84 +489,6 @@ std::string humanise(std::string key) {
   std::replace(key.begin(), key.end(), '_', ' ');
   if (!key.empty()) key[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(key[0])));
   return key;
-}
-
-// ---- Verdict (revalidate) -------------------------------------------------------------------
-
-using ordered_json = nlohmann::ordered_json;
-
-void add_table_of_objects(HtmlSection& section, const std::string& caption, const ordered_json& array) {
-  std::vector<std::string> keys;
-  for (const auto& e : array)
-    for (const auto& [k, v] : e.items())
-      if (std::find(keys.begin(), keys.end(), k) == keys.end()) keys.push_back(k);
-  HtmlTable t;
-  t.caption = caption;
-  t.sortable = true;
-  for (const auto& k : keys) t.columns.push_back({humanise(k), "", NumberFormat::automatic, 3});
-  for (const auto& e : array) {
-    std::vector<TableValue> row;
-    for (const auto& k : keys) row.push_back(e.contains(k) ? json_cell(e[k]) : TableValue{});
-    t.rows.push_back(std::move(row));
-  }
-  section.blocks.push_back(std::move(t));
-}
-
-// `doc` keeps the file's key order, so generic tables show columns as the file lists them.
-HtmlSection verdict_section(const ordered_json& doc, const std::string& file) {
-  const JsonFile f(file);
-  const json plain = json::parse(doc.dump());
-  const std::string verdict = f.text(plain, "verdict", "");
-  if (verdict.empty()) f.fail("verdict", "is missing");
-  std::vector<std::string> reasons;
-  if (plain.contains("reasons")) reasons = f.texts(plain["reasons"], "reasons");
-  HtmlSection s;
-  s.heading = "Verdict";
-  Tone tone = Tone::neutral;
-  std::string meaning;
-  if (verdict == "keep") {
-    tone = Tone::good;
-    meaning = "the model in production still holds; keep it";
-  } else if (verdict == "refit") {
-    tone = Tone::warning;
-    meaning = "same model structure, new estimates: refit it on the recent data";
-  } else if (verdict == "replace") {
-    tone = Tone::bad;
-    meaning = "a challenger does better: replace the model";
-  }
-  s.intro = "Re-validation of the model file against new data and fresh challengers.";
-  s.blocks.push_back(HtmlNotice{tone, fmt::format("Verdict: {}", verdict),
-                                meaning.empty() ? std::string() : meaning + "."});
-  if (!reasons.empty()) {
-    HtmlTable t;
-    t.caption = "Why";
-    t.columns = {{"#", "", NumberFormat::automatic, 0}, {"Reason", "", NumberFormat::automatic, 3}};
-    for (size_t i = 0; i < reasons.size(); ++i)
-      t.rows.push_back({cell(static_cast<int>(i + 1)), cell(reasons[i])});
-    s.blocks.push_back(std::move(t));
-  }
-  // The rest of the file, generically: scalars as key/values, arrays of objects as tables.
-  HtmlKeyValues kv;
-  std::vector<std::pair<std::string, const ordered_json*>> tables;
-  for (const auto& [k, v] : doc.items()) {
-    if (k == "verdict" || k == "reasons") continue;
-    if (v.is_array() && !v.empty() && std::all_of(v.begin(), v.end(), [](const ordered_json& e) { return e.is_object(); })) {
-      tables.emplace_back(k, &v);
-    } else if (v.is_object()) {
-      for (const auto& [k2, v2] : v.items()) {
-        if (v2.is_array() && !v2.empty() &&
-            std::all_of(v2.begin(), v2.end(), [](const ordered_json& e) { return e.is_object(); }))
-          tables.emplace_back(k + " · " + k2, &v2);
-        else
-          kv.items.emplace_back(humanise(k) + " · " + humanise(k2), json_text(v2));
-      }
-    } else {
-      kv.items.emplace_back(humanise(k), json_text(v));
-    }
-  }
-  if (!kv.items.empty()) s.blocks.push_back(std::move(kv));
-  for (const auto& [name, arr] : tables) add_table_of_objects(s, humanise(name), *arr);
-  return s;
 }
 
 // ---- Run summary ----------------------------------------------------------------------------
@@ -1614,7 +1537,9 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
                                  criterion_label(run.leaderboard->criterion));
 
   if (run.revalidation)
-    page.sections.push_back(verdict_section(*run.revalidation, (run_dir / run_files::kRevalidation).string()));
+    for (auto& s : revalidation_sections(json::parse(run.revalidation->dump()),
+                                         (run_dir / run_files::kRevalidation).string()))
+      page.sections.push_back(std::move(s));
   std::string config_text;
   if (!run.series.empty()) page.sections.push_back(summary_section(run, config_text));
 

@@ -9,10 +9,12 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "evaluation/distributions.h"
 #include "io/config.h"
 #include "model/fit.h"
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
+#include "revalidate/overlap.h"
 #include "search/candidates.h"
 #include "revalidate/new_effects.h"
 #include "search/shortlist.h"
@@ -26,7 +28,9 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 // Index of each candidate in the new-period comparison backtest.
 constexpr size_t kDeployed = 0, kRefitted = 1, kChallenger = 2;
 
-std::string fmt_p(double p) { return p < 1e-4 ? fmt::format("{:.1e}", p) : fmt::format("{:.4f}", p); }
+std::string fmt_p(double p) {
+  return p < 1e-4 ? fmt::format("{:.1e}", p) : fmt::format("{:.4f}", p);
+}
 
 // Non-event input columns the training fingerprint covered: those of the config the model came
 // from (its text is in the model file), else the current config's.
@@ -34,10 +38,10 @@ std::vector<std::string> fingerprint_columns(const FittedModel& model, const Run
   std::vector<std::string> names;
   if (!model.training.config_text.empty()) {
     try {
-      const RunConfig trained = parse_config(model.training.config_text,
-                                             model.training.config_file.empty()
-                                                 ? config.config_file
-                                                 : std::filesystem::path(model.training.config_file));
+      const RunConfig trained = parse_config(
+          model.training.config_text, model.training.config_file.empty()
+                                          ? config.config_file
+                                          : std::filesystem::path(model.training.config_file));
       for (const auto& ic : trained.inputs)
         if (!ic.is_event) names.push_back(ic.name);
       return names;
@@ -50,33 +54,13 @@ std::vector<std::string> fingerprint_columns(const FittedModel& model, const Run
   return names;
 }
 
-HistoryCheck check_history(const FittedModel& model, const SeriesData& data, const RunConfig& config,
-                           const RevalidateOptions& options) {
+// The older rule, for model files without their training rows: the file starts at the training
+// start and its first training.rows rows have the training fingerprint and end stamp.
+void check_by_fingerprint(const FittedModel& model, const SeriesData& data, const RunConfig& config,
+                          const RevalidateOptions& options, HistoryCheck& h) {
   const TrainingInfo& tr = model.training;
-  HistoryCheck h;
-  h.source_file = data.source_file.empty() ? config.data.file.string() : data.source_file;
-  h.training_rows = tr.rows;
-  h.rows = data.rows();
-  h.new_rows = data.rows() - tr.rows;
-  h.training_first_time = tr.first_time;
-  h.training_last_time = tr.last_time;
-  h.expected_fingerprint = tr.fingerprint;
   const std::string range =
       tr.last_time.empty() ? "" : fmt::format(", {} to {}", tr.first_time, tr.last_time);
-  if (tr.rows < 1)
-    throw InputError("model file: training.rows is missing or 0; re-validation needs the training "
-                     "range a model file from fit --save or search records");
-  if (h.new_rows < kMinNewRows)
-    throw InputError(fmt::format(
-        "{}: {} rows of '{}', but the model was trained on the first {} rows{}; re-validation needs "
-        "at least {} new rows after them. Append the observations that arrived since training to "
-        "the data file and run again",
-        h.source_file, h.rows, data.target_name, tr.rows, range, kMinNewRows));
-  for (const auto& term : model.spec.inputs)
-    if (data.input_index(term.name) < 0)
-      throw InputError(fmt::format("{}: the model uses input '{}', which the config does not load; "
-                                   "add it to the config's inputs",
-                                   config.config_file.string(), term.name));
   const auto columns = fingerprint_columns(model, config);
   for (const auto& name : columns)
     if (data.input_index(name) < 0 && !options.allow_revised_history)
@@ -84,31 +68,117 @@ HistoryCheck check_history(const FittedModel& model, const SeriesData& data, con
           "{}: input '{}' was part of the data the model was trained on (its fingerprint covers "
           "it) but the config does not load it; add it back, or pass --allow-revised-history",
           config.config_file.string(), name));
-  h.found_fingerprint = data_fingerprint(data, tr.rows, columns);
-  if (!data.time.empty()) {
-    h.new_first_time = data.time[tr.rows];
-    h.new_last_time = data.time.back();
-  }
+  const bool starts_elsewhere =
+      !tr.first_time.empty() && !data.time.empty() && data.time.front() != tr.first_time;
+  if (data.rows() <= tr.rows && !starts_elsewhere) return;  // no new rows: said by the caller
+  if (data.rows() >= tr.rows) h.found_fingerprint = data_fingerprint(data, tr.rows, columns);
   std::string problem;
-  if (!tr.fingerprint.empty() && h.found_fingerprint != tr.fingerprint)
-    problem = fmt::format("the values differ (fingerprint {} in the model file, {} now)", tr.fingerprint,
-                          h.found_fingerprint);
+  if (starts_elsewhere)
+    problem = fmt::format("the first row is stamped '{}', the model's first training row '{}'",
+                          data.time.front(), tr.first_time);
+  else if (!tr.fingerprint.empty() && h.found_fingerprint != tr.fingerprint)
+    problem = fmt::format("the values differ (fingerprint {} in the model file, {} now)",
+                          tr.fingerprint, h.found_fingerprint);
   else if (!tr.last_time.empty() && !data.time.empty() && data.time[tr.rows - 1] != tr.last_time)
     problem = fmt::format("row {} is stamped '{}', the model's last training row '{}'", tr.rows,
                           data.time[tr.rows - 1], tr.last_time);
-  else if (!tr.first_time.empty() && !data.time.empty() && data.time.front() != tr.first_time)
-    problem = fmt::format("the first row is stamped '{}', the model's first training row '{}'",
-                          data.time.front(), tr.first_time);
   if (!problem.empty()) {
     if (!options.allow_revised_history)
       throw InputError(fmt::format(
           "{}: the first {} rows (the model's training range{}) are not the data the model was "
           "trained on: {}. The history was revised or the file does not start where the training "
-          "data did; check the file, or pass --allow-revised-history to re-validate anyway",
+          "data did (this model file predates stored training rows, so a rolling extract cannot "
+          "be lined up: re-fit or re-save it to get them); check the file, or pass "
+          "--allow-revised-history to re-validate anyway",
           h.source_file, tr.rows, range, problem));
     h.revised = true;
   }
-  return h;
+}
+
+// Checks the file against the training rows and returns the series to re-validate on: the file
+// itself, or (model files that hold their training rows) the training rows the file no longer
+// holds, then the file.
+SeriesData check_history(const FittedModel& model, const SeriesData& data, const RunConfig& config,
+                         const RevalidateOptions& options, HistoryCheck& h) {
+  const TrainingInfo& tr = model.training;
+  h.source_file = data.source_file.empty() ? config.data.file.string() : data.source_file;
+  h.training_rows = tr.rows;
+  h.file_rows = data.rows();
+  h.training_first_time = tr.first_time;
+  h.training_last_time = tr.last_time;
+  h.expected_fingerprint = tr.fingerprint;
+  if (tr.rows < 1)
+    throw InputError(
+        "model file: training.rows is missing or 0; re-validation needs the training "
+        "range a model file from fit --save or search records");
+  for (const auto& term : model.spec.inputs)
+    if (data.input_index(term.name) < 0)
+      throw InputError(
+          fmt::format("{}: the model uses input '{}', which the config does not load; "
+                      "add it to the config's inputs",
+                      config.config_file.string(), term.name));
+  SeriesData all;
+  if (!tr.data.empty() && tr.data.rows() == tr.rows) {
+    Overlap ov = line_up(tr.data, data, config, h.source_file);
+    h.checked_by_value = true;
+    h.first_training_row = ov.first_training_row;
+    h.prepended = ov.prepended;
+    h.dropped_leading = ov.dropped_leading;
+    h.overlap_rows = ov.overlap_rows;
+    h.late_values = ov.late_values;
+    h.refilled = ov.refilled;
+    h.revision_count = ov.revision_count;
+    for (const auto& r : ov.revisions) h.revisions.push_back(describe(r, h.source_file));
+    if (ov.revision_count > 0) {
+      if (!options.allow_revised_history)
+        throw InputError(fmt::format(
+            "{}: a training value was revised: {}{}. The model was fitted on the old value; check "
+            "the file, or pass --allow-revised-history to re-validate on the revised data",
+            h.source_file, h.revisions.front(),
+            ov.revision_count > 1 ? fmt::format(" ({} revised values in all)", ov.revision_count)
+                                  : ""));
+      h.revised = true;
+    }
+    all = std::move(ov.merged);
+  } else {
+    check_by_fingerprint(model, data, config, options, h);
+    all = data;
+  }
+  h.rows = all.rows();
+  h.new_rows = std::max(0, all.rows() - tr.rows);
+  if (h.found_fingerprint.empty() && all.rows() >= tr.rows)
+    h.found_fingerprint = data_fingerprint(all, tr.rows, fingerprint_columns(model, config));
+  // The ragged edge: scoring starts after the last target value observed at training.
+  int last_observed = std::min(tr.rows, all.rows()) - 1;
+  if (h.checked_by_value) {
+    const auto& y = tr.data.values[0];
+    last_observed = tr.rows - 1;
+    while (last_observed >= 0 &&
+           (std::isnan(y[last_observed]) || tr.data.was_filled(0, last_observed)))
+      --last_observed;
+  }
+  h.ragged_edge = tr.rows - 1 - last_observed;
+  h.first_scored_row = last_observed + 2;
+  for (int t = last_observed + 1; t < all.rows(); ++t) h.new_observed += all.observed(t) ? 1 : 0;
+  if (h.new_observed < options.min_new_rows) {
+    const std::string range =
+        tr.last_time.empty() ? "" : fmt::format(", {} to {}", tr.first_time, tr.last_time);
+    throw InputError(fmt::format(
+        "{}: {} rows of '{}'{}, but the model was trained on {} rows{}; re-validation needs at "
+        "least {} new observed target value{} after them and found {}. Append the observations "
+        "that arrived since training to the data file and run again{}",
+        h.source_file, data.rows(), data.target_name,
+        data.time.empty() || data.time.front().empty()
+            ? ""
+            : fmt::format(" ({} to {})", data.time.front(), data.time.back()),
+        tr.rows, range, options.min_new_rows, options.min_new_rows == 1 ? "" : "s", h.new_observed,
+        options.min_new_rows > 1 ? " (or lower revalidate.min_new_rows / --min-new-rows)" : ""));
+  }
+  if (h.new_rows > 0 && !all.time.empty()) {
+    h.new_first_time = all.time[tr.rows];
+    h.new_last_time = all.time.back();
+  }
+  return all;
 }
 
 // The training-time accuracy: the model file's, or the deployed structure backtested on the
@@ -144,9 +214,11 @@ std::vector<double> scaled_errors(const ForecastRecords& records, int horizon) {
   std::vector<const ForecastRecord*> rows;
   for (const auto& r : records.records)
     if (r.horizon == horizon) rows.push_back(&r);
-  std::sort(rows.begin(), rows.end(), [](const auto* a, const auto* b) { return a->origin < b->origin; });
+  std::sort(rows.begin(), rows.end(),
+            [](const auto* a, const auto* b) { return a->origin < b->origin; });
   std::vector<double> out;
-  for (const auto* r : rows) out.push_back(r->scale > 0.0 ? std::abs(r->actual - r->forecast) / r->scale : kNaN);
+  for (const auto* r : rows)
+    out.push_back(r->scale > 0.0 ? std::abs(r->actual - r->forecast) / r->scale : kNaN);
   return out;
 }
 
@@ -184,7 +256,8 @@ std::vector<ParameterDrift> parameter_drift(const FittedModel& model, const FitR
         d.refit_se = e.std_error;
       }
     d.change = d.refit - d.original;
-    d.change_in_se = std::isfinite(d.original_se) && d.original_se > 0.0 ? d.change / d.original_se : kNaN;
+    d.change_in_se =
+        std::isfinite(d.original_se) && d.original_se > 0.0 ? d.change / d.original_se : kNaN;
     d.flagged = std::isfinite(d.change_in_se) && std::abs(d.change_in_se) > threshold;
     out.push_back(d);
   }
@@ -210,7 +283,8 @@ ResidualCheck residual_checks(const FittedModel& model, const SeriesData& data, 
   const std::vector<double> r(all.end() - n, all.end());
   out.n = n;
   const int arma = arma_terms(model.spec);
-  const int lag = options.ljung_box_lag > 0 ? options.ljung_box_lag : std::max(std::min(10, n / 5), arma + 1);
+  const int lag =
+      options.ljung_box_lag > 0 ? options.ljung_box_lag : std::max(std::min(10, n / 5), arma + 1);
   out.ljung_box = ljung_box_check(r, lag, arma);
   out.mean_shift = mean_shift_check(r, model.spec.constant ? model.n_obs : 0);
   out.variance = variance_change_check(r, model.params.sigma2, model.n_obs - (model.n_params - 1));
@@ -286,10 +360,12 @@ PerformanceCheck performance_check(const ModelBacktest& deployed, const nlohmann
 void place_deployed(ChallengerCheck& c, const FittedModel& model, const SeriesData& data,
                     const RunConfig& config, const SearchResult& search) {
   c.deployed_key = candidate_key(model.spec);
-  if (!(model.spec.differencing == config.differencing) || !(model.spec.transform == config.target.transform)) {
+  if (!(model.spec.differencing == config.differencing) ||
+      !(model.spec.transform == config.target.transform)) {
     c.deployed_rank = 0;
-    c.note = "the deployed model's transform or differencing differs from the config's, so its "
-             "likelihood does not compare with the challengers'; no rank";
+    c.note =
+        "the deployed model's transform or differencing differs from the config's, so its "
+        "likelihood does not compare with the challengers'; no rank";
     return;
   }
   for (const auto& row : search.rows)
@@ -301,12 +377,15 @@ void place_deployed(ChallengerCheck& c, const FittedModel& model, const SeriesDa
   const CandidateRow row = fit_candidate(data, model.spec, search.start);
   if (!row.rankable()) {
     c.deployed_rank = 0;
-    c.note = "the deployed structure lies outside the config's grid and did not fit on the search's sample";
+    c.note =
+        "the deployed structure lies outside the config's grid and did not fit on the search's "
+        "sample";
     return;
   }
   int better = 0;
   for (const auto& other : search.rows)
-    if (other.rankable() && other.criterion(config.search.criterion) < row.criterion(config.search.criterion))
+    if (other.rankable() &&
+        other.criterion(config.search.criterion) < row.criterion(config.search.criterion))
       ++better;
   c.deployed_rank = better + 1;
   c.note = "the deployed structure lies outside the config's grid; ranked by the criterion alone";
@@ -314,13 +393,120 @@ void place_deployed(ChallengerCheck& c, const FittedModel& model, const SeriesDa
 
 std::string level_name(double level) { return fmt::format("{:g}", 100.0 * level); }
 
+NewPeriodView new_period_view(const SeriesData& data, const ModelBacktest& deployed,
+                              int first_origin) {
+  NewPeriodView v;
+  v.levels = deployed.production.levels;
+  std::vector<const ForecastRecord*> rows;
+  for (const auto& r : deployed.production.records)
+    if (r.horizon == 1) rows.push_back(&r);
+  std::sort(rows.begin(), rows.end(),
+            [](const auto* a, const auto* b) { return a->origin < b->origin; });
+  v.lower.assign(v.levels.size(), {});
+  v.upper.assign(v.levels.size(), {});
+  for (const auto* r : rows) {
+    const int row = r->origin + r->horizon - 1;  // 0-based row of the forecast value
+    v.rows.push_back(row + 1);
+    v.time.push_back(row < static_cast<int>(data.time.size()) ? data.time[row] : "");
+    v.actual.push_back(r->actual);
+    v.forecast.push_back(r->forecast);
+    for (size_t l = 0; l < v.levels.size(); ++l) {
+      v.lower[l].push_back(l < r->lower.size() ? r->lower[l] : kNaN);
+      v.upper[l].push_back(l < r->upper.size() ? r->upper[l] : kNaN);
+    }
+  }
+  // Context: as many history rows as three times the new stretch, 12 to 48.
+  const int context = std::clamp(3 * static_cast<int>(rows.size()), 12, 48);
+  for (int t = std::max(0, first_origin - context); t < first_origin; ++t) {
+    v.context_rows.push_back(t + 1);
+    v.context_time.push_back(t < static_cast<int>(data.time.size()) ? data.time[t] : "");
+    v.context_actual.push_back(data.observed(t) ? data.target[t] : kNaN);
+  }
+  return v;
+}
+
+// The one-sided 95% quantile of Student's t with `df` degrees of freedom (bisection on the cdf).
+double t_quantile_95(double df) {
+  double lo = 0.0, hi = 1000.0;
+  for (int i = 0; i < 200; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (student_t_cdf(mid, df) < 0.95 ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+std::string span_text(const std::vector<int>& h) {
+  if (h.empty()) return "";
+  if (h.size() == 1) return fmt::format("horizon {}", h.front());
+  bool consecutive = true;
+  for (size_t i = 1; i < h.size(); ++i) consecutive = consecutive && h[i] == h[i - 1] + 1;
+  if (consecutive) return fmt::format("horizons {} to {}", h.front(), h.back());
+  std::string s = "horizons ";
+  for (size_t i = 0; i < h.size(); ++i) s += (i ? ", " : "") + std::to_string(h[i]);
+  return s;
+}
+
+EvidenceNote evidence_note(const RevalidationResult& r) {
+  EvidenceNote e;
+  e.new_values = r.residuals.n;
+  e.thin = e.new_values < kThinEvidenceRows;
+  std::vector<int> acc;
+  for (const auto& h : r.performance.by_horizon)
+    if (!std::isfinite(h.test.statistic)) acc.push_back(h.horizon);
+  if (!acc.empty())
+    e.not_tested.push_back(fmt::format(
+        "accuracy against training time at {} (the test needs at least 5 forecasts per horizon and "
+        "a training-time MASE)",
+        span_text(acc)));
+  if (!std::isfinite(r.residuals.ljung_box.statistic))
+    e.not_tested.push_back(
+        fmt::format("Ljung-Box (lag {} needs more than {} residuals and more lags "
+                    "than ARMA terms)",
+                    r.residuals.ljung_box.lag, r.residuals.ljung_box.lag));
+  if (!std::isfinite(r.residuals.mean_shift.statistic))
+    e.not_tested.push_back("the residual mean (needs at least 2 residuals with some spread)");
+  if (!std::isfinite(r.residuals.variance.ratio))
+    e.not_tested.push_back("the residual variance (needs at least 2 residuals)");
+  std::vector<int> dm;
+  for (const auto& u : r.challengers.untested) dm.push_back(u.horizon);
+  if (!dm.empty())
+    e.not_tested.push_back(fmt::format(
+        "the challenger comparison at {} (Diebold-Mariano needs h + 3 paired forecasts)",
+        span_text(dm)));
+  // Normal errors: |e| has coefficient of variation sqrt(pi / 2 - 1) = 0.755.
+  e.detectable_ratio =
+      e.new_values >= 2 ? 1.0 + t_quantile_95(e.new_values - 1.0) * 0.7555 / std::sqrt(e.new_values)
+                        : kNaN;
+  return e;
+}
+
+std::string thin_evidence_text(const EvidenceNote& e, Verdict verdict) {
+  std::string s = fmt::format("note: the evidence is thin: {} new one-step error{}", e.new_values,
+                              e.new_values == 1 ? "" : "s");
+  if (!e.not_tested.empty()) {
+    s += "; not tested for lack of rows: ";
+    for (size_t i = 0; i < e.not_tested.size(); ++i) s += (i ? "; " : "") + e.not_tested[i];
+  }
+  if (std::isfinite(e.detectable_ratio))
+    s += fmt::format(
+        ". With {} errors only forecast errors about {:.1f} times those at training "
+        "would stand out (one-sided 5%, normal errors)",
+        e.new_values, e.detectable_ratio);
+  s += verdict == Verdict::keep ? "; so keep means no alarm yet rather than confirmation"
+                                : "; the verdict rests on the tests that ran";
+  return s;
+}
+
 }  // namespace
 
 std::string_view to_string(Verdict v) {
   switch (v) {
-    case Verdict::keep: return "keep";
-    case Verdict::refit: return "refit";
-    case Verdict::replace: return "replace";
+    case Verdict::keep:
+      return "keep";
+    case Verdict::refit:
+      return "refit";
+    case Verdict::replace:
+      return "replace";
   }
   return "?";
 }
@@ -329,34 +515,45 @@ void RevalidateOptions::validate() const {
   if (!(alpha > 0.0 && alpha < 1.0))
     throw InputError(fmt::format("revalidate: alpha {} must lie strictly between 0 and 1", alpha));
   if (!(drift_threshold > 0.0) || !std::isfinite(drift_threshold))
-    throw InputError(fmt::format("revalidate: drift threshold {} must be a positive number of "
-                                 "standard errors",
-                                 drift_threshold));
+    throw InputError(
+        fmt::format("revalidate: drift threshold {} must be a positive number of "
+                    "standard errors",
+                    drift_threshold));
   if (ljung_box_lag < 0)
-    throw InputError(fmt::format("revalidate: Ljung-Box lag {} must be >= 0 (0 = automatic)", ljung_box_lag));
+    throw InputError(
+        fmt::format("revalidate: Ljung-Box lag {} must be >= 0 (0 = automatic)", ljung_box_lag));
   if (comparison_refit < 0)
-    throw InputError(fmt::format("revalidate: comparison refit interval {} must be >= 0", comparison_refit));
+    throw InputError(
+        fmt::format("revalidate: comparison refit interval {} must be >= 0", comparison_refit));
+  if (min_new_rows < 1)
+    throw InputError(
+        fmt::format("revalidate: the minimum of new rows {} must be at least 1 "
+                    "(revalidate.min_new_rows, --min-new-rows)",
+                    min_new_rows));
 }
 
-RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
+RevalidationResult revalidate(const FittedModel& model, const SeriesData& file_data,
                               const RunConfig& config, const RevalidateOptions& options) {
   options.validate();
-  const SeriesData data = with_model_effects(model, given);  // the model's detected effects
   const auto t0 = std::chrono::steady_clock::now();
   RevalidationResult out;
   out.alpha = options.alpha;
-  out.series = data.target_name;
+  out.series = file_data.target_name;
   out.deployed_label = model_label(model.spec);
-  out.history = check_history(model, data, config, options);
+  // From here on the full history: the file, or the training rows it lacks put back in front.
+  // The model's detected effects become columns again (new_effects.h).
+  const SeriesData data =
+      with_model_effects(model, check_history(model, file_data, config, options, out.history));
   const int threads = options.threads > 0 ? options.threads : config.search.threads;
 
   // Horizon and levels: the config's backtest section, else the model's own backtest, else 1.
   BacktestOptions o = backtest_options(config, data.rows());
   if (!config.backtest.enabled && model.backtest.is_object()) {
     o.horizon = model.backtest.value("horizon", o.horizon);
-    if (model.backtest.contains("levels")) o.levels = model.backtest["levels"].get<std::vector<double>>();
+    if (model.backtest.contains("levels"))
+      o.levels = model.backtest["levels"].get<std::vector<double>>();
   }
-  o.first_origin = model.training.rows;
+  o.first_origin = out.history.first_scored_row - 1;  // before the training rows end: ragged edge
   o.refit = options.comparison_refit > 0 ? options.comparison_refit
             : config.backtest.refit > 0  ? config.backtest.refit
                                          : 1;
@@ -393,12 +590,15 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
   BacktestCandidate refitted = candidate_from_model("deployed structure, re-fitted", model);
   refitted.fixed.reset();
   candidates.push_back(refitted);
-  if (ch.has_challenger) candidates.push_back(candidate_from_spec("challenger: " + ch.challenger_key, ch.challenger_spec, config));
+  if (ch.has_challenger)
+    candidates.push_back(
+        candidate_from_spec("challenger: " + ch.challenger_key, ch.challenger_spec, config));
   candidates.push_back(seasonal_naive_candidate(o.season));
   out.comparison = run_backtest(data, candidates, o);
   const auto& deployed = out.comparison.models[kDeployed];
   if (deployed.production.records.empty())
-    throw NumericalError(fmt::format("the deployed model gave no forecast on the new rows: {}", deployed.note));
+    throw NumericalError(
+        fmt::format("the deployed model gave no forecast on the new rows: {}", deployed.note));
 
   std::string source;
   const nlohmann::json baseline = baseline_accuracy(model, data, config, threads, source);
@@ -420,7 +620,7 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
   }
 
   // 3. Residuals of the new period.
-  out.residuals = residual_checks(model, data, out.history.new_rows, options, deployed);
+  out.residuals = residual_checks(model, data, data.rows() - o.first_origin, options, deployed);
   // 3b. New effects in the new period (new_effects.h): a threshold rule, not one of the m tests.
   out.new_effects = new_effects_check(model, data, config.outliers);
 
@@ -439,7 +639,10 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
       DieboldMarianoOptions dmo;
       dmo.horizon = h;
       const auto a = paired_losses(deployed.production, chal.production, h, LossKind::squared);
-      if (static_cast<int>(a.loss_a.size()) <= h + 2) continue;
+      if (static_cast<int>(a.loss_a.size()) <= h + 2) {
+        ch.untested.push_back({h, static_cast<int>(a.loss_a.size())});
+        continue;
+      }
       cc.vs_deployed = diebold_mariano(a.loss_a, a.loss_b, dmo);
       cc.p_vs_deployed = one_sided(cc.vs_deployed);
       const auto b = paired_losses(refit_bt.production, chal.production, h, LossKind::squared);
@@ -462,9 +665,13 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
       out.challenger_model->backtest = accuracy_json(chal, o);
     }
   } else {
-    ch.note += (ch.note.empty() ? "" : "; ") + std::string("no challenger other than the deployed structure fitted");
+    ch.note += (ch.note.empty() ? "" : "; ") +
+               std::string("no challenger other than the deployed structure fitted");
   }
   out.comparison.comparisons = rows;
+
+  out.new_period = new_period_view(data, deployed, o.first_origin);
+  out.evidence = evidence_note(out);
 
   // 5. The verdict.
   int m = 0;
@@ -494,9 +701,11 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
           d.name, d.original, d.refit, d.change_in_se, options.drift_threshold));
   const auto& res = out.residuals;
   if (std::isfinite(res.ljung_box.statistic) && res.ljung_box.p_value < level)
-    refit_reasons.push_back(fmt::format(
-        "new-period residuals are autocorrelated: Ljung-Box Q = {:.2f} at lag {} (df {}), p = {} < {:.4f}",
-        res.ljung_box.statistic, res.ljung_box.lag, res.ljung_box.df, fmt_p(res.ljung_box.p_value), level));
+    refit_reasons.push_back(
+        fmt::format("new-period residuals are autocorrelated: Ljung-Box Q = {:.2f} at lag {} (df "
+                    "{}), p = {} < {:.4f}",
+                    res.ljung_box.statistic, res.ljung_box.lag, res.ljung_box.df,
+                    fmt_p(res.ljung_box.p_value), level));
   if (std::isfinite(res.mean_shift.statistic) && res.mean_shift.p_value < level)
     refit_reasons.push_back(fmt::format(
         "new-period residuals are off centre: mean {:.4g} (t = {:.2f}, p = {} < {:.4f})",
@@ -532,13 +741,15 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
       out.verdict = Verdict::replace;
       out.reasons.push_back(text);
       const auto& r = ch.by_horizon[best_ref];
-      out.reasons.push_back(fmt::format(
-          "and better than the deployed structure re-fitted at horizon {} (one-sided p = {} < {:.4f}), "
-          "so a re-fit alone would not catch up",
-          r.horizon, fmt_p(r.p_vs_refit), level));
+      out.reasons.push_back(
+          fmt::format("and better than the deployed structure re-fitted at horizon {} (one-sided p "
+                      "= {} < {:.4f}), "
+                      "so a re-fit alone would not catch up",
+                      r.horizon, fmt_p(r.p_vs_refit), level));
       for (auto& s : refit_reasons) out.reasons.push_back("also: " + s);
     } else {
-      refit_reasons.push_back(text + ", but not significantly better than the deployed structure re-fitted");
+      refit_reasons.push_back(
+          text + ", but not significantly better than the deployed structure re-fitted");
     }
   }
   if (out.verdict != Verdict::replace) {
@@ -552,14 +763,23 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& given,
           "parameter moved more than {:g} standard errors",
           m, level, options.alpha, std::max(m, 1), options.drift_threshold));
       if (ch.deployed_rank > 0)
-        out.reasons.push_back(fmt::format("the deployed structure ranks {} of {} in the fresh search ({})",
-                                          ch.deployed_rank, ch.candidates, ch.ranked_by));
+        out.reasons.push_back(
+            fmt::format("the deployed structure ranks {} of {} in the fresh search ({})",
+                        ch.deployed_rank, ch.candidates, ch.ranked_by));
     }
   }
+  if (out.evidence.thin) out.reasons.push_back(thin_evidence_text(out.evidence, out.verdict));
+  if (out.history.late_values > 0)
+    out.reasons.push_back(fmt::format(
+        "note: {} target value{} missing at training ({}) {} in now and {} scored as new",
+        out.history.late_values, out.history.late_values == 1 ? "" : "s",
+        out.history.ragged_edge > 0 ? "the ragged edge" : "gaps left out of the likelihood",
+        out.history.late_values == 1 ? "is" : "are", out.history.late_values == 1 ? "is" : "are"));
   if (out.history.revised)
-    out.reasons.push_back("note: the training rows differ from the data the model was trained on "
-                          "(allowed by --allow-revised-history); the comparison with training-time "
-                          "accuracy is less clean");
+    out.reasons.push_back(
+        "note: the training rows differ from the data the model was trained on "
+        "(allowed by --allow-revised-history); the comparison with training-time "
+        "accuracy is less clean");
   out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return out;
 }
@@ -582,43 +802,65 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
   j["series"] = r.series;
   j["deployed_model"] = r.deployed_label;
   j["exit_code_meaning"] = "0 keep, 10 refit advised, 11 replace advised";
-  j["decision"] = {{"alpha", r.alpha},
-                   {"tests", r.tests},
-                   {"level_per_test", r.alpha_per_test},
-                   {"drift_threshold_se", r.drift.threshold},
-                   {"rule",
-                    "replace: the best challenger beats the deployed model AND its re-fit "
-                    "(Diebold-Mariano, one-sided, each at level_per_test); refit: otherwise any "
-                    "degradation, residual or challenger test rejecting at level_per_test, or a "
-                    "parameter moving beyond drift_threshold_se original standard errors; keep: none "
-                    "of these. level_per_test = alpha / tests (Bonferroni)."}};
+  j["decision"] = {
+      {"alpha", r.alpha},
+      {"tests", r.tests},
+      {"level_per_test", r.alpha_per_test},
+      {"drift_threshold_se", r.drift.threshold},
+      {"rule",
+       "replace: the best challenger beats the deployed model AND its re-fit "
+       "(Diebold-Mariano, one-sided, each at level_per_test); refit: otherwise any "
+       "degradation, residual or challenger test rejecting at level_per_test, or a "
+       "parameter moving beyond drift_threshold_se original standard errors; keep: none "
+       "of these. level_per_test = alpha / tests (Bonferroni)."}};
   const auto& h = r.history;
-  j["history"] = {{"data_file", h.source_file},
-                  {"training_rows", h.training_rows},
-                  {"rows", h.rows},
-                  {"new_rows", h.new_rows},
-                  {"training_first_time", h.training_first_time},
-                  {"training_last_time", h.training_last_time},
-                  {"new_first_time", h.new_first_time},
-                  {"new_last_time", h.new_last_time},
-                  {"fingerprint_expected", h.expected_fingerprint},
-                  {"fingerprint_found", h.found_fingerprint},
-                  {"history_revised", h.revised}};
+  j["history"] = {
+      {"data_file", h.source_file},
+      {"training_rows", h.training_rows},
+      {"rows", h.rows},
+      {"new_rows", h.new_rows},
+      {"training_first_time", h.training_first_time},
+      {"training_last_time", h.training_last_time},
+      {"new_first_time", h.new_first_time},
+      {"new_last_time", h.new_last_time},
+      {"fingerprint_expected", h.expected_fingerprint},
+      {"fingerprint_found", h.found_fingerprint},
+      {"history_revised", h.revised},
+      {"file_rows", h.file_rows},
+      {"checked", h.checked_by_value ? "value by value against the training rows in the model file"
+                                     : "fingerprint of the first training rows (older model file)"},
+      {"first_training_row_in_file", h.first_training_row},
+      {"training_rows_prepended", h.prepended},
+      {"file_rows_before_training_start", h.dropped_leading},
+      {"overlap_rows", h.overlap_rows},
+      {"late_values", h.late_values},
+      {"filled_values_now_observed", h.refilled},
+      {"ragged_edge_rows", h.ragged_edge},
+      {"first_scored_row", h.first_scored_row},
+      {"new_observed_values", h.new_observed},
+      {"revised_values", h.revision_count},
+      {"revisions", h.revisions}};
   const auto& p = r.performance;
   json perf = {{"baseline", p.baseline_source},
-               {"first_origin_row", p.first_origin},
+               {"first_scored_row", p.first_origin + 1},
                {"origins", p.origins},
                {"score_new_rows", num(p.score)},
                {"score_training_time", num(p.baseline_score)},
-               {"test", "one-sided, new-period mean scaled error vs training-time MASE, "
-                        "long-run variance with h-1 lags, Student t (n-1 df)"}};
+               {"test",
+                "one-sided, new-period mean scaled error vs training-time MASE, "
+                "long-run variance with h-1 lags, Student t (n-1 df)"}};
   perf["by_horizon"] = json::array();
   for (const auto& row : p.by_horizon) {
-    json e = {{"horizon", row.horizon}, {"count", row.count}, {"mae", num(row.mae)},
-              {"mae_training", num(row.baseline_mae)}, {"mase", num(row.mase)},
-              {"mase_training", num(row.baseline_mase)}, {"mase_ratio", num(row.test.ratio)}};
+    json e = {{"horizon", row.horizon},
+              {"count", row.count},
+              {"mae", num(row.mae)},
+              {"mae_training", num(row.baseline_mae)},
+              {"mase", num(row.mase)},
+              {"mase_training", num(row.baseline_mase)},
+              {"mase_ratio", num(row.test.ratio)}};
     for (size_t l = 0; l < p.levels.size(); ++l) {
-      e["coverage_" + level_name(p.levels[l])] = l < row.coverage.size() ? num(row.coverage[l]) : json(nullptr);
+      e["coverage_" + level_name(p.levels[l])] =
+          l < row.coverage.size() ? num(row.coverage[l]) : json(nullptr);
       e["coverage_" + level_name(p.levels[l]) + "_training"] =
           l < row.baseline_coverage.size() ? num(row.baseline_coverage[l]) : json(nullptr);
     }
@@ -629,14 +871,19 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
     perf["by_horizon"].push_back(e);
   }
   j["performance"] = perf;
-  json drift = {{"threshold_se", r.drift.threshold}, {"refit_status", r.drift.fit_status},
+  json drift = {{"threshold_se", r.drift.threshold},
+                {"refit_status", r.drift.fit_status},
                 {"refit_message", r.drift.fit_message}};
   drift["parameters"] = json::array();
   for (const auto& d : r.drift.parameters)
-    drift["parameters"].push_back({{"parameter", d.name}, {"deployed", num(d.original)},
-                                   {"deployed_se", num(d.original_se)}, {"refit", num(d.refit)},
-                                   {"refit_se", num(d.refit_se)}, {"change", num(d.change)},
-                                   {"change_in_se", num(d.change_in_se)}, {"flagged", d.flagged}});
+    drift["parameters"].push_back({{"parameter", d.name},
+                                   {"deployed", num(d.original)},
+                                   {"deployed_se", num(d.original_se)},
+                                   {"refit", num(d.refit)},
+                                   {"refit_se", num(d.refit_se)},
+                                   {"change", num(d.change)},
+                                   {"change_in_se", num(d.change_in_se)},
+                                   {"flagged", d.flagged}});
   j["drift"] = drift;
   const auto& res = r.residuals;
   json rj = {{"new_residuals", res.n},
@@ -654,8 +901,11 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
              {"variance_p", num(res.variance.p_value)}};
   rj["coverage_horizon_1"] = json::array();
   for (const auto& c : res.coverage)
-    rj["coverage_horizon_1"].push_back({{"level", c.level}, {"count", c.count}, {"inside", c.inside},
-                                        {"observed", num(c.observed)}, {"p_value", num(c.p_value)}});
+    rj["coverage_horizon_1"].push_back({{"level", c.level},
+                                        {"count", c.count},
+                                        {"inside", c.inside},
+                                        {"observed", num(c.observed)},
+                                        {"p_value", num(c.p_value)}});
   j["residuals"] = rj;
   j["new_effects"] = new_effects_json(r.new_effects);
   const auto& ch = r.challengers;
@@ -672,70 +922,165 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
              {"better_than_deployed", ch.better_than_deployed},
              {"better_than_refit", ch.better_than_refit}};
   if (!ch.note.empty()) cj["note"] = ch.note;
+  cj["untested_horizons"] = json::array();
+  for (const auto& u : ch.untested)
+    cj["untested_horizons"].push_back(
+        {{"horizon", u.horizon},
+         {"pairs", u.pairs},
+         {"reason", fmt::format("{} paired forecasts; the test needs at least {} (h + 3)", u.pairs,
+                                u.horizon + 3)}});
   cj["comparisons"] = json::array();
   for (const auto& c : ch.by_horizon)
-    cj["comparisons"].push_back({{"horizon", c.horizon}, {"n", c.vs_deployed.n},
+    cj["comparisons"].push_back({{"horizon", c.horizon},
+                                 {"n", c.vs_deployed.n},
                                  {"dm_vs_deployed", num(c.vs_deployed.statistic)},
                                  {"p_vs_deployed", num(c.p_vs_deployed)},
                                  {"dm_vs_refit", num(c.vs_refit.statistic)},
                                  {"p_vs_refit", num(c.p_vs_refit)}});
   j["challengers"] = cj;
-  j["files"] = {{"refit_model", r.refit_model ? json(kRefitModelFile) : json(nullptr)},
-                {"challenger_model", r.challenger_model ? json(kChallengerModelFile) : json(nullptr)}};
+  const auto& e = r.evidence;
+  j["evidence"] = {{"thin", e.thin},
+                   {"new_one_step_errors", e.new_values},
+                   {"not_tested", e.not_tested},
+                   {"detectable_error_ratio", num(e.detectable_ratio)}};
+  const auto& v = r.new_period;
+  json np = {{"levels", v.levels}, {"rows", v.rows}, {"time", v.time}};
+  auto nums = [](const std::vector<double>& xs) {
+    json a = json::array();
+    for (double x : xs) a.push_back(num(x));
+    return a;
+  };
+  np["actual"] = nums(v.actual);
+  np["forecast"] = nums(v.forecast);
+  np["lower"] = json::array();
+  np["upper"] = json::array();
+  for (size_t l = 0; l < v.levels.size(); ++l) {
+    np["lower"].push_back(nums(v.lower[l]));
+    np["upper"].push_back(nums(v.upper[l]));
+  }
+  np["context_rows"] = v.context_rows;
+  np["context_time"] = v.context_time;
+  np["context_actual"] = nums(v.context_actual);
+  j["new_period"] = np;
+  j["files"] = {
+      {"refit_model", r.refit_model ? json(kRefitModelFile) : json(nullptr)},
+      {"challenger_model", r.challenger_model ? json(kChallengerModelFile) : json(nullptr)}};
   j["seconds"] = r.seconds;
   return j;
 }
+
+namespace {
+
+// A number for the terminal, or `missing` (never a raw "nan").
+std::string shown(double v, const char* spec, const char* missing = "-") {
+  return std::isfinite(v) ? fmt::format(fmt::runtime(spec), v) : std::string(missing);
+}
+
+}  // namespace
 
 std::string summary_text(const RevalidationResult& r) {
   std::string s;
   auto line = [&s](const std::string& t) { s += t + "\n"; };
   const auto& h = r.history;
   line(fmt::format("{} · deployed {}", r.series, r.deployed_label));
-  line(fmt::format("  trained on rows 1..{}{}; {} new rows{}{}", h.training_rows,
-                   h.training_last_time.empty() ? "" : fmt::format(" ({} to {})", h.training_first_time, h.training_last_time),
-                   h.new_rows,
-                   h.new_first_time.empty() ? "" : fmt::format(" ({} to {})", h.new_first_time, h.new_last_time),
-                   h.revised ? "; TRAINING ROWS REVISED" : ""));
+  line(fmt::format(
+      "  trained on {} rows{}; {} new rows{}{}", h.training_rows,
+      h.training_last_time.empty()
+          ? ""
+          : fmt::format(" ({} to {})", h.training_first_time, h.training_last_time),
+      h.new_rows,
+      h.new_first_time.empty() ? "" : fmt::format(" ({} to {})", h.new_first_time, h.new_last_time),
+      h.revised ? "; TRAINING ROWS REVISED" : ""));
+  if (h.checked_by_value && h.prepended > 0)
+    line(
+        fmt::format("  the file starts at training row {}: rows 1 to {} taken from the model file, "
+                    "{} overlapping rows checked value by value",
+                    h.first_training_row, h.prepended, h.overlap_rows));
+  if (h.ragged_edge > 0)
+    line(fmt::format(
+        "  the last {} training target value{} missing (ragged edge); {} in now; "
+        "scoring starts at row {}",
+        h.ragged_edge, h.ragged_edge == 1 ? " was" : "s were", h.late_values, h.first_scored_row));
+  for (const auto& rev : h.revisions) line("  revised: " + rev);
   line("");
   line(fmt::format("Verdict: {}", to_string(r.verdict)));
   for (const auto& reason : r.reasons) line("  - " + reason);
-  line(fmt::format("  ({} tests can move the verdict, each at {:.4f} = {:g} / {})", r.tests, r.alpha_per_test,
-                   r.alpha, std::max(r.tests, 1)));
+  line(fmt::format("  ({} tests can move the verdict, each at {:.4f} = {:g} / {})", r.tests,
+                   r.alpha_per_test, r.alpha, std::max(r.tests, 1)));
   line("");
   const auto& p = r.performance;
-  line(fmt::format("Deployed model unchanged on the new rows ({} origins; training-time accuracy: {})",
-                   p.origins, p.baseline_source));
-  std::string head = fmt::format("  {:>2} {:>5} {:>9} {:>9} {:>9} {:>6}", "h", "n", "MAE", "MASE", "then", "ratio");
+  line(
+      fmt::format("Deployed model unchanged on the new rows ({} origins from row {}; training-time "
+                  "accuracy: {})",
+                  p.origins, p.first_origin + 1, p.baseline_source));
+  std::string head = fmt::format("  {:>2} {:>5} {:>9} {:>9} {:>9} {:>6}", "h", "n", "MAE", "MASE",
+                                 "then", "ratio");
   for (double l : p.levels) head += fmt::format(" {:>7}", "cov" + level_name(l));
-  head += fmt::format(" {:>9}", "p worse");
+  head += fmt::format(" {:>10}", "p worse");
   line(head);
+  std::vector<std::string> why;
   for (const auto& row : p.by_horizon) {
-    std::string t = fmt::format("  {:>2} {:>5} {:>9.4g} {:>9.4f} {:>9.4f} {:>6.2f}", row.horizon, row.count,
-                                row.mae, row.mase, row.baseline_mase, row.test.ratio);
-    for (double c : row.coverage) t += fmt::format(" {:>7.3f}", c);
-    t += fmt::format(" {:>9}", std::isfinite(row.test.statistic) ? fmt_p(row.test.p_value) : "-");
+    std::string t =
+        fmt::format("  {:>2} {:>5} {:>9} {:>9} {:>9} {:>6}", row.horizon, row.count,
+                    shown(row.mae, "{:.4g}"), shown(row.mase, "{:.4f}"),
+                    shown(row.baseline_mase, "{:.4f}"), shown(row.test.ratio, "{:.2f}"));
+    for (double c : row.coverage) t += fmt::format(" {:>7}", shown(c, "{:.3f}"));
+    t += fmt::format(" {:>10}",
+                     std::isfinite(row.test.statistic) ? fmt_p(row.test.p_value) : "not tested");
     if (row.degraded) t += "  *";
     line(t);
+    if (!std::isfinite(row.test.statistic) && !row.test.note.empty())
+      why.push_back(fmt::format("h {}: {}", row.horizon, row.test.note));
+  }
+  if (!why.empty()) {
+    // One line for the reason shared by every horizon, else one per horizon.
+    bool same = true;
+    for (const auto& w : why)
+      same = same && w.substr(w.find(':')) == why.front().substr(why.front().find(':'));
+    if (same && why.size() > 1)
+      line(fmt::format("  not tested at {} horizons:{}", why.size(),
+                       why.front().substr(why.front().find(':') + 1)));
+    else
+      for (const auto& w : why) line("  not tested, " + w);
   }
   line("");
   line(fmt::format("Parameters re-fitted on all rows (status {}; flag beyond {:g} original SEs)",
                    r.drift.fit_status, r.drift.threshold));
-  line(fmt::format("  {:<22} {:>11} {:>9} {:>11} {:>8}", "parameter", "deployed", "se", "re-fitted", "change/se"));
+  line(fmt::format("  {:<22} {:>11} {:>9} {:>11} {:>9}", "parameter", "deployed", "se", "re-fitted",
+                   "change/se"));
   for (const auto& d : r.drift.parameters)
-    line(fmt::format("  {:<22} {:>11.5g} {:>9.3g} {:>11.5g} {:>8.2f}{}", d.name, d.original, d.original_se, d.refit,
-                     d.change_in_se, d.flagged ? "  *" : ""));
+    line(fmt::format("  {:<22} {:>11} {:>9} {:>11} {:>9}{}", d.name, shown(d.original, "{:.5g}"),
+                     shown(d.original_se, "{:.3g}"), shown(d.refit, "{:.5g}"),
+                     shown(d.change_in_se, "{:.2f}"), d.flagged ? "  *" : ""));
   line("");
   const auto& res = r.residuals;
   line(fmt::format("Residuals of the new rows (n = {})", res.n));
-  line(fmt::format("  Ljung-Box Q({}) = {:.2f}, df {}, p = {}", res.ljung_box.lag, res.ljung_box.statistic,
-                   res.ljung_box.df, fmt_p(res.ljung_box.p_value)));
-  line(fmt::format("  mean {:.4g}, t = {:.2f}, p = {}", res.mean_shift.mean, res.mean_shift.statistic,
-                   fmt_p(res.mean_shift.p_value)));
-  line(fmt::format("  variance {:.4g} vs fitted {:.4g} (ratio {:.2f}), p = {}", res.variance.new_variance,
-                   res.variance.reference_variance, res.variance.ratio, fmt_p(res.variance.p_value)));
+  if (std::isfinite(res.ljung_box.statistic))
+    line(fmt::format("  Ljung-Box Q({}) = {:.2f}, df {}, p = {}", res.ljung_box.lag,
+                     res.ljung_box.statistic, res.ljung_box.df, fmt_p(res.ljung_box.p_value)));
+  else
+    line(fmt::format(
+        "  Ljung-Box not tested: lag {} with {} residual{} and {} degree{} of freedom (needs more "
+        "residuals than the lag and at least 1 degree of freedom)",
+        res.ljung_box.lag, res.n, res.n == 1 ? "" : "s", res.ljung_box.df,
+        res.ljung_box.df == 1 ? "" : "s"));
+  if (std::isfinite(res.mean_shift.statistic))
+    line(fmt::format("  mean {:.4g}, t = {:.2f}, p = {}", res.mean_shift.mean,
+                     res.mean_shift.statistic, fmt_p(res.mean_shift.p_value)));
+  else
+    line(fmt::format("  mean {} not tested (needs at least 2 residuals with some spread)",
+                     shown(res.mean_shift.mean, "{:.4g}")));
+  if (std::isfinite(res.variance.ratio))
+    line(fmt::format("  variance {:.4g} vs fitted {:.4g} (ratio {:.2f}), p = {}",
+                     res.variance.new_variance, res.variance.reference_variance, res.variance.ratio,
+                     fmt_p(res.variance.p_value)));
+  else
+    line("  variance not tested (needs at least 2 residuals)");
   for (const auto& c : res.coverage)
-    line(fmt::format("  1-step {}% intervals held {} of {} ({:.1f}%), p = {}", level_name(c.level), c.inside,
-                     c.count, 100.0 * c.observed, fmt_p(c.p_value)));
+    line(fmt::format("  1-step {}% intervals held {} of {}{}, p = {}", level_name(c.level),
+                     c.inside, c.count,
+                     std::isfinite(c.observed) ? fmt::format(" ({:.1f}%)", 100.0 * c.observed) : "",
+                     fmt_p(c.p_value)));
   if (r.new_effects.run) {
     line("");
     line(fmt::format("New effects in the new rows (critical |statistic| {:.2f}, {} rows tested)",
@@ -747,15 +1092,32 @@ std::string summary_text(const RevalidationResult& r) {
   line("");
   const auto& ch = r.challengers;
   line(fmt::format("Challengers: {} candidates, ranked by {}", ch.candidates, ch.ranked_by));
-  line(fmt::format("  deployed structure ranks {}{}", ch.deployed_rank > 0 ? std::to_string(ch.deployed_rank) : "-",
+  line(fmt::format("  deployed structure ranks {}{}",
+                   ch.deployed_rank > 0 ? std::to_string(ch.deployed_rank) : "-",
                    ch.deployed_in_grid ? "" : " (outside the grid)"));
   if (ch.has_challenger) {
     line(fmt::format("  best challenger {}", ch.challenger_key));
-    line(fmt::format("  new-row score: deployed {:.4f}, deployed re-fitted {:.4f}, challenger {:.4f}",
-                     ch.score_deployed, ch.score_refit, ch.score_challenger));
+    line(fmt::format("  new-row score: deployed {}, deployed re-fitted {}, challenger {}",
+                     shown(ch.score_deployed, "{:.4f}"), shown(ch.score_refit, "{:.4f}"),
+                     shown(ch.score_challenger, "{:.4f}")));
     for (const auto& c : ch.by_horizon)
-      line(fmt::format("  h {:>2}: better than deployed p = {}, better than re-fitted p = {}", c.horizon,
-                       fmt_p(c.p_vs_deployed), fmt_p(c.p_vs_refit)));
+      line(fmt::format(
+          "  h {:>2}: better than deployed p = {}, better than re-fitted p = {}", c.horizon,
+          fmt_p(c.p_vs_deployed),
+          std::isfinite(c.vs_refit.statistic) ? fmt_p(c.p_vs_refit) : std::string("not tested")));
+    if (!ch.untested.empty()) {
+      std::vector<int> hs;
+      for (const auto& u : ch.untested) hs.push_back(u.horizon);
+      line(fmt::format(
+          "  Diebold-Mariano tests cover {} of {} horizons: not tested at {}, where the new "
+          "period gives {} paired forecast{} and the test needs h + 3 (its long-run variance "
+          "uses h - 1 autocovariances)",
+          ch.by_horizon.size(), ch.by_horizon.size() + ch.untested.size(), span_text(hs),
+          ch.untested.front().pairs == ch.untested.back().pairs
+              ? std::to_string(ch.untested.front().pairs)
+              : fmt::format("{} to {}", ch.untested.back().pairs, ch.untested.front().pairs),
+          ch.untested.front().pairs == 1 ? "" : "s"));
+    }
   }
   if (!ch.note.empty()) line("  note: " + ch.note);
   return s;

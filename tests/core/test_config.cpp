@@ -162,7 +162,7 @@ TEST(Config, Messages) {
   EXPECT_EQ(error_of(h + "nois: {ar: 1}\n"),
             "/cfg/dir/config.yaml:3: nois: unknown key; did you mean `noise`? (valid keys here: "
             "data, target, differencing, inputs, events, noise, search, backtest, fit, "
-            "forecast, outliers, output)");
+            "forecast, outliers, revalidate, output)");
   EXPECT_EQ(error_of(h + "fit: {filter_start: zeros}\n"),
             "/cfg/dir/config.yaml:3: fit.filter_start: unknown value 'zeros'; did you mean "
             "'zero'? choose one of: estimated, zero");

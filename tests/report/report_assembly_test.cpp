@@ -457,37 +457,49 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   fs::remove_all(dir);
 }
 
+// The re-validation page reads like a report, not like the JSON: verdict and reasons first, one
+// section per question with plain labels, the new-period chart, no flattened key names.
 TEST(Report, RevalidationVerdictComesFirst) {
   const fs::path dir = fresh_dir("reval");
   test::write_full_run(dir);
-  // Written as text: the table columns follow the file's key order.
-  write_text(dir / "revalidation.json", R"({
-  "verdict": "refit",
-  "reasons": ["accuracy degraded: MASE 0.81 -> 1.07", "parameters drifted"],
-  "checked_at": "2024-05-01",
-  "drift": [{"parameter": "temp.omega0", "old": 2.0, "new": 2.6, "z": 3.1}],
-  "degradation": {"horizon": 1, "mase_before": 0.7, "mase_after": 0.95}
-})");
+  write_text(dir / "revalidation.json",
+             slurp(fs::path(LAGSIEVE_TEST_DATA_DIR) / "report/fixtures/revalidation_seatbelts.json"));
   const ReportResult r = write_report(dir);
-  ASSERT_FALSE(r.sections.empty());
-  EXPECT_EQ(r.sections.front(), "Verdict");
+  ASSERT_GE(r.sections.size(), 5u);
+  EXPECT_EQ(std::vector<std::string>(r.sections.begin(), r.sections.begin() + 5),
+            (std::vector<std::string>{"Verdict", "Accuracy on the new rows", "Parameter drift",
+                                      "Residuals of the new rows", "Challengers"}));
   const std::string html = slurp(r.path);
   const auto doc = parse_markup(html);
   ASSERT_TRUE(doc.ok) << doc.error;
   const auto notices = find_all(doc, "div", "notice");
   ASSERT_FALSE(notices.empty());
-  EXPECT_NE(notices.front().attrs.at("class").find("tone-warning"), std::string::npos);
-  const size_t verdict = html.find("Verdict: refit");
+  EXPECT_NE(notices.front().attrs.at("class").find("tone-good"), std::string::npos);
+  const size_t verdict = html.find("Verdict: keep");
   ASSERT_NE(verdict, std::string::npos);
   EXPECT_LT(verdict, html.find("<h2>Run summary</h2>"));
   const auto reasons = table_cells(html, "Why");
-  ASSERT_EQ(reasons.size(), 2u);
-  EXPECT_EQ(reasons[0][1], "accuracy degraded: MASE 0.81 -> 1.07");
-  const auto drift = table_cells(html, "Drift");
-  ASSERT_EQ(drift.size(), 1u);
-  EXPECT_EQ(drift[0][0], "temp.omega0");
-  EXPECT_EQ(drift[0][2], "2.600");
-  EXPECT_NE(html.find("2024-05-01"), std::string::npos);
+  ASSERT_EQ(reasons.size(), 3u);
+  EXPECT_EQ(reasons[2][1].rfind("note: the evidence is thin: 10 new one-step errors", 0), 0u);
+  const auto accuracy = table_cells(html, "Accuracy by horizon: now and at training time");
+  ASSERT_EQ(accuracy.size(), 6u);
+  EXPECT_EQ(accuracy[0][0], "1");
+  EXPECT_EQ(accuracy[0][1], "10");
+  EXPECT_EQ(accuracy[0][6], "100% / \u2014");
+  EXPECT_EQ(accuracy[0][8], "not tested");
+  const auto drift = table_cells(html, "Estimates: deployed and re-fitted");
+  ASSERT_EQ(drift.size(), 5u);
+  EXPECT_EQ(drift[3][0], "law.omega0");
+  EXPECT_EQ(drift[3][6], "no");
+  const auto dm = table_cells(html, "Is the challenger better? Diebold-Mariano, squared error, one-sided");
+  ASSERT_EQ(dm.size(), 6u);
+  EXPECT_EQ(dm[5][3], "not tested");
+  EXPECT_NE(html.find("Not tested at 2 of 6 horizons"), std::string::npos);
+  // The chart: 10 forecasts, 10 actuals, the history before them.
+  EXPECT_NE(html.find("chart-new-period"), std::string::npos);
+  EXPECT_EQ(find_all(doc, "circle", "point").size() >= 10u, true);
+  for (const char* flat : {"Ljung box lag", "Drift threshold se", "Mae training"})
+    EXPECT_EQ(html.find(flat), std::string::npos) << flat;
   fs::remove_all(dir);
 }
 

@@ -1,6 +1,10 @@
 // A real browser renders the report: Debian's chromium, headless, to PNG and to PDF, with the
 // page's console captured; any uncaught script error or console error fails the test. Skipped
 // (with a message) where /usr/bin/chromium is not installed; `.ci/run` installs it.
+// The re-validation report (from tests/report/fixtures/revalidation_seatbelts.json, written by
+// `lagsieve revalidate` on R's Seatbelts with a rolling extract) is laid out at 1,280 px: no table
+// may be wider than its box or the page; its screenshot is kept as revalidation_report.png in the
+// test's working folder.
 #include <gtest/gtest.h>
 
 #include <cstdlib>
@@ -50,6 +54,54 @@ bool console_error(const std::string& log) {
          log.find(":CONSOLE(") != std::string::npos;
 }
 
+// Lays `page` out at 1,280 px and returns what a script measured: "viewport=W page=W tables=N
+// too-wide=[...]": a table whose box sticks out of the viewport, a table beyond the page that does
+// not scroll inside its box, and any table of the re-validation sections that needs to scroll.
+std::string layout_check(const fs::path& page, const fs::path& work) {
+  const std::string script = R"(<script>
+(function () {
+  // Strict sections: their tables must fit without scrolling; elsewhere a table may scroll inside
+  // its box, but no box may stick out of the page.
+  var strict = ['Verdict', 'Accuracy on the new rows', 'Parameter drift', 'Residuals of the new rows',
+                'Challengers'];
+  var vw = document.documentElement.clientWidth, bad = [];
+  document.querySelectorAll('table').forEach(function (t, i) {
+    var box = t.parentElement, sec = t.closest('section'), h = sec ? sec.querySelector('h2') : null;
+    var inStrict = h && strict.indexOf(h.textContent) >= 0;
+    var name = (t.caption ? t.caption.textContent : 'table ' + i) + ' ' + Math.round(t.scrollWidth) + 'px';
+    if (box.getBoundingClientRect().right > vw + 0.5) bad.push(name + ' (box beyond the page)');
+    else if (t.getBoundingClientRect().right > vw + 0.5 &&
+             ['auto', 'scroll'].indexOf(getComputedStyle(box).overflowX) < 0)
+      bad.push(name + ' (beyond the page)');
+    else if (inStrict && t.scrollWidth > box.clientWidth + 1) bad.push(name + ' (scrolls)');
+  });
+  var m = document.createElement('pre');
+  m.id = 'layout-check';
+  m.textContent = 'viewport=' + vw + ' page=' + document.documentElement.scrollWidth + ' tables=' +
+    document.querySelectorAll('table').length + ' too-wide=[' + bad.join('; ') + ']';
+  document.body.appendChild(m);
+})();
+</script>)";
+  std::string html = slurp(page);
+  html.replace(html.rfind("</body>"), 7, script + "</body>");
+  const fs::path probe = work / "layout_probe.html";
+  test::write_text(probe, html);
+  const fs::path dom = work / "dom.html";
+  const std::string cmd =
+      "timeout 90 " + kChromium.string() +
+      " --headless --no-sandbox --disable-gpu --no-first-run --hide-scrollbars"
+      " --disable-background-networking --disable-component-update --disable-sync"
+      " --disable-dev-shm-usage --window-size=1280,3000 --user-data-dir=" +
+      (work / "profile").string() + " --dump-dom file://" + probe.string() + " > " + dom.string() +
+      " 2>/dev/null";
+  if (std::system(cmd.c_str()) != 0) return "chromium failed";
+  const std::string out = slurp(dom);
+  const auto at = out.find("<pre id=\"layout-check\">");
+  if (at == std::string::npos) return "no measurement";
+  const auto from = out.find('>', at) + 1;
+  return out.substr(from, out.find("</pre>", from) - from);
+}
+
 class Browser : public ::testing::Test {
  protected:
   void SetUp() override {
@@ -97,6 +149,47 @@ TEST_F(Browser, DetectsAScriptError) {
       "<!DOCTYPE html><html><body><p>x</p><script>undefinedFunction();</script></body></html>");
   const Render r = render(broken, "--screenshot=" + (work / "broken.png").string(), work);
   EXPECT_TRUE(console_error(r.log)) << r.log;
+}
+
+TEST_F(Browser, RevalidationReportFitsThePageAt1280Pixels) {
+  const fs::path dir = work / "revalidation";
+  fs::create_directories(dir);
+  test::write_full_run(dir, "drivers");
+  test::write_text(dir / "revalidation.json", slurp(fs::path(LAGSIEVE_TEST_DATA_DIR) /
+                                                    "report/fixtures/revalidation_seatbelts.json"));
+  const fs::path reval_page = write_report(dir).path;
+  const std::string check = layout_check(reval_page, work);
+  EXPECT_NE(check.find("viewport=1280 page=1280 "), std::string::npos) << check;
+  EXPECT_NE(check.find("too-wide=[]"), std::string::npos) << check;
+  EXPECT_EQ(check.find("tables=0"), std::string::npos) << check;
+  const fs::path png = fs::current_path() / "revalidation_report.png";
+  const Render r = render(reval_page, "--window-size=1280,3200 --screenshot=" + png.string(), work);
+  ASSERT_EQ(r.exit_code, 0) << r.log;
+  EXPECT_FALSE(console_error(r.log)) << r.log;
+  EXPECT_GT(slurp(png).size(), 20000u);
+}
+
+// The layout check can fail: a table of 40 wide columns is caught, outside a scrolling box anywhere
+// and inside one in a re-validation section.
+TEST_F(Browser, DetectsATableWiderThanThePage) {
+  std::string wide =
+      "<!DOCTYPE html><html><body><div><table>"  // no scrolling box: beyond the page
+      "<caption>wide</caption><tr>";
+  for (int i = 0; i < 40; ++i) wide += "<td>column_number_" + std::to_string(i) + "</td>";
+  wide += "</tr></table></div>";
+  // The same table in a re-validation section, where scrolling inside the box is not enough.
+  wide +=
+      "<section><h2>Parameter drift</h2><div class=\"table-wrap\" style=\"overflow-x: "
+      "auto\"><table><caption>"
+      "strict</caption><tr>";
+  for (int i = 0; i < 40; ++i) wide += "<td>column_number_" + std::to_string(i) + "</td>";
+  wide += "</tr></table></div></section></body></html>";
+  const fs::path page_file = work / "wide.html";
+  test::write_text(page_file, wide);
+  const std::string check = layout_check(page_file, work);
+  EXPECT_NE(check.find("too-wide=[wide "), std::string::npos) << check;
+  EXPECT_NE(check.find("(beyond the page); strict "), std::string::npos) << check;
+  EXPECT_NE(check.find("px (scrolls)]"), std::string::npos) << check;
 }
 
 }  // namespace

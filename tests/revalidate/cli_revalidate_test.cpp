@@ -19,7 +19,8 @@ namespace fs = std::filesystem;
 using namespace lagsieve::testing;
 
 std::string yaml(const std::string& csv, const std::string& out) {
-  return "data: {file: " + csv + ", time: t}\n"
+  return "data: {file: " + csv +
+         ", time: t}\n"
          "target: {column: y}\n"
          "inputs:\n"
          "  - column: x\n"
@@ -28,22 +29,24 @@ std::string yaml(const std::string& csv, const std::string& out) {
          "noise: {ar: [0, 1], constant: true}\n"
          "search: {threads: 1}\n"
          "backtest: {horizon: 3, refit: 10, shortlist: 3}\n"
-         "output: {dir: " + out + "}\n";
+         "output: {dir: " +
+         out + "}\n";
 }
 
-void write(const fs::path& p, const std::string& text) {
-  std::ofstream(p) << text;
-}
+void write(const fs::path& p, const std::string& text) { std::ofstream(p) << text; }
 
 std::string verdict_in(const fs::path& folder) {
   return nlohmann::json::parse(slurp(folder / "revalidation.json"))["verdict"].get<std::string>();
 }
 
-int code_of(const std::string& verdict) { return verdict == "keep" ? 0 : verdict == "refit" ? 10 : 11; }
+int code_of(const std::string& verdict) {
+  return verdict == "keep" ? 0 : verdict == "refit" ? 10 : 11;
+}
 
 TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   ASSERT_TRUE(fs::exists(LAGSIEVE_BINARY)) << "build the lagsieve target before test_revalidate";
-  const fs::path dir = fs::temp_directory_path() / ("lagsieve_revalidate_cli_" + std::to_string(::getpid()));
+  const fs::path dir =
+      fs::temp_directory_path() / ("lagsieve_revalidate_cli_" + std::to_string(::getpid()));
   fs::remove_all(dir);
   fs::create_directories(dir);
   const std::uint64_t seed = 7001;
@@ -64,7 +67,8 @@ TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   const auto model = nlohmann::json::parse(slurp(dir / "run" / "model.json"));
   ASSERT_TRUE(model.contains("backtest"));
 
-  const CommandResult keep = run_lagsieve(dir, "revalidate run/model.json same.yaml --out same_out --quiet");
+  const CommandResult keep =
+      run_lagsieve(dir, "revalidate run/model.json same.yaml --out same_out --quiet");
   EXPECT_EQ(keep.code, 0) << keep.out << keep.err;
   EXPECT_EQ(verdict_in(dir / "same_out"), "keep");
   EXPECT_NE(keep.out.find("Verdict: keep"), std::string::npos) << keep.out;
@@ -73,22 +77,27 @@ TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   const auto doc = nlohmann::json::parse(slurp(dir / "same_out" / "revalidation.json"));
   EXPECT_EQ(doc["performance"]["baseline"], "model file");
 
-  const CommandResult change = run_lagsieve(dir, "revalidate run/model.json changed.yaml --out changed_out --quiet --json");
+  const CommandResult change =
+      run_lagsieve(dir, "revalidate run/model.json changed.yaml --out changed_out --quiet --json");
   ASSERT_TRUE(change.code == 10 || change.code == 11) << change.code << change.err;
   EXPECT_EQ(change.code, code_of(verdict_in(dir / "changed_out")));
   EXPECT_EQ(nlohmann::json::parse(change.out)["verdict"], verdict_in(dir / "changed_out"));
   EXPECT_TRUE(fs::exists(dir / "changed_out" / "challenger_model.json"));
 
-  const CommandResult refused = run_lagsieve(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet");
+  const CommandResult refused =
+      run_lagsieve(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet");
   EXPECT_EQ(refused.code, 2);
-  EXPECT_NE(refused.err.find("are not the data the model was trained on"), std::string::npos) << refused.err;
+  EXPECT_NE(refused.err.find("a training value was revised: row 41 of "), std::string::npos)
+      << refused.err;
   EXPECT_FALSE(fs::exists(dir / "revised_out" / "revalidation.json"));
 
-  const CommandResult allowed =
-      run_lagsieve(dir, "revalidate run/model.json revised.yaml --out revised_out --quiet --allow-revised-history");
+  const CommandResult allowed = run_lagsieve(
+      dir,
+      "revalidate run/model.json revised.yaml --out revised_out --quiet --allow-revised-history");
   EXPECT_NE(allowed.code, 2) << allowed.err;
   EXPECT_EQ(allowed.code, code_of(verdict_in(dir / "revised_out")));
-  EXPECT_EQ(nlohmann::json::parse(slurp(dir / "revised_out" / "revalidation.json"))["history"]["history_revised"],
+  EXPECT_EQ(nlohmann::json::parse(
+                slurp(dir / "revised_out" / "revalidation.json"))["history"]["history_revised"],
             true);
   fs::remove_all(dir);
 }

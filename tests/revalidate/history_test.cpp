@@ -37,13 +37,11 @@ std::string message_of(const FittedModel& model, const SeriesData& data, const R
 
 TEST(RevalidateHistory, RefusesDataThatDoNotExtendTheTrainingRows) {
   const Deployed s;
-  EXPECT_EQ(message_of(s.model, head(s.data, kTrainingRows), s.config),
-            "new.csv: 300 rows of 'y', but the model was trained on the first 300 rows, 1 to 300; "
-            "re-validation needs at least 10 new rows after them. Append the observations that "
-            "arrived since training to the data file and run again");
-  EXPECT_NE(message_of(s.model, head(s.data, kTrainingRows + 9), s.config).find("at least 10 new rows"),
+  EXPECT_NE(message_of(s.model, head(s.data, kTrainingRows), s.config)
+                .find("needs at least 1 new observed target value after them and found 0"),
             std::string::npos);
-  EXPECT_NE(message_of(s.model, head(s.data, 200), s.config).find("200 rows of 'y'"), std::string::npos);
+  EXPECT_NE(message_of(s.model, head(s.data, 200), s.config).find("200 rows of 'y' (1 to 200)"),
+            std::string::npos);
 }
 
 TEST(RevalidateHistory, RefusesARevisedTargetValueUnlessAllowed) {
@@ -51,12 +49,13 @@ TEST(RevalidateHistory, RefusesARevisedTargetValueUnlessAllowed) {
   SeriesData revised = s.data;
   revised.target[123] += 0.01;
   const std::string message = message_of(s.model, revised, s.config);
-  EXPECT_EQ(message.rfind("new.csv: the first 300 rows (the model's training range, 1 to 300) are not "
-                          "the data the model was trained on: the values differ (fingerprint ",
+  EXPECT_EQ(message.rfind("new.csv: a training value was revised: row 124 of new.csv (training row "
+                          "124, 124): 'y' was ",
                           0),
             0u)
       << message;
-  EXPECT_NE(message.find("pass --allow-revised-history to re-validate anyway"), std::string::npos);
+  EXPECT_NE(message.find("pass --allow-revised-history to re-validate on the revised data"),
+            std::string::npos);
 
   RevalidateOptions allow;
   allow.allow_revised_history = true;
@@ -70,13 +69,16 @@ TEST(RevalidateHistory, RefusesARevisedInputValueAndShiftedStamps) {
   const Deployed s;
   SeriesData revised = s.data;
   revised.inputs[0][5] *= 1.5;
-  EXPECT_NE(message_of(s.model, revised, s.config).find("the values differ"), std::string::npos);
+  EXPECT_NE(
+      message_of(s.model, revised, s.config).find("row 6 of new.csv (training row 6, 6): 'x' was "),
+      std::string::npos);
 
-  // Same values, but the file starts one period later: the stamps no longer line up.
+  // Same values, but stamped one period later: the values no longer line up with the stamps.
   SeriesData shifted = s.data;
   for (auto& t : shifted.time) t = std::to_string(std::stoi(t) + 1);
-  EXPECT_NE(message_of(s.model, shifted, s.config).find("row 300 is stamped '301', the model's last training row '300'"),
-            std::string::npos);
+  EXPECT_NE(
+      message_of(s.model, shifted, s.config).find("row 1 of new.csv (training row 2, 2): 'y' was "),
+      std::string::npos);
 }
 
 TEST(RevalidateHistory, UnrevisedHistoryPassesAndMatchesTheFingerprint) {
@@ -101,7 +103,8 @@ TEST(RevalidateHistory, OptionsAreValidated) {
   const Deployed s;
   RevalidateOptions o;
   o.alpha = 1.5;
-  EXPECT_EQ(message_of(s.model, s.data, s.config, o), "revalidate: alpha 1.5 must lie strictly between 0 and 1");
+  EXPECT_EQ(message_of(s.model, s.data, s.config, o),
+            "revalidate: alpha 1.5 must lie strictly between 0 and 1");
   o.alpha = 0.05;
   o.drift_threshold = 0.0;
   EXPECT_NE(message_of(s.model, s.data, s.config, o).find("drift threshold 0"), std::string::npos);
