@@ -6,7 +6,12 @@
 #include <cstdio>
 
 #include "batch/batch.h"
+#include "batch/panel_report.h"
 #include "batch/progress.h"
+#include "batch/shards.h"
+#include "forecast/fitted_model.h"
+#include "io/atomic_file.h"
+#include "io/csv.h"
 #include "search/run_dir.h"
 #include "search/run_folder.h"
 
@@ -31,7 +36,15 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   if (args.out && args.out->empty()) check_run_dir_path("", "--out");
   const std::filesystem::path out = args.out ? std::filesystem::path(*args.out) : config.output.dir;
   std::vector<PanelPart> parts = load_panel(config, args.series);
-  const std::string fingerprint = batch_fingerprint(config, args.series);
+  const std::string panel_fingerprint = batch_fingerprint(config, args.series);
+  std::string fingerprint = panel_fingerprint;
+  std::optional<ShardSpec> shard;
+  if (args.shard) {
+    shard = parse_shard(*args.shard, "--shard");
+    parts = select_shard(std::move(parts), *shard);
+    fingerprint = text_fingerprint(
+        fmt::format("{}|shard={}/{}", panel_fingerprint, shard->index, shard->count));
+  }
   RunDir dir(out, {"search", fingerprint, args.resume, args.out ? "--out" : "output.dir"});
   for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
   const std::filesystem::path& stage = dir.staging();
@@ -53,8 +66,12 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
     options.progress = [&](const BatchProgress& p) { (*printer)(p); };
   }
   const size_t total = parts.size();
+  if (shard)
+    write_file_atomic(stage / kShardFile,
+                      shard_json(panel_fingerprint, *shard, parts).dump(1) + "\n");
   const BatchResult result = run_batch(config, std::move(parts), options);
   write_batch_tables(stage, result);
+  write_panel_report(stage, result.series, config);
 
   const int ok = result.count(SeriesStatus::ok);
   dir.commit(ok == static_cast<int>(total) ? "complete"
@@ -64,8 +81,27 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
              result.count(SeriesStatus::no_usable_candidate), result.count(SeriesStatus::bad_data),
              result.count(SeriesStatus::failed));
   print_bad_series(result.series, 20);
-  fmt::print("run folder: {} (summary: {})\n", out.string(), (out / kSummaryCsv).string());
+  fmt::print("run folder: {} (summary: {}, report: {})\n", out.string(),
+             (out / kSummaryCsv).string(), (out / run_files::kReport).string());
   if (ok == static_cast<int>(total)) return kExitOk;
+  return ok > 0 ? kExitSomeSeriesFailed : kExitNoModel;
+}
+
+int merge_command(const std::string& out, const std::vector<std::string>& shard_dirs) {
+  std::vector<std::filesystem::path> shards(shard_dirs.begin(), shard_dirs.end());
+  const std::string fingerprint = check_shards(shards);  // refuses before anything is written
+  RunDir dir(out, {"search", fingerprint, false, "OUT"});
+  for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
+  merge_shards(dir.staging(), shards);
+  const auto summary = read_csv(dir.staging() / kSummaryCsv);
+  const int status = summary.column_index("status");
+  int ok = 0;
+  for (const auto& row : summary.rows) ok += row[status] == "ok" ? 1 : 0;
+  const int total = summary.row_count();
+  dir.commit(ok == total ? "complete" : ok > 0 ? "some_series_failed" : "no_usable_candidate");
+  fmt::print("merged {} shards: {} series, {} ok\nrun folder: {} (summary: {})\n", shards.size(),
+             total, ok, out, (std::filesystem::path(out) / kSummaryCsv).string());
+  if (ok == total) return kExitOk;
   return ok > 0 ? kExitSomeSeriesFailed : kExitNoModel;
 }
 

@@ -25,6 +25,9 @@ void register_search(CLI::App& app) {
                   "Run only this series (a key of data.series_key, or a target column); repeatable")
       ->expected(1)
       ->take_all();
+  cmd->add_option("--shard", args->shard,
+                  "Run only shard K of N of the series (K/N, e.g. 2/8) into its own folder; "
+                  "join the shards with `lagsieve merge`");
   cmd->add_flag("--no-backtest", args->no_backtest, "Skip the backtest even if the config has one");
   cmd->callback([args] { finish(run_command([&] { return run_search_command(*args); })); });
 }

@@ -19,7 +19,8 @@ struct SearchArgs {
   bool quiet = false;
   std::optional<int> threads;
   bool no_backtest = false;
-  std::vector<std::string> series;  // --series: run only these (keys, or target columns)
+  std::vector<std::string> series;   // --series: run only these (keys, or target columns)
+  std::optional<std::string> shard;  // --shard K/N (long-format panels)
 };
 
 // Progress line on stderr, only when stderr is a terminal and not --quiet.

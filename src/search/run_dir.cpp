@@ -208,7 +208,8 @@ bool is_run_entry(const std::string& name) {
                                       // runs of many series (src/batch/)
                                       "series",
                                       "summary.csv",
-                                      "summary.json"};
+                                      "summary.json",
+                                      "shard.json"};
   for (const char* e : exact)
     if (name == e) return true;
   for (const char* n : kNested)
