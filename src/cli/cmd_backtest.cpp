@@ -39,10 +39,9 @@ int run_backtest_command(const BacktestArgs& args) {
   const LoadedRun run = load_run(args.config);
   const RunConfig& config = run.config;
   if (!config.backtest.enabled)
-    throw InputError(
-        fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "
-                    "step, horizon, ...)",
-                    config.config_file.string()));
+    throw InputError(fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "
+                                 "step, horizon, ...)",
+                                 config.config_file.string()));
   const SeriesData& data = pick_series(run, args.series);
   BacktestOptions options = backtest_options(config, data.rows());
   options.threads = checked_threads(args.threads, config.search.threads);
@@ -55,8 +54,7 @@ int run_backtest_command(const BacktestArgs& args) {
   std::vector<BacktestCandidate> candidates;
   for (const auto& path : args.models) {
     const FittedModel model = load_model(path);
-    auto c = candidate_from_model(
-        std::filesystem::path(path).stem().string() + ": " + model_label(model.spec), model);
+    auto c = candidate_from_model(std::filesystem::path(path).stem().string() + ": " + model_label(model.spec), model);
     // With refitting, each model's structure is re-fitted at the origins like any candidate;
     // with `refit: 0` its own parameters are used throughout (re-filtered, never re-fitted).
     if (options.refit > 0) c.fixed.reset();
@@ -75,8 +73,7 @@ int run_backtest_command(const BacktestArgs& args) {
   const std::filesystem::path& stage = dir.staging();
   BacktestResult result = run_backtest(data, candidates, options);
   if (result.leader >= 0)
-    result.input_value =
-        input_value(data, candidates[result.leader], result.models[result.leader], options);
+    result.input_value = input_value(data, candidates[result.leader], result.models[result.leader], options);
 
   write_file_atomic(stage / run_files::kBacktest, backtest_csv(result));
   write_file_atomic(stage / run_files::kAccuracy, accuracy_csv(result));
@@ -87,12 +84,11 @@ int run_backtest_command(const BacktestArgs& args) {
   write_report(stage, report_options);
   dir.commit();
 
-  fmt::print("{} · {} origins from row {} by {}, horizons 1..{}, {} window, refit {}\n",
-             data.target_name, result.origins.size(), options.first_origin, options.step,
-             options.horizon, to_string(options.window),
+  fmt::print("{} · {} origins from row {} by {}, horizons 1..{}, {} window, refit {}\n", data.target_name,
+             result.origins.size(), options.first_origin, options.step, options.horizon,
+             to_string(options.window),
              options.refit == 0 ? "never" : fmt::format("every {} origin(s)", options.refit));
-  fmt::print("  {:<50} {:>9} {:>9} {:>9} {:>10}  {}\n", "model", "score", "MAE", "RMSE",
-             "oracle MAE", "failed origins");
+  fmt::print("  {:<50} {:>9} {:>9} {:>9} {:>10}  {}\n", "model", "score", "MAE", "RMSE", "oracle MAE", "failed origins");
   for (size_t i = 0; i < result.models.size(); ++i) {
     const auto& m = result.models[i];
     fmt::print("{} {:<50} {:>9.4f} {:>9.4g} {:>9.4g} {:>10.4g}  {}\n",
@@ -101,8 +97,8 @@ int run_backtest_command(const BacktestArgs& args) {
                m.oracle_accuracy.overall.mae, m.failed_origins);
   }
   for (const auto& v : result.input_value)
-    fmt::print("input value · {}: score {:.4f} with, {:.4f} without (p = {:.3g})\n", v.input,
-               v.score_with, v.score_without, v.test.p_value);
+    fmt::print("input value · {}: score {:.4f} with, {:.4f} without (p = {:.3g})\n", v.input, v.score_with,
+               v.score_without, v.test.p_value);
   fmt::print("run folder: {} (report: {})\n", out.string(), (out / run_files::kReport).string());
   return kExitOk;
 }
@@ -110,11 +106,9 @@ int run_backtest_command(const BacktestArgs& args) {
 }  // namespace
 
 void register_backtest(CLI::App& app) {
-  auto* cmd = app.add_subcommand("backtest",
-                                 "Rolling-origin backtest of model files (or the config's model)");
+  auto* cmd = app.add_subcommand("backtest", "Rolling-origin backtest of model files (or the config's model)");
   auto args = std::make_shared<BacktestArgs>();
-  cmd->add_option("CONFIG", args->config, "Run configuration with a backtest section (YAML)")
-      ->required();
+  cmd->add_option("CONFIG", args->config, "Run configuration with a backtest section (YAML)")->required();
   cmd->add_option("--models", args->models, "Model files to compare side by side");
   cmd->add_option(
       "--out", args->out,

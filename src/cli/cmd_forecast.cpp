@@ -97,7 +97,8 @@ int run_forecast(const ForecastArgs& args) {
   ForecastOptions options;
   options.horizon = args.horizon;
   options.levels = args.levels;
-  options.parameter_uncertainty = !args.fixed_parameters && config.forecast.parameter_uncertainty;
+  options.parameter_uncertainty =
+      !args.fixed_parameters && config.forecast.parameter_uncertainty;
   std::vector<ForecastResult> results;
   for (const auto& s : scenarios) results.push_back(forecast(model, history, s.inputs, options));
 

@@ -23,8 +23,7 @@ int report(const ReportArgs& args) {
   const ReportResult r = write_report(args.dir, options);
   for (const auto& w : r.warnings) fmt::print(stderr, "lagsieve: warning: {}\n", w);
   fmt::print("report  {} ({} sections, {} charts{})\n", r.path.string(), r.sections.size(),
-             r.charts.size(),
-             r.charts.empty() ? "" : " in " + r.charts.front().parent_path().string());
+             r.charts.size(), r.charts.empty() ? "" : " in " + r.charts.front().parent_path().string());
   return kExitOk;
 }
 

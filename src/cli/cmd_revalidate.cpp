@@ -37,12 +37,9 @@ struct RevalidateArgs {
 
 int exit_code(Verdict v) {
   switch (v) {
-    case Verdict::keep:
-      return kExitOk;
-    case Verdict::refit:
-      return kExitRefitAdvised;
-    case Verdict::replace:
-      return kExitReplaceAdvised;
+    case Verdict::keep: return kExitOk;
+    case Verdict::refit: return kExitRefitAdvised;
+    case Verdict::replace: return kExitReplaceAdvised;
   }
   return kExitInternal;
 }
@@ -61,10 +58,9 @@ int run_revalidate(const RevalidateArgs& args) {
     targets += (targets.empty() ? "" : ", ") + s.target_name;
   }
   if (!data)
-    throw InputError(
-        fmt::format("{}: the model was trained on target '{}', which {} does not load "
-                    "(its targets: {}); name that column under target",
-                    args.model, model.training.target_column, args.config, targets));
+    throw InputError(fmt::format("{}: the model was trained on target '{}', which {} does not load "
+                                 "(its targets: {}); name that column under target",
+                                 args.model, model.training.target_column, args.config, targets));
 
   RevalidateOptions options;
   options.allow_revised_history = args.allow_revised_history;
@@ -82,8 +78,7 @@ int run_revalidate(const RevalidateArgs& args) {
   if (r.refit_model) save_model(out / kRefitModelFile, *r.refit_model);
   if (r.challenger_model) save_model(out / kChallengerModelFile, *r.challenger_model);
   write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(r.search.rows, run.config));
-  write_file_atomic(out / run_files::kLeaderboardJson,
-                    leaderboard_json(r.search.rows, run.config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kLeaderboardJson, leaderboard_json(r.search.rows, run.config).dump(2) + "\n");
   write_file_atomic(out / run_files::kBacktest, backtest_csv(r.comparison));
   write_file_atomic(out / run_files::kAccuracy, accuracy_csv(r.comparison));
   write_file_atomic(out / run_files::kComparisons, comparisons_csv(r.comparison));
@@ -108,24 +103,20 @@ int run_revalidate(const RevalidateArgs& args) {
 }  // namespace
 
 void register_revalidate(CLI::App& app) {
-  auto* cmd = app.add_subcommand("revalidate",
-                                 "Re-check a deployed model on the rows after its training data "
-                                 "and against fresh challengers; "
-                                 "exit 0 keep, 10 refit advised, 11 replace advised, 2 bad input");
+  auto* cmd = app.add_subcommand(
+      "revalidate",
+      "Re-check a deployed model on the rows after its training data and against fresh challengers; "
+      "exit 0 keep, 10 refit advised, 11 replace advised, 2 bad input");
   auto args = std::make_shared<RevalidateArgs>();
-  cmd->add_option("MODEL", args->model, "The deployed model file (JSON from fit --save or search)")
+  cmd->add_option("MODEL", args->model, "The deployed model file (JSON from fit --save or search)")->required();
+  cmd->add_option("CONFIG", args->config, "Run configuration (YAML) whose data hold the training rows and the new ones")
       ->required();
-  cmd->add_option("CONFIG", args->config,
-                  "Run configuration (YAML) whose data hold the training rows and the new ones")
-      ->required();
-  cmd->add_option("--out", args->out,
-                  "Output folder (default: <output.dir of the config>/revalidation)");
+  cmd->add_option("--out", args->out, "Output folder (default: <output.dir of the config>/revalidation)");
   cmd->add_flag("--allow-revised-history", args->allow_revised_history,
                 "Go on when the training rows differ from the data the model was trained on");
   cmd->add_flag("--json", args->json, "Print the JSON summary instead of the readable one");
   cmd->add_flag("--quiet", args->quiet, "No progress on stderr");
-  cmd->add_option("--threads", args->threads,
-                  "Worker threads (default: search.threads; 0 = all cores)");
+  cmd->add_option("--threads", args->threads, "Worker threads (default: search.threads; 0 = all cores)");
   cmd->add_option("--alpha", args->alpha, "False-alarm level of a verdict other than keep")
       ->capture_default_str();
   cmd->add_option("--drift-threshold", args->drift_threshold,
