@@ -6,6 +6,8 @@
 #include <filesystem>
 #include <fstream>
 
+#include <nlohmann/json.hpp>
+
 #include "io/csv.h"
 #include "model/simulate.h"
 #include "panel_util.h"
@@ -67,6 +69,15 @@ TEST(BatchCli, SeriesOptionRunsOnlyTheNamedSeries) {
   ASSERT_EQ(summary.row_count(), 2);
   EXPECT_EQ(summary.rows[0][0], "zone_000");
   EXPECT_EQ(summary.rows[1][0], "zone_002");
+  // Resumed: every candidate comes from the run's journal, for each series.
+  const auto again = run_lagsieve(
+      dir, "search panel.yaml --out run --quiet --resume --series zone_002 --series zone_000");
+  EXPECT_EQ(again.code, 0) << again.err;
+  const auto resumed = nlohmann::json::parse(slurp(dir / "run" / "summary.json"));
+  for (const auto& row : resumed.at("series")) {
+    EXPECT_EQ(row.at("fitted"), 0) << row.dump();
+    EXPECT_EQ(row.at("resumed"), 64) << row.dump();
+  }
   const auto unknown = run_lagsieve(dir, "search panel.yaml --out run2 --quiet --series zone_9");
   EXPECT_EQ(unknown.code, 2);
   EXPECT_NE(unknown.err.find("--series 'zone_9'"), std::string::npos) << unknown.err;
