@@ -135,7 +135,9 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
   // Accuracy against the best model without inputs.
   int backtested = 0, beats = 0, better = 0, worse = 0;
   for (const auto& s : rows) {
-    if (!std::isfinite(s.backtest_score) || !std::isfinite(s.benchmark_score)) continue;
+    if (s.status != SeriesStatus::ok || !std::isfinite(s.backtest_score) ||
+        !std::isfinite(s.benchmark_score))
+      continue;
     ++backtested;
     if (s.beats_benchmark(options.level))
       ++beats;
