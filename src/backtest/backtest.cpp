@@ -402,9 +402,7 @@ BacktestResult run_backtest(const SeriesData& data,
   }
   result.row_times = data.time;
   result.models.resize(candidates.size());
-  const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
-  tbb::task_arena arena(threads);
-  arena.execute([&] {
+  run_in_arena(options.threads, [&] {
     tbb::parallel_for(size_t{0}, candidates.size(), [&](size_t i) {
       result.models[i] = backtest_one(data, candidates[i], options, result.origins);
     });

@@ -6,6 +6,9 @@
 #include <string>
 #include <vector>
 
+#include <tbb/info.h>
+#include <tbb/task_arena.h>
+
 #include "core/config.h"
 #include "core/series.h"
 #include "evaluation/diebold_mariano.h"
@@ -13,6 +16,22 @@
 #include "forecast/fitted_model.h"
 
 namespace lagsieve {
+
+// Thread counts of the parallel stages (search, backtest): > 0 that many workers in an arena of
+// their own, 0 all cores, kInCallerArena the caller's task arena. A batch of series runs its
+// series in one arena and the candidates of each series as tasks of that same arena, so series
+// and candidates share one pool of workers (never more threads than asked); the work is
+// isolated, so a thread waiting for its own candidates never picks up another series midway.
+inline constexpr int kInCallerArena = -1;
+template <class Body>
+void run_in_arena(int threads, Body&& body) {
+  if (threads == kInCallerArena) {
+    tbb::this_task_arena::isolate(body);
+    return;
+  }
+  tbb::task_arena arena(threads > 0 ? threads : tbb::info::default_concurrency());
+  arena.execute(body);
+}
 
 struct BacktestOptions {
   int first_origin = 0;                 // row of the first origin (forecasts start there)
@@ -25,7 +44,7 @@ struct BacktestOptions {
   AccuracyMeasure score = AccuracyMeasure::mase;  // overall score: mean over horizons 1..K
   int season = 1;                       // period of the MASE scale and of the naive benchmark
   int start = -1;                       // first differenced index of every fit (-1: the spec's)
-  int threads = 0;                      // 0: all cores
+  int threads = 0;                      // 0: all cores; kInCallerArena: the caller's arena
 };
 
 // Validated options from the config (InputError naming the backtest key otherwise).

@@ -7,6 +7,7 @@
 #include <string>
 
 #include "backtest/backtest.h"
+#include "cli/batch_run.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "core/error.h"
@@ -25,8 +26,12 @@ std::string range(const IntRange& r) {
   return r.min == r.max ? std::to_string(r.min) : fmt::format("{}..{}", r.min, r.max);
 }
 
-int validate(const std::string& path) {
-  const LoadedRun run = load_run(path);
+int validate(const std::string& path, const std::vector<std::string>& only) {
+  {
+    const RunConfig config = load_config(path);
+    if (!config.data.series_key.empty()) return validate_panel_command(config, only);
+  }
+  const LoadedRun run = load_run(path, only);
   const RunConfig& c = run.config;
   const SeriesData& first = run.series.front();
   fmt::print("config     {}\n", c.config_file.string());
@@ -59,8 +64,7 @@ int validate(const std::string& path) {
                          std::count(in.at.begin(), in.at.end(), ';') + 1);
     else if (in.is_event)
       kind = fmt::format("{} event at {} (row {})", to_string(in.shape), in.at,
-                         event_row(in, first.time, c.config_file.string(), first.time_format) +
-                             1);
+                         event_row(in, first.time, c.config_file.string(), first.time_format) + 1);
     fmt::print("input      {}: {}; delay {}, numerator {}, denominator {}{}, future {}\n", in.name,
                kind, range(in.delay), range(in.numerator), range(in.denominator),
                in.optional ? ", optional" : "", to_string(in.future));
@@ -130,8 +134,12 @@ void register_validate(CLI::App& app) {
   auto* cmd = app.add_subcommand(
       "validate", "Check a config and its data without fitting anything; print a summary");
   auto path = std::make_shared<std::string>();
+  auto only = std::make_shared<std::vector<std::string>>();
   cmd->add_option("CONFIG", *path, "Run configuration (YAML)")->required();
-  cmd->callback([path] { finish(run_command([&] { return validate(*path); })); });
+  cmd->add_option("--series", *only, "Check only this series (key or target column); repeatable")
+      ->expected(1)
+      ->take_all();
+  cmd->callback([path, only] { finish(run_command([&] { return validate(*path, *only); })); });
 }
 
 }  // namespace lagsieve::cli

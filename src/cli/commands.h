@@ -13,5 +13,6 @@ void register_backtest(CLI::App& app);
 void register_revalidate(CLI::App& app);
 void register_report(CLI::App& app);
 void register_simulate(CLI::App& app);
+void register_merge(CLI::App& app);
 
 }  // namespace lagsieve::cli

@@ -1,10 +1,13 @@
 #include "cli/common.h"
 
+#include <fmt/format.h>
 #include <CLI/CLI.hpp>
 #include <exception>
-#include <fmt/format.h>
+
+#include <algorithm>
 
 #include "core/error.h"
+#include "core/names.h"
 #include "data/load.h"
 #include "io/config.h"
 
@@ -48,9 +51,25 @@ void require_file(const std::string& path, const std::string& option) {
         fmt::format("{} '{}' is not a file (a folder?); give a CSV file", option, path));
 }
 
-LoadedRun load_run(const std::filesystem::path& config_file) {
+void select_target_columns(RunConfig& config, const std::vector<std::string>& only) {
+  if (only.empty()) return;
+  for (const auto& name : only)
+    if (std::find(config.target.columns.begin(), config.target.columns.end(), name) ==
+        config.target.columns.end()) {
+      const auto guess = closest_match(name, config.target.columns);
+      throw InputError(fmt::format(
+          "--series '{}': not a series of {} (target.columns){}", name, config.config_file.string(),
+          guess.empty() ? "" : fmt::format("; did you mean '{}'?", guess)));
+    }
+  std::erase_if(config.target.columns, [&](const std::string& c) {
+    return std::find(only.begin(), only.end(), c) == only.end();
+  });
+}
+
+LoadedRun load_run(const std::filesystem::path& config_file, const std::vector<std::string>& only) {
   LoadedRun run;
   run.config = load_config(config_file);
+  select_target_columns(run.config, only);
   run.series = load_series(run.config);
   apply_seasonal_default(run.config, run.series.front());
   return run;

@@ -13,9 +13,10 @@ namespace lagsieve::cli {
 
 // Exit codes of every command (documented in the README).
 inline constexpr int kExitOk = 0;
-inline constexpr int kExitBadInput = 2;        // InputError: config, CSV, model file, options
-inline constexpr int kExitInternal = 3;        // numerical failure or a bug
-inline constexpr int kExitNoModel = 4;         // `search`: no usable candidate, no model file
+inline constexpr int kExitBadInput = 2;          // InputError: config, CSV, model file, options
+inline constexpr int kExitInternal = 3;          // numerical failure or a bug
+inline constexpr int kExitNoModel = 4;           // `search`: no usable candidate, no model file
+inline constexpr int kExitSomeSeriesFailed = 5;  // `search` of many series: some failed, rest done
 inline constexpr int kExitRefitAdvised = 10;     // `revalidate`: verdict refit
 inline constexpr int kExitReplaceAdvised = 11;   // `revalidate`: verdict replace
 
@@ -39,7 +40,12 @@ int checked_threads(const std::optional<int>& option, int config_value);
 // given on the command line is blamed on its option, not on the config's data.file).
 void require_file(const std::string& path, const std::string& option);
 
-// Reads and validates the config, then loads and checks the data of every target column.
-LoadedRun load_run(const std::filesystem::path& config_file);
+// Reads and validates the config, then loads and checks the data of every target column (only
+// the columns in `only` when it is not empty: `--series` on a wide panel).
+LoadedRun load_run(const std::filesystem::path& config_file,
+                   const std::vector<std::string>& only = {});
+
+// Keeps only the target columns named in `only` (each must be one: InputError naming it).
+void select_target_columns(RunConfig& config, const std::vector<std::string>& only);
 
 }  // namespace lagsieve::cli

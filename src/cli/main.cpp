@@ -28,6 +28,7 @@ int main(int argc, char** argv) {
   cli::register_revalidate(app);
   cli::register_report(app);
   cli::register_simulate(app);
+  cli::register_merge(app);
 
   try {
     app.parse(argc, argv);

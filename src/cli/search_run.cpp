@@ -1,8 +1,11 @@
 #include "cli/search_run.h"
 
+#include "cli/batch_run.h"
+#include "io/config.h"
+
 #include <fmt/format.h>
-#include <limits>
 #include <unistd.h>
+#include <limits>
 
 #include <algorithm>
 #include <chrono>
@@ -30,44 +33,17 @@ namespace lagsieve::cli {
 
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what) {
   if (quiet || !::isatty(STDERR_FILENO)) return {};
-  const auto t0 = std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
+  const auto t0 =
+      std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
   return [t0, what](int done, int total) {
-    const double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
+    const double secs =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
     const double rate = secs > 0 ? done / secs : 0.0;
     const double left = rate > 0 ? (total - done) / rate : 0.0;
-    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total, rate,
-               std::max(left, 0.0));
+    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total,
+               rate, std::max(left, 0.0));
     if (done >= total) fmt::print(stderr, "\n");
   };
-}
-
-void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
-                           const SeriesData& data, const RunConfig& config) {
-  ForecastOptions options;
-  options.horizon = config.forecast.horizon > 0 ? config.forecast.horizon
-                    : config.backtest.enabled   ? config.backtest.horizon
-                                                : 12;
-  options.levels = config.forecast.levels;
-  options.parameter_uncertainty = config.forecast.parameter_uncertainty;
-  nlohmann::json j;
-  j["series"] = data.target_name;
-  j["horizon"] = options.horizon;
-  try {
-    j["forecast"] = forecast_to_json(forecast(model, data, {}, options));
-  } catch (const InputError& e) {
-    // Inputs declared known need future values the search does not have.
-    j["forecast"] = nullptr;
-    j["note"] = std::string("no forecast from the end of the data: ") + e.what();
-  }
-  const int tail = std::min(data.rows(), 4 * options.horizon);
-  // Observed values only: a missing or interpolated value is written as null (never shown as
-  // an observation).
-  std::vector<double> values;
-  for (int t = data.rows() - tail; t < data.rows(); ++t)
-    values.push_back(data.observed(t) ? data.target[t] : std::numeric_limits<double>::quiet_NaN());
-  j["history"] = {{"time", std::vector<std::string>(data.time.end() - tail, data.time.end())},
-                  {"values", values}};
-  write_file_atomic(path, j.dump(1) + "\n");
 }
 
 namespace {
@@ -90,30 +66,14 @@ void print_search_outliers(const SearchOutliers& o) {
   for (const auto& e : o.effects) fmt::print("    {}\n", describe_effect(e));
 }
 
-// Why a series has no usable candidate: the statuses counted and the most frequent message.
-std::string no_candidate_reason(const SearchResult& r) {
-  std::map<std::string, int> statuses, messages;
-  for (const auto& row : r.rows) {
-    ++statuses[std::string(to_string(row.status))];
-    if (!row.message.empty()) ++messages[row.message];
-  }
-  std::string counts;
-  for (const auto& [status, n] : statuses)
-    counts += fmt::format("{}{} {}", counts.empty() ? "" : ", ", n, status);
-  std::string why;
-  int most = 0;
-  for (const auto& [message, n] : messages)
-    if (n > most) most = n, why = message;
-  return fmt::format(
-      "series '{}': no usable candidate among {} ({}){}", r.series, r.rows.size(),
-      counts.empty() ? "none fitted" : counts,
-      why.empty() ? "" : fmt::format("; most often ({} of {}): {}", most, r.rows.size(), why));
-}
-
 }  // namespace
 
 int run_search_command(const SearchArgs& args) {
-  const LoadedRun run = load_run(args.config);
+  {
+    const RunConfig config = load_config(args.config);
+    if (!config.data.series_key.empty()) return run_batch_search_command(args, config);
+  }
+  const LoadedRun run = load_run(args.config, args.series);
   const RunConfig& config = run.config;
   const int threads = checked_threads(args.threads, config.search.threads);
   if (args.out && args.out->empty()) check_run_dir_path("", "--out");
@@ -165,7 +125,7 @@ int run_search_command(const SearchArgs& args) {
     write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
                       to_json(screen).dump(1) + "\n");
     if (!r.has_leader()) {
-      without_model.push_back(no_candidate_reason(r));
+      without_model.push_back(fmt::format("series '{}': {}", r.series, no_candidate_reason(r)));
       continue;
     }
     // With detected effects: the data with their columns, and the leader's set in its model file.

@@ -5,6 +5,7 @@
 #include <string>
 #include <vector>
 
+#include "batch/series_job.h"
 #include "cli/common.h"
 #include "forecast/fitted_model.h"
 #include "search/search.h"
@@ -18,14 +19,12 @@ struct SearchArgs {
   bool quiet = false;
   std::optional<int> threads;
   bool no_backtest = false;
+  std::vector<std::string> series;   // --series: run only these (keys, or target columns)
+  std::optional<std::string> shard;  // --shard K/N (long-format panels)
 };
 
 // Progress line on stderr, only when stderr is a terminal and not --quiet.
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what);
-
-// forecast.json: the leader's forecast from the end of the data plus the recent history.
-void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
-                           const SeriesData& data, const RunConfig& config);
 
 int run_search_command(const SearchArgs& args);
 

@@ -40,6 +40,10 @@ struct DataConfig {
   // interpolate, else error).
   std::optional<MissingPolicy> missing_inputs;
   GapPolicy gaps = GapPolicy::insert;       // a missing period of a regular calendar
+  // Long format: the column that names the series. "" = one series per target column (wide).
+  // With a key, each distinct value is a series with its own rows, time range and input values
+  // (data/panel.h); the target is one column (`target.column`).
+  std::string series_key;
   MissingPolicy input_policy() const {
     if (missing_inputs) return *missing_inputs;
     return missing == MissingPolicy::interpolate ? MissingPolicy::interpolate

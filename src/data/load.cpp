@@ -415,6 +415,12 @@ SeriesData load_series_from_csv(const RunConfig& config, const std::filesystem::
 }
 
 std::vector<SeriesData> load_series(const RunConfig& config) {
+  if (!config.data.series_key.empty())
+    throw InputError(fmt::format(
+        "{}: data.series_key: a long-format panel (one row per series and time) is run by "
+        "`lagsieve search` and checked by `lagsieve validate`; for one series, write its rows to "
+        "a file of its own",
+        config.config_file.string()));
   const CsvTable table = read_csv(config.data.file);
   std::vector<SeriesData> out;
   out.reserve(config.target.columns.size());

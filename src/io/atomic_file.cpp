@@ -3,10 +3,12 @@
 #include <fcntl.h>
 #include <unistd.h>
 
+#include <fmt/format.h>
 #include <atomic>
 #include <cerrno>
 #include <cstring>
-#include <fmt/format.h>
+#include <functional>
+#include <optional>
 #include <string>
 
 #include "core/error.h"
@@ -15,9 +17,10 @@ namespace lagsieve {
 namespace {
 
 [[noreturn]] void fail(const std::filesystem::path& path, const char* action, int err) {
-  throw InputError(fmt::format("cannot {} '{}': {}; check that the folder exists, is writable "
-                               "and the disk is not full",
-                               action, path.string(), std::strerror(err)));
+  throw InputError(
+      fmt::format("cannot {} '{}': {}; check that the folder exists, is writable "
+                  "and the disk is not full",
+                  action, path.string(), std::strerror(err)));
 }
 
 // Writes all of `data`, retrying short writes and interrupted calls.
@@ -50,9 +53,8 @@ void sync_folder(const std::filesystem::path& path) {
   ::close(fd);
 }
 
-}  // namespace
-
-void write_file_atomic(const std::filesystem::path& path, std::string_view content) {
+// Temporary file beside `path`, filled by `body` (false: a write failed), fsync, rename.
+void write_atomic_with(const std::filesystem::path& path, const std::function<bool(int)>& body) {
   ensure_parent(path);
   // Unique per process and call, so concurrent writers (threads or processes) never share it.
   static std::atomic<unsigned> counter{0};
@@ -60,7 +62,15 @@ void write_file_atomic(const std::filesystem::path& path, std::string_view conte
   tmp += fmt::format(".tmp.{}.{}", ::getpid(), counter.fetch_add(1));
   const int fd = ::open(tmp.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0644);
   if (fd < 0) fail(tmp, "create", errno);
-  if (!write_all(fd, content) || ::fsync(fd) != 0) {
+  bool ok = true;
+  try {
+    ok = body(fd);
+  } catch (...) {
+    ::close(fd);
+    ::unlink(tmp.c_str());
+    throw;
+  }
+  if (!ok || ::fsync(fd) != 0) {
     const int err = errno;
     ::close(fd);
     ::unlink(tmp.c_str());
@@ -77,6 +87,21 @@ void write_file_atomic(const std::filesystem::path& path, std::string_view conte
     fail(path, "replace", err);
   }
   sync_folder(path);
+}
+
+}  // namespace
+
+void write_file_atomic(const std::filesystem::path& path, std::string_view content) {
+  write_atomic_with(path, [&](int fd) { return write_all(fd, content); });
+}
+
+void write_file_atomic_chunks(const std::filesystem::path& path,
+                              const std::function<std::optional<std::string>()>& next_chunk) {
+  write_atomic_with(path, [&](int fd) {
+    for (auto chunk = next_chunk(); chunk; chunk = next_chunk())
+      if (!write_all(fd, *chunk)) return false;
+    return true;
+  });
 }
 
 void append_line_durable(const std::filesystem::path& path, std::string_view line) {

@@ -101,7 +101,8 @@ fs::path resolve(const fs::path& base_dir, const std::string& p) {
 
 void read_data(const Reader& rd, const YAML::Node& node, const fs::path& base, DataConfig& data) {
   const std::string path = "data";
-  rd.check_map(node, path, {"file", "time", "time_format", "missing", "missing_inputs", "gaps"});
+  rd.check_map(node, path,
+               {"file", "time", "time_format", "missing", "missing_inputs", "gaps", "series_key"});
   if (!node["file"]) rd.fail(node, path, "missing key `file` (the CSV file with the series)");
   data.file = resolve(base, rd.get_string(node["file"], "data.file"));
   if (const auto n = node["time"]; n && !n.IsNull()) data.time = rd.get_string(n, "data.time");
@@ -116,6 +117,16 @@ void read_data(const Reader& rd, const YAML::Node& node, const fs::path& base, D
               "use `interpolate` or `error`");
   }
   if (const auto n = node["gaps"]) data.gaps = rd.get_enum<GapPolicy>(n, "data.gaps");
+  if (const auto n = node["series_key"]; n && !n.IsNull()) {
+    data.series_key = rd.get_string(n, "data.series_key");
+    if (data.series_key.empty())
+      rd.fail(n, "data.series_key", "the column name is empty; name the column of series keys");
+    if (data.series_key == data.time)
+      rd.fail(n, "data.series_key",
+              fmt::format("'{}' is also data.time; the key names the series, the time column "
+                          "orders the rows of each",
+                          data.series_key));
+  }
 }
 
 void read_target(const Reader& rd, const YAML::Node& node, TargetConfig& target) {
@@ -495,6 +506,15 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
   read_data(rd, root["data"], base, cfg.data);
   read_target(rd, root["target"], cfg.target);
   if (const auto n = root["differencing"]) read_differencing(rd, n, cfg.differencing);
+  if (!cfg.data.series_key.empty()) {
+    if (cfg.target.columns.size() != 1)
+      rd.fail(root["target"], "target.columns",
+              "with `data.series_key` (long format) the target is one column: give "
+              "`target.column`; each key value of the data is a series");
+    if (cfg.target.columns.front() == cfg.data.series_key)
+      rd.fail(root["data"]["series_key"], "data.series_key",
+              fmt::format("'{}' is also the target column", cfg.data.series_key));
+  }
 
   if (const auto n = root["inputs"]; n && !n.IsNull()) {
     if (!n.IsSequence())
@@ -509,6 +529,11 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
       read_input(rd, n[i], path, in);
       if (!names.insert(in.name).second)
         rd.fail(n[i], path, fmt::format("input '{}' is listed twice", in.name));
+      if (!in.is_event && in.name == cfg.data.series_key)
+        rd.fail(n[i], path + ".column",
+                fmt::format("'{}' is data.series_key, which names the series; it is not a "
+                            "number to model",
+                            in.name));
       for (const auto& t : cfg.target.columns)
         if (!in.is_event && t == in.name)
           rd.fail(n[i], path + ".column",

@@ -204,7 +204,12 @@ bool is_run_entry(const std::string& name) {
                                       kRunLockFile,
                                       kRunMarkerFile,
                                       "refit_model.json",
-                                      "challenger_model.json"};
+                                      "challenger_model.json",
+                                      // runs of many series (src/batch/)
+                                      "series",
+                                      "summary.csv",
+                                      "summary.json",
+                                      "shard.json"};
   for (const char* e : exact)
     if (name == e) return true;
   for (const char* n : kNested)

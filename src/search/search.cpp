@@ -13,6 +13,7 @@
 #include <mutex>
 #include <set>
 
+#include "backtest/backtest.h"
 #include "core/error.h"
 #include "core/names.h"
 #include "model/likelihood.h"
@@ -154,7 +155,7 @@ namespace {
 class Evaluator {
  public:
   Evaluator(const SeriesData& data, int start, const SearchOptions& options, int threads)
-      : data_(data), start_(start), options_(options), arena_(threads) {}
+      : data_(data), start_(start), options_(options), threads_(threads) {}
 
   // Fits every spec not seen before (journal rows are reused); returns their rows in input order.
   std::vector<CandidateRow> evaluate(const std::vector<ModelSpec>& specs, int total_hint) {
@@ -171,7 +172,7 @@ class Evaluator {
         todo.push_back(i);
       }
     }
-    arena_.execute([&] {
+    run_in_arena(threads_, [&] {
       tbb::parallel_for(tbb::blocked_range<size_t>(0, todo.size(), 1), [&](const auto& range) {
         for (size_t k = range.begin(); k != range.end(); ++k) {
           const size_t i = todo[k];
@@ -198,7 +199,7 @@ class Evaluator {
   const SeriesData& data_;
   int start_;
   const SearchOptions& options_;
-  tbb::task_arena arena_;
+  int threads_;
   std::mutex mutex_;
   int done_ = 0;
   int fitted_ = 0;
@@ -213,8 +214,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   SearchResult result;
   result.series = data.target_name;
   result.start = common_start(config);
-  const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
-  Evaluator evaluator(data, result.start, options, threads);
+  Evaluator evaluator(data, result.start, options, options.threads);
   const CandidateGrid grid = full_grid(config);
 
   if (config.search.strategy != Strategy::exhaustive) result.screen = screen_series(data, config);

@@ -58,7 +58,7 @@ CandidateRow candidate_row_from_json(const nlohmann::json& j, const ModelSpec& s
 
 // How to run a search; what to search (strategy, criterion, budget) is the config's `search`.
 struct SearchOptions {
-  int threads = 0;             // 0: all cores
+  int threads = 0;             // 0: all cores; kInCallerArena (backtest.h): the caller's arena
   Journal* journal = nullptr;  // rows found there are reused; new rows are appended
   // Called after every finished candidate (from worker threads, serialised by the search).
   std::function<void(int done, int total)> progress;

@@ -1,0 +1,127 @@
+#!/usr/bin/env python3
+"""Many series in one run: series per CPU-second with and without the backtest, the speed-up from
+1 to 2 threads, peak memory at two panel sizes and the size of the run folder. Not a test: it
+prints what it measured, ratios side by side.
+
+The panel: N series x ROWS daily rows in long format, two drivers per series (x1 with b in 0..3,
+r and s in 0..1 varying by series; x2 with b in 0..1), AR(1) or ARMA(2,1) noise by series; numpy
+with a fixed seed.
+
+    benchmarks/many_series.py BUILD/lagsieve [--series 100 300] [--rows 730]
+"""
+import argparse
+import json
+import os
+import subprocess
+import sys
+import tempfile
+from pathlib import Path
+
+import numpy as np
+
+
+def panel(path, count, rows, seed=7):
+    rng = np.random.default_rng(seed)
+    dates = np.arange(np.datetime64("2022-01-01"), np.datetime64("2022-01-01") + rows)
+    with open(path, "w") as f:
+        f.write("zone,date,y,x1,x2\n")
+        for i in range(count):
+            b1, s1, r1, b2 = i % 4, (i // 4) % 2, (i // 8) % 2, (i // 16) % 2
+            burn = 100
+            n = rows + burn
+            x = np.zeros((2, n))
+            for k in range(2):
+                e = rng.normal(size=n)
+                for t in range(1, n):
+                    x[k, t] = 0.5 * x[k, t - 1] + e[t]
+            def tf(u, b, s, r, w0, w1, d):
+                v = np.zeros(n)
+                for t in range(n):
+                    num = w0 * (u[t - b] if t - b >= 0 else 0.0)
+                    if s and t - b - 1 >= 0:
+                        num += w1 * u[t - b - 1]
+                    v[t] = num + (d * v[t - 1] if r and t > 0 else 0.0)
+                return v
+            a = rng.normal(size=n)
+            noise = np.zeros(n)
+            arma21 = i % 3 == 0
+            for t in range(2, n):
+                if arma21:
+                    noise[t] = 0.5 * noise[t - 1] + 0.2 * noise[t - 2] + a[t] + 0.3 * a[t - 1]
+                else:
+                    noise[t] = 0.6 * noise[t - 1] + a[t]
+            y = 10 + tf(x[0], b1, s1, r1, 2.0, 1.0, 0.5) + tf(x[1], b2, 0, 0, 1.0, 0, 0) + noise
+            for t in range(burn, n):
+                f.write(f"z{i:04d},{dates[t - burn]},{y[t]:.6g},{x[0, t]:.6g},{x[1, t]:.6g}\n")
+
+
+CONFIG = """data:
+  file: panel.csv
+  time: date
+  series_key: zone
+target:
+  column: y
+inputs:
+  - column: x1
+    delay: [0, 3]
+    numerator: [0, 1]
+    denominator: [0, 1]
+  - column: x2
+    delay: [0, 1]
+noise:
+  ar: [1, 2]
+  ma: [0, 1]
+  constant: true
+{backtest}"""
+
+BACKTEST = """backtest:
+  first_origin: 640
+  step: 30
+  horizon: 7
+  shortlist: 3
+  refit: 0
+"""
+
+
+def run(binary, folder, threads, backtest, out):
+    (folder / "panel.yaml").write_text(CONFIG.format(backtest=BACKTEST if backtest else ""))
+    cmd = ["/usr/bin/time", "-f", "%e %U %S %M", binary, "search", "panel.yaml", "--out", out,
+           "--threads", str(threads), "--quiet"]
+    p = subprocess.run(cmd, cwd=folder, capture_output=True, text=True)
+    wall, user, sys_, rss = p.stderr.strip().splitlines()[-1].split()
+    size = sum(f.stat().st_size for f in (folder / out).rglob("*") if f.is_file())
+    files = sum(1 for f in (folder / out).rglob("*") if f.is_file())
+    return {"code": p.returncode, "wall": float(wall), "cpu": float(user) + float(sys_),
+            "rss_mb": int(rss) / 1024, "folder_mb": size / 1e6, "files": files}
+
+
+def main():
+    ap = argparse.ArgumentParser()
+    ap.add_argument("binary")
+    ap.add_argument("--series", type=int, nargs=2, default=[100, 300])
+    ap.add_argument("--rows", type=int, default=730)
+    args = ap.parse_args()
+    binary = os.path.abspath(args.binary)
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        small, large = args.series
+        panel(folder / "panel.csv", small, args.rows)
+        r1 = run(binary, folder, 1, False, "t1")
+        r2 = run(binary, folder, 2, False, "t2")
+        rb = run(binary, folder, 2, True, "bt")
+        print(f"{small} series x {args.rows} rows, 32 candidates per series")
+        for name, r in (("1 thread, no backtest", r1), ("2 threads, no backtest", r2),
+                        ("2 threads, backtest", rb)):
+            print(f"  {name:24s} exit {r['code']}  wall {r['wall']:7.2f} s  cpu {r['cpu']:7.2f} s  "
+                  f"series/cpu-s {small / r['cpu']:6.2f}  peak {r['rss_mb']:6.1f} MB  "
+                  f"folder {r['folder_mb']:6.1f} MB in {r['files']} files")
+        print(f"  speed-up 1 -> 2 threads (wall): {r1['wall'] / r2['wall']:.2f}x")
+        panel(folder / "panel.csv", large, args.rows)
+        rl = run(binary, folder, 2, False, "large")
+        print(f"{large} series: wall {rl['wall']:.2f} s, peak {rl['rss_mb']:.1f} MB; peak ratio "
+              f"{large} / {small} series: {rl['rss_mb'] / r2['rss_mb']:.2f}; "
+              f"csv {os.path.getsize(folder / 'panel.csv') / 1e6:.1f} MB")
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,294 @@
+#include "batch/series_job.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <map>
+#include <optional>
+
+#include "core/error.h"
+#include "core/names.h"
+#include "data/load.h"
+#include "forecast/forecast.h"
+#include "forecast/model_file.h"
+#include "io/atomic_file.h"
+#include "io/csv.h"
+#include "screen/screen.h"
+#include "search/leaderboard.h"
+#include "search/run_folder.h"
+#include "search/search_outliers.h"
+#include "search/shortlist.h"
+
+namespace lagsieve {
+
+const char* to_string(SeriesStatus s) {
+  switch (s) {
+    case SeriesStatus::ok:
+      return "ok";
+    case SeriesStatus::no_usable_candidate:
+      return "no_usable_candidate";
+    case SeriesStatus::bad_data:
+      return "bad_data";
+    case SeriesStatus::failed:
+      return "failed";
+  }
+  return "failed";
+}
+
+void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+                           const SeriesData& data, const RunConfig& config) {
+  ForecastOptions options;
+  options.horizon = config.forecast.horizon > 0 ? config.forecast.horizon
+                    : config.backtest.enabled   ? config.backtest.horizon
+                                                : 12;
+  options.levels = config.forecast.levels;
+  options.parameter_uncertainty = config.forecast.parameter_uncertainty;
+  nlohmann::json j;
+  j["series"] = data.target_name;
+  j["horizon"] = options.horizon;
+  try {
+    j["forecast"] = forecast_to_json(forecast(model, data, {}, options));
+  } catch (const InputError& e) {
+    // Inputs declared known need future values the search does not have.
+    j["forecast"] = nullptr;
+    j["note"] = std::string("no forecast from the end of the data: ") + e.what();
+  }
+  const int tail = std::min(data.rows(), 4 * options.horizon);
+  // Observed values only: a missing or interpolated value is written as null (never shown as
+  // an observation).
+  std::vector<double> values;
+  for (int t = data.rows() - tail; t < data.rows(); ++t)
+    values.push_back(data.observed(t) ? data.target[t] : std::numeric_limits<double>::quiet_NaN());
+  j["history"] = {{"time", std::vector<std::string>(data.time.end() - tail, data.time.end())},
+                  {"values", values}};
+  write_file_atomic(path, j.dump(1) + "\n");
+}
+
+std::string no_candidate_reason(const SearchResult& r) {
+  std::map<std::string, int> statuses, messages;
+  for (const auto& row : r.rows) {
+    ++statuses[std::string(to_string(row.status))];
+    if (!row.message.empty()) ++messages[row.message];
+  }
+  std::string counts;
+  for (const auto& [status, n] : statuses)
+    counts += fmt::format("{}{} {}", counts.empty() ? "" : ", ", n, status);
+  std::string why;
+  int most = 0;
+  for (const auto& [message, n] : messages)
+    if (n > most) most = n, why = message;
+  return fmt::format(
+      "no usable candidate among {} ({}){}", r.rows.size(), counts.empty() ? "none fitted" : counts,
+      why.empty() ? "" : fmt::format("; most often ({} of {}): {}", most, r.rows.size(), why));
+}
+
+namespace {
+
+void fill_leader(SeriesSummary& s, const SearchResult& r, const RunConfig& config) {
+  const CandidateRow& top = r.rows.front();
+  s.leader = top.key;
+  s.criterion = top.criterion(config.search.criterion);
+  s.ljung_box_p = top.ljung_box_p;
+  for (const auto& ic : config.inputs) {
+    LeaderInput in{ic.name};
+    for (const auto& term : top.spec.inputs)
+      if (term.name == ic.name)
+        in = {ic.name, true, term.order.delay, term.order.numerator, term.order.denominator};
+    s.inputs.push_back(in);
+  }
+  s.ar = top.spec.noise.p;
+  s.ma = top.spec.noise.q;
+  s.seasonal_ar = top.spec.noise.seasonal_p;
+  s.seasonal_ma = top.spec.noise.seasonal_q;
+  s.constant = top.spec.constant;
+}
+
+void fill_backtest(SeriesSummary& s, const ShortlistBacktest& bt) {
+  const auto& res = bt.result;
+  if (res.leader < 0) return;
+  const auto& leader = res.models[res.leader];
+  s.backtest_score = leader.score;
+  for (size_t i = 0; i < res.models.size(); ++i) {
+    // The first benchmark of the shortlist plan is the best model without inputs.
+    if (!res.models[i].benchmark || bt.candidates[i].kind != BacktestCandidate::Kind::model)
+      continue;
+    s.benchmark_score = res.models[i].score;
+    for (const auto& c : res.comparisons)
+      if (c.challenger == res.models[i].name && c.horizon == 1 && c.tested)
+        s.benchmark_p = c.test.p_value;
+    break;
+  }
+}
+
+void write_series_files(const std::filesystem::path& dir, const SeriesData& data,
+                        const RunConfig& config, SearchResult& r,
+                        const std::optional<ShortlistBacktest>& bt, SeriesSummary& s) {
+  if (bt) {
+    const auto& res = bt->result;
+    write_file_atomic(dir / run_files::kBacktest, backtest_csv(res));
+    write_file_atomic(dir / run_files::kAccuracy, accuracy_csv(res));
+    write_file_atomic(dir / run_files::kComparisons, comparisons_csv(res));
+    write_file_atomic(dir / run_files::kInputValue, input_value_csv(res));
+  }
+  const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
+  write_file_atomic(dir / run_files::kScreen, to_json(screen).dump(1) + "\n");
+  write_file_atomic(dir / run_files::kLeaderboardCsv, leaderboard_csv(r.rows, config));
+  write_file_atomic(dir / run_files::kLeaderboardJson,
+                    leaderboard_json(r.rows, config, {r}).dump(1) + "\n");
+  if (s.status != SeriesStatus::ok) return;
+  // With detected effects: the data with their columns, and the leader's set in its model file.
+  const SeriesData fitted = search_data(data, r);
+  FittedModel model = make_fitted_model(
+      r.leader, config, fitted,
+      r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
+  if (bt && bt->result.leader >= 0)
+    model.backtest = accuracy_json(bt->result.models[bt->result.leader], bt->options);
+  save_model(dir / run_files::model_file(r.series, false), model);
+  auto fit_json = fit_to_json(r.leader);
+  fit_json["series"] = r.series;
+  fit_json["frequency"] = data.frequency;
+  fit_json["missing"] = describe_missing(data);
+  if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
+  if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
+  write_file_atomic(dir / run_files::kFit, fit_json.dump(1) + "\n");
+  write_leader_forecast(dir / run_files::kForecast, model, fitted, config);
+}
+
+}  // namespace
+
+SeriesSummary bad_series_summary(const std::string& series, const std::string& folder,
+                                 const std::string& reason) {
+  SeriesSummary s;
+  s.series = series;
+  s.folder = folder;
+  s.status = SeriesStatus::bad_data;
+  s.reason = reason;
+  return s;
+}
+
+SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
+                             const SeriesJobOptions& options) {
+  const auto t0 = std::chrono::steady_clock::now();
+  SeriesSummary s;
+  s.series = data.target_name;
+  s.rows = data.rows();
+  if (!data.time.empty()) s.first_time = data.time.front(), s.last_time = data.time.back();
+  try {
+    SearchOptions so;
+    so.threads = options.threads;
+    so.journal = options.journal;
+    so.progress = options.progress;
+    SearchResult r = run_search(data, config, so);
+    std::optional<ShortlistBacktest> bt;
+    if (config.backtest.enabled && options.backtest && r.has_leader())
+      bt = backtest_shortlist(data, config, r, options.threads);
+    s.candidates = static_cast<int>(r.rows.size());
+    s.fitted = r.fitted;
+    s.resumed = r.resumed;
+    for (const auto& row : r.rows) s.usable += row.rankable() ? 1 : 0;
+    s.warnings = r.warnings;
+    if (r.has_leader()) {
+      s.status = SeriesStatus::ok;
+      fill_leader(s, r, config);
+      if (bt) fill_backtest(s, *bt);
+    } else {
+      s.status = SeriesStatus::no_usable_candidate;
+      s.reason = no_candidate_reason(r);
+    }
+    if (!options.folder.empty()) write_series_files(options.folder, data, config, r, bt, s);
+  } catch (const InputError& e) {
+    // A check that only the search can make (e.g. the grid over the budget for this series).
+    s.status = SeriesStatus::bad_data;
+    s.reason = e.what();
+  } catch (const std::exception& e) {
+    s.status = SeriesStatus::failed;
+    s.reason = e.what();
+  }
+  s.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return s;
+}
+
+namespace {
+
+std::string fixed(double v) { return std::isfinite(v) ? csv_number(v) : ""; }
+
+std::string inputs_text(const SeriesSummary& s) {
+  std::string out;
+  for (const auto& in : s.inputs) {
+    if (!in.included) continue;
+    out += fmt::format("{}{} b={} r={} s={}", out.empty() ? "" : "; ", in.name, in.delay,
+                       in.denominator, in.numerator);
+  }
+  return out;
+}
+
+nlohmann::json number_or_null(double v) { return std::isfinite(v) ? nlohmann::json(v) : nullptr; }
+
+}  // namespace
+
+std::string summary_csv(const std::vector<SeriesSummary>& rows) {
+  std::string out =
+      "series,status,reason,rows,first_time,last_time,candidates,usable,leader,inputs,ar,ma,"
+      "seasonal_ar,seasonal_ma,constant,criterion,ljung_box_p,backtest_score,benchmark_score,"
+      "benchmark_p,warnings,folder,seconds\n";
+  for (const auto& s : rows)
+    out += fmt::format("{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{:.3f}\n",
+                       csv_field(s.series), to_string(s.status), csv_field(s.reason), s.rows,
+                       csv_field(s.first_time), csv_field(s.last_time), s.candidates, s.usable,
+                       csv_field(s.leader), csv_field(inputs_text(s)), s.ar, s.ma, s.seasonal_ar,
+                       s.seasonal_ma, s.leader.empty() ? "" : (s.constant ? "true" : "false"),
+                       fixed(s.criterion), fixed(s.ljung_box_p), fixed(s.backtest_score),
+                       fixed(s.benchmark_score), fixed(s.benchmark_p), s.warnings.size(),
+                       csv_field(s.folder), s.seconds);
+  return out;
+}
+
+nlohmann::json summary_json(const std::vector<SeriesSummary>& rows) {
+  nlohmann::json counts = nlohmann::json::object();
+  for (const auto status : {SeriesStatus::ok, SeriesStatus::no_usable_candidate,
+                            SeriesStatus::bad_data, SeriesStatus::failed})
+    counts[to_string(status)] = 0;
+  nlohmann::json list = nlohmann::json::array();
+  for (const auto& s : rows) {
+    counts[to_string(s.status)] = counts[to_string(s.status)].get<int>() + 1;
+    nlohmann::json inputs = nlohmann::json::array();
+    for (const auto& in : s.inputs)
+      inputs.push_back(in.included ? nlohmann::json{{"name", in.name},
+                                                    {"included", true},
+                                                    {"b", in.delay},
+                                                    {"r", in.denominator},
+                                                    {"s", in.numerator}}
+                                   : nlohmann::json{{"name", in.name}, {"included", false}});
+    list.push_back({{"series", s.series},
+                    {"status", to_string(s.status)},
+                    {"reason", s.reason},
+                    {"folder", s.folder},
+                    {"rows", s.rows},
+                    {"first_time", s.first_time},
+                    {"last_time", s.last_time},
+                    {"candidates", s.candidates},
+                    {"fitted", s.fitted},
+                    {"resumed", s.resumed},
+                    {"usable", s.usable},
+                    {"leader", s.leader},
+                    {"inputs", inputs},
+                    {"noise",
+                     {{"ar", s.ar},
+                      {"ma", s.ma},
+                      {"seasonal_ar", s.seasonal_ar},
+                      {"seasonal_ma", s.seasonal_ma},
+                      {"constant", s.constant}}},
+                    {"criterion", number_or_null(s.criterion)},
+                    {"ljung_box_p", number_or_null(s.ljung_box_p)},
+                    {"backtest_score", number_or_null(s.backtest_score)},
+                    {"benchmark_score", number_or_null(s.benchmark_score)},
+                    {"benchmark_p", number_or_null(s.benchmark_p)},
+                    {"warnings", s.warnings},
+                    {"seconds", s.seconds}});
+  }
+  return {{"series_total", rows.size()}, {"by_status", counts}, {"series", list}};
+}
+
+}  // namespace lagsieve

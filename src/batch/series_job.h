@@ -1,0 +1,94 @@
+#pragma once
+// The work of one series in a run of many: search, shortlist backtest, the leader's model file,
+// fit, screen and forecast, written into the series' own folder; the outcome is one summary row.
+// Nothing a series holds outlives its job except that row, so a run's memory does not grow with
+// the number of series. A series that fails (bad data, no usable candidate, a numerical failure)
+// is a row with a status and the reason; the job never throws for it.
+//
+// Also the per-series entry point of other fronts (the command line, language bindings): plain
+// options in, a plain result out.
+#include <filesystem>
+#include <functional>
+#include <limits>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "core/config.h"
+#include "core/series.h"
+#include "forecast/fitted_model.h"
+#include "search/journal.h"
+#include "search/search.h"
+
+namespace lagsieve {
+
+enum class SeriesStatus {
+  ok,                   // a leader, its model file and forecast
+  no_usable_candidate,  // every candidate failed or was rejected: no model file
+  bad_data,             // the series failed a data check (too short, constant, all missing, ...)
+  failed,               // a numerical or internal failure while working on it
+};
+const char* to_string(SeriesStatus s);
+
+struct SeriesJobOptions {
+  int threads = 0;               // candidate workers: 0 all cores, kInCallerArena in a batch
+  bool backtest = true;          // run the config's backtest when it has one
+  Journal* journal = nullptr;    // shared by every series of a run (keyed by series)
+  std::filesystem::path folder;  // the series' files go here; "" = none written
+  std::function<void(int done, int total)> progress;  // per finished candidate
+};
+
+// The leader's dynamic structure for one configured input (included = false: left out).
+struct LeaderInput {
+  std::string name;
+  bool included = false;
+  int delay = 0, numerator = 0, denominator = 0;  // b, s, r
+};
+
+struct SeriesSummary {
+  std::string series;  // the key (or the target column of a wide panel)
+  std::string folder;  // relative to the run folder, e.g. series/<safe name>
+  SeriesStatus status = SeriesStatus::failed;
+  std::string reason;  // empty when ok
+  int rows = 0;
+  std::string first_time, last_time;
+  int candidates = 0, fitted = 0, resumed = 0, usable = 0;
+  std::string leader;               // model label ("" without a leader)
+  std::vector<LeaderInput> inputs;  // config order
+  int ar = 0, ma = 0, seasonal_ar = 0, seasonal_ma = 0;
+  bool constant = false;
+  static constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+  double criterion = kNaN;        // the leader's search criterion (config.search.criterion)
+  double ljung_box_p = kNaN;      // the leader's Ljung-Box p at the largest lag tested
+  double backtest_score = kNaN;   // the leader's backtest score (config.backtest.score)
+  double benchmark_score = kNaN;  // the best model without inputs, same origins
+  double benchmark_p = kNaN;      // Diebold-Mariano p (two-sided, horizon 1), leader vs it
+  std::vector<std::string> warnings;
+  double seconds = 0.0;  // timing: differs between runs
+
+  bool beats_benchmark(double level = 0.05) const {
+    return backtest_score < benchmark_score && benchmark_p < level;
+  }
+};
+
+// Runs one series (already loaded and checked) as described above.
+SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
+                             const SeriesJobOptions& options);
+
+// The row of a series that never reached the search (its data failed a check).
+SeriesSummary bad_series_summary(const std::string& series, const std::string& folder,
+                                 const std::string& reason);
+
+// Why a search found no usable candidate: the statuses counted and the most frequent message.
+std::string no_candidate_reason(const SearchResult& r);
+
+// forecast.json: the leader's forecast from the end of the data plus the recent history.
+void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+                           const SeriesData& data, const RunConfig& config);
+
+// The summary table: CSV (one row per series; `seconds` is the only timing column) and JSON.
+std::string summary_csv(const std::vector<SeriesSummary>& rows);
+nlohmann::json summary_json(const std::vector<SeriesSummary>& rows);
+
+}  // namespace lagsieve
