@@ -1,8 +1,8 @@
 #include "cli/search_run.h"
 
 #include <fmt/format.h>
-#include <limits>
 #include <unistd.h>
+#include <limits>
 
 #include <algorithm>
 #include <chrono>
@@ -28,13 +28,15 @@ namespace lagsieve::cli {
 
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what) {
   if (quiet || !::isatty(STDERR_FILENO)) return {};
-  const auto t0 = std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
+  const auto t0 =
+      std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
   return [t0, what](int done, int total) {
-    const double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
+    const double secs =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
     const double rate = secs > 0 ? done / secs : 0.0;
     const double left = rate > 0 ? (total - done) / rate : 0.0;
-    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total, rate,
-               std::max(left, 0.0));
+    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total,
+               rate, std::max(left, 0.0));
     if (done >= total) fmt::print(stderr, "\n");
   };
 }
@@ -92,8 +94,88 @@ std::string no_candidate_reason(const SearchResult& r) {
 
 }  // namespace
 
+SearchComputation compute_search(const LoadedRun& run, const SearchOptions& base, bool backtest,
+                                 bool quiet) {
+  const RunConfig& config = run.config;
+  SearchComputation c;
+  SearchOptions options = base;
+  for (const auto& data : run.series) {
+    if (!options.progress) options.progress = progress_printer(quiet, data.target_name);
+    c.results.push_back(run_search(data, config, options));
+    options.progress = base.progress;
+    auto& r = c.results.back();
+    c.backtests.emplace_back();
+    if (config.backtest.enabled && backtest && r.has_leader()) {
+      if (!quiet && ::isatty(STDERR_FILENO))
+        fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
+      c.backtests.back() = backtest_shortlist(data, config, r, options.threads);
+    }
+    c.all_rows.insert(c.all_rows.end(), r.rows.begin(), r.rows.end());
+  }
+  return c;
+}
+
+std::vector<std::string> write_search_files(const std::filesystem::path& stage,
+                                            const LoadedRun& run, const SearchComputation& c) {
+  const RunConfig& config = run.config;
+  const auto& results = c.results;
+  const bool several = run.series.size() > 1;
+  for (size_t k = 0; k < results.size(); ++k) {
+    if (!c.backtests[k]) continue;
+    const auto& r = results[k];
+    const auto& bt = c.backtests[k]->result;
+    write_file_atomic(stage / run_files::per_series(run_files::kBacktest, r.series, several),
+                      backtest_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kAccuracy, r.series, several),
+                      accuracy_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kComparisons, r.series, several),
+                      comparisons_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
+                      input_value_csv(bt));
+  }
+  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard.
+  std::vector<std::string> without_model;
+  for (size_t k = 0; k < results.size(); ++k) {
+    const auto& r = results[k];
+    const SeriesData& data = run.series[k];
+    const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
+    write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
+                      to_json(screen).dump(1) + "\n");
+    if (!r.has_leader()) {
+      without_model.push_back(no_candidate_reason(r));
+      continue;
+    }
+    const FittedModel model = leader_model(run, c, k);
+    save_model(stage / run_files::model_file(r.series, several), model);
+    auto fit_json = fit_to_json(r.leader);
+    fit_json["series"] = r.series;
+    fit_json["frequency"] = data.frequency;
+    fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
+    if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
+    write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
+                      fit_json.dump(1) + "\n");
+    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
+                          model, data, config);
+  }
+  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(c.all_rows, config));
+  write_file_atomic(stage / run_files::kLeaderboardJson,
+                    leaderboard_json(c.all_rows, config, results).dump(2) + "\n");
+  return without_model;
+}
+
+FittedModel leader_model(const LoadedRun& run, const SearchComputation& c, size_t k) {
+  FittedModel model = make_fitted_model(c.results[k].leader, run.config, run.series[k]);
+  if (c.backtests[k] && c.backtests[k]->result.leader >= 0)
+    model.backtest = accuracy_json(c.backtests[k]->result.models[c.backtests[k]->result.leader],
+                                   c.backtests[k]->options);
+  return model;
+}
+
 int run_search_command(const SearchArgs& args) {
-  const LoadedRun run = load_run(args.config);
+  return run_search_in_folder(load_run(args.config), args);
+}
+
+int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
   const RunConfig& config = run.config;
   const int threads = checked_threads(args.threads, config.search.threads);
   if (args.out && args.out->empty()) check_run_dir_path("", "--out");
@@ -107,68 +189,16 @@ int run_search_command(const SearchArgs& args) {
   for (const auto& note : journal.notes()) fmt::print(stderr, "lagsieve: warning: {}\n", note);
 
   if (config.outliers.enabled)
-    fmt::print(stderr, "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
-                       "search ranks the candidates without detected effects\n");
+    fmt::print(stderr,
+               "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
+               "search ranks the candidates without detected effects\n");
   SearchOptions options;
   options.threads = threads;
   options.journal = &journal;
-
-  std::vector<CandidateRow> all_rows;
-  std::vector<SearchResult> results;
-  std::vector<std::optional<ShortlistBacktest>> backtests;
-  const bool several = run.series.size() > 1;
-  for (const auto& data : run.series) {
-    options.progress = progress_printer(args.quiet, data.target_name);
-    results.push_back(run_search(data, config, options));
-    auto& r = results.back();
-    backtests.emplace_back();
-    if (config.backtest.enabled && !args.no_backtest && r.has_leader()) {
-      if (!args.quiet && ::isatty(STDERR_FILENO))
-        fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
-      backtests.back() = backtest_shortlist(data, config, r, options.threads);
-      const auto& bt = backtests.back()->result;
-      write_file_atomic(stage / run_files::per_series(run_files::kBacktest, r.series, several),
-                        backtest_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kAccuracy, r.series, several),
-                        accuracy_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kComparisons, r.series, several),
-                        comparisons_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
-                        input_value_csv(bt));
-    }
-    all_rows.insert(all_rows.end(), r.rows.begin(), r.rows.end());
-  }
-  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard. All of
-  // it goes to the staging folder, which replaces the run folder only once everything is written.
-  std::vector<std::string> without_model;
-  for (size_t k = 0; k < results.size(); ++k) {
-    const auto& r = results[k];
-    const SeriesData& data = run.series[k];
-    const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
-    write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
-                      to_json(screen).dump(1) + "\n");
-    if (!r.has_leader()) {
-      without_model.push_back(no_candidate_reason(r));
-      continue;
-    }
-    FittedModel model = make_fitted_model(r.leader, config, data);
-    if (backtests[k] && backtests[k]->result.leader >= 0)
-      model.backtest = accuracy_json(backtests[k]->result.models[backtests[k]->result.leader],
-                                     backtests[k]->options);
-    save_model(stage / run_files::model_file(r.series, several), model);
-    auto fit_json = fit_to_json(r.leader);
-    fit_json["series"] = r.series;
-    fit_json["frequency"] = data.frequency;
-    fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
-    if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
-    write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
-                      fit_json.dump(1) + "\n");
-    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
-                          model, data, config);
-  }
-  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(stage / run_files::kLeaderboardJson,
-                    leaderboard_json(all_rows, config, results).dump(2) + "\n");
+  const SearchComputation computed = compute_search(run, options, !args.no_backtest, args.quiet);
+  const auto& results = computed.results;
+  // Everything goes to the staging folder, which replaces the run folder only once all is written.
+  const std::vector<std::string> without_model = write_search_files(stage, run, computed);
 
   for (const auto& r : results) {
     int failed = 0;
@@ -186,8 +216,8 @@ int run_search_command(const SearchArgs& args) {
                "status");
     for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
-      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
-                 row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
+      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key,
+                 width, row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
     }

@@ -139,7 +139,9 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config,
     if (!ic.is_event) all_columns.push_back(ic.name);
   tr.fingerprint = data_fingerprint(data, data.rows(), all_columns);
   tr.config_file = config.config_file.string();
-  if (std::ifstream in(config.config_file); in) {
+  if (!config.text.empty()) {
+    tr.config_text = config.text;
+  } else if (std::ifstream in(config.config_file); in) {
     std::stringstream text;
     text << in.rdbuf();
     tr.config_text = text.str();
