@@ -28,9 +28,10 @@ __all__ = ["fit", "search", "screen", "load_model", "forecast", "revalidate", "F
            "Model", "InputError", "NumericalError"]
 
 
-def _time_index(times, dated):
-    if not dated:
-        return pd.Index([int(t) for t in times], name="row")
+def _time_index(times, dated=True):
+    """Time stamps as an index: integers stay integers, dates become a DatetimeIndex."""
+    if all(t.lstrip("-").isdigit() for t in times):
+        return pd.Index([int(t) for t in times], dtype="int64", name="time" if dated else "row")
     try:
         return pd.DatetimeIndex(pd.to_datetime(times), name="time")
     except (ValueError, TypeError):

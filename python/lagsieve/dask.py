@@ -25,7 +25,7 @@ from ._inputs import config_source, load_text
 SUMMARY_COLUMNS = ["key", "status", "reason", "rows", "candidates", "leader", "loglik", "aic",
                    "aicc", "bic", "n_obs", "backtest_score"]
 # Leaderboard columns that measure time, not results (they differ between any two runs).
-TIMING_COLUMNS = ["seconds", "evaluations_per_second"]
+TIMING_COLUMNS = ["fit_seconds"]
 
 
 class PanelRun:

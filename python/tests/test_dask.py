@@ -1,6 +1,9 @@
 """Many series on a 2-worker LocalCluster (processes, 127.0.0.1, no dashboard): the panel's
 summary and rankings equal the series searched one by one in this process; a bad series is a
 row with its status and reason; a worker killed mid-run loses nothing."""
+import os
+import signal
+
 import numpy as np
 import pandas as pd
 import pytest
@@ -103,7 +106,8 @@ def test_a_killed_worker_loses_no_series(client, panel, in_process):
         done += 1
         if done == 3 and not killed:
             nanny = next(iter(client.cluster.workers.values()))
-            nanny.process.process.kill()  # the nanny starts a new worker; its tasks run again
+            # SIGKILL, as a crash would: the nanny starts a new worker and its tasks run again.
+            os.kill(nanny.process.process.pid, signal.SIGKILL)
             killed = True
     assert killed
     rows = [f.result()[0] for f in futures]
