@@ -64,32 +64,34 @@ def _no_candidate_reason(ranking):
 
 def search_one(config_text, config_name, key_value, key, rows, threads=1, backtest=True):
     """Searches one series (its rows of the panel, without the key column): (summary row,
-    ranking with the key column). Never raises for the series' own problems."""
+    ranking with the key column first). Never raises for the series' own problems."""
     row = dict.fromkeys(SUMMARY_COLUMNS)
     row.update(key=key_value, rows=len(rows), candidates=0)
     try:
-        run = lagsieve._core.search(
-            load_text(config_text, config_name, rows), threads, backtest)
+        run = lagsieve._core.search(load_text(config_text, config_name, rows), threads, backtest)
         result = lagsieve.SearchRun(run)
+        ranking = result.ranking
+        # The key replaces a leaderboard column of the same name (`series`, the target column,
+        # is the same for every series of a panel).
+        ranking = ranking.drop(columns=[key], errors="ignore")
+        ranking.insert(0, key, key_value)
+        row["candidates"] = len(ranking)
+        leader = result.leader
+        if leader is None:
+            row.update(status="no_usable_candidate", reason=_no_candidate_reason(ranking))
+            return row, ranking
+        top = ranking.iloc[0]
+        row.update(status="ok", reason="", leader=leader.label, loglik=leader.loglik,
+                   aic=leader.aic, aicc=leader.aicc, bic=leader.bic, n_obs=leader.n_obs,
+                   backtest_score=float(top["backtest_score"]) if "backtest_score" in
+                   ranking.columns else float("nan"))
+        return row, ranking
     except lagsieve.InputError as e:
         row.update(status="input_error", reason=str(e))
         return row, None
     except Exception as e:  # noqa: BLE001 - a failing series is a row, never a crash
         row.update(status="error", reason="%s: %s" % (type(e).__name__, e))
         return row, None
-    ranking = result.ranking
-    ranking.insert(0, key, key_value)
-    row["candidates"] = len(ranking)
-    leader = result.leader
-    if leader is None:
-        row.update(status="no_usable_candidate", reason=_no_candidate_reason(ranking))
-        return row, ranking
-    top = ranking.iloc[0]
-    row.update(status="ok", reason="", leader=leader.label, loglik=leader.loglik, aic=leader.aic,
-               aicc=leader.aicc, bic=leader.bic, n_obs=leader.n_obs,
-               backtest_score=float(top["backtest_score"]) if "backtest_score" in ranking.columns
-               else float("nan"))
-    return row, ranking
 
 
 def _split(frame, key):

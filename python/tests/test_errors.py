@@ -54,7 +54,7 @@ def test_a_bad_cell_names_the_row(frame):
         lagsieve.fit(CONFIG, frame)
 
 
-def test_a_failed_fit_is_a_status_not_an_exception(frame):
-    # Too few rows for the model is bad input; a fit that fails numerically would be a status.
+def test_too_few_rows_for_the_model_is_bad_input(frame):
+    # Too few rows is bad input named as such (a numerical failure would be a status instead).
     with pytest.raises(lagsieve.InputError, match="rows"):
         lagsieve.fit(CONFIG, frame.head(8))
