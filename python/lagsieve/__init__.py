@@ -14,6 +14,7 @@ place of data.file. The numbers are the CLI's: the DataFrame goes through the sa
 
 import io
 import json
+import os
 
 import numpy as np
 import pandas as pd
@@ -24,7 +25,7 @@ from ._inputs import config_source, frame_columns, load
 InputError = _core.InputError  # bad input: the CLI's message; a subclass of ValueError
 NumericalError = _core.NumericalError
 
-__all__ = ["fit", "search", "screen", "load_model", "forecast", "revalidate", "Fit", "SearchRun",
+__all__ = ["fit", "search", "screen", "backtest", "load_model", "forecast", "revalidate", "Fit", "SearchRun",
            "Model", "InputError", "NumericalError"]
 
 
@@ -283,6 +284,21 @@ def screen(config, data=None):
     """The input screen of every series: {series: screen result as in screen.json}."""
     run = load(config, data)
     return {name: json.loads(run.screen_json(k)) for k, name in enumerate(run.targets)}
+
+
+def backtest(config, models=(), data=None, threads=None):
+    """The rolling-origin backtest of `lagsieve backtest CONFIG --models ...`: model files (paths
+    or Model objects; none: the config's one model) beside the seasonal naive benchmark, on the
+    config's backtest settings. {accuracy, backtest, comparisons, input_value} as DataFrames."""
+    named = []
+    for k, m in enumerate(models):
+        if isinstance(m, Model):
+            named.append(("model%d" % (k + 1), m._core))
+        else:
+            named.append((os.path.splitext(os.path.basename(str(m)))[0], load_model(m)._core))
+    tables = _core.backtest(load(config, data), named, threads)
+    return {name: pd.read_csv(io.StringIO(text)) if text.strip() else pd.DataFrame()
+            for name, text in tables.items()}
 
 
 def load_model(path):

@@ -16,6 +16,7 @@
 #include <string>
 #include <vector>
 
+#include "backtest/backtest.h"
 #include "cli/common.h"
 #include "cli/fit_run.h"
 #include "cli/search_run.h"
@@ -25,6 +26,7 @@
 #include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/config.h"
+#include "model/spec_from_config.h"
 #include "outliers/json.h"
 #include "report/report.h"
 #include "revalidate/revalidate.h"
@@ -316,6 +318,47 @@ std::string backtest_table(const Search& s, size_t k, const std::string& which) 
   return backtest_csv(bt);
 }
 
+// `lagsieve backtest CONFIG --models ...` in memory: the rolling-origin backtest of model files
+// (or of the config's one model) beside the seasonal naive benchmark; its tables as CSV text.
+py::dict backtest_models(const RunPtr& run,
+                         const std::vector<std::pair<std::string, ModelPtr>>& models,
+                         std::optional<int> threads) {
+  const RunConfig& config = run->loaded.config;
+  if (!config.backtest.enabled)
+    throw InputError(
+        fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "
+                    "step, horizon, ...)",
+                    config.config_file.string()));
+  const SeriesData& data = run->loaded.series.front();
+  BacktestOptions options = backtest_options(config, data.rows());
+  options.threads = cli::checked_threads(threads, config.search.threads);
+  std::vector<BacktestCandidate> candidates;
+  for (const auto& [name, model] : models) {
+    auto c = candidate_from_model(name + ": " + model_label(model->fitted.spec), model->fitted);
+    if (options.refit > 0) c.fixed.reset();  // as the CLI: re-fitted at the origins
+    candidates.push_back(std::move(c));
+  }
+  if (candidates.empty()) {
+    const ModelSpec spec = single_spec(config);
+    candidates.push_back(candidate_from_spec(model_label(spec), spec, config));
+  }
+  candidates.push_back(seasonal_naive_candidate(options.season));
+  BacktestResult result;
+  {
+    py::gil_scoped_release unlocked;
+    result = run_backtest(data, candidates, options);
+    if (result.leader >= 0)
+      result.input_value =
+          input_value(data, candidates[result.leader], result.models[result.leader], options);
+  }
+  py::dict out;
+  out["accuracy"] = accuracy_csv(result);
+  out["backtest"] = backtest_csv(result);
+  out["comparisons"] = comparisons_csv(result);
+  out["input_value"] = input_value_csv(result);
+  return out;
+}
+
 }  // namespace
 }  // namespace lagsieve::python
 
@@ -433,5 +476,6 @@ PYBIND11_MODULE(_core, m) {
       .def("backtest_csv", &backtest_table)
       .def("leader", &search_leader)
       .def("write", &write_search);
+  m.def("backtest", &backtest_models, py::arg("run"), py::arg("models"), py::arg("threads"));
   m.def("search", &search_loaded, py::arg("run"), py::arg("threads"), py::arg("backtest") = true);
 }

@@ -133,3 +133,20 @@ def test_a_model_saved_from_python_forecasts_identically_in_the_cli(cli, source_
         "--save", tmp_path / "cli_model.json")
     from_cli = lagsieve.load_model(tmp_path / "cli_model.json").forecast(frame, 6)
     np.testing.assert_allclose(from_cli["point"], ours["point"], rtol=1e-12)
+
+
+def test_backtest_of_a_model_file_equals_the_cli(cli, source_dir, tmp_path):
+    shutil.copy(source_dir / "tests/reference/data/bjsales.csv", tmp_path)
+    single = {**BJSALES_SEARCH, "data": {"file": "bjsales.csv", "time": "t"},
+              "inputs": [{"column": "lead", "delay": 3, "denominator": 1, "future": "forecast"}],
+              "noise": {"ma": 1, "constant": True}}
+    config = write_config(tmp_path, single)
+    cli("fit", config, "--save", tmp_path / "deployed.json")
+    cli("backtest", config, "--models", tmp_path / "deployed.json", "--out", tmp_path / "bt")
+    frame = pd.read_csv(tmp_path / "bjsales.csv")
+    tables = lagsieve.backtest({**single, "data": {"time": "t"}}, [tmp_path / "deployed.json"],
+                               data=frame)
+    for name in ("accuracy", "backtest", "comparisons"):
+        pd.testing.assert_frame_equal(tables[name], pd.read_csv(tmp_path / "bt" / (name + ".csv")),
+                                      check_exact=True)
+    assert len(tables["accuracy"]) >= 2  # the model and the seasonal naive benchmark
