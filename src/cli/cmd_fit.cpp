@@ -8,6 +8,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/fit_run.h"
 #include "cli/print.h"
 #include "core/error.h"
 #include "data/load.h"
@@ -19,6 +20,31 @@
 #include "outliers/json.h"
 
 namespace lagsieve::cli {
+
+FitRun fit_single(const RunConfig& config, const SeriesData& data, const std::string& config_name) {
+  const ModelSpec spec = single_spec(config);
+  const auto problem = make_problem(data, spec);
+  FitRun out;
+  if (config.outliers.enabled) {
+    out.detected = fit_with_outliers(data, spec, outlier_options(config.outliers));
+    out.fit = out.detected->fit;
+  } else {
+    out.fit = fit_model(problem);
+  }
+  // A fit that fails because inputs are nearly collinear failed on bad input, not numerically.
+  if (!out.fit.usable())
+    if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
+      throw InputError(
+          fmt::format("{}: {}; the fit failed numerically because of it", config_name, why));
+  return out;
+}
+
+FittedModel fitted_model_of(const FitRun& run, const RunConfig& config, const SeriesData& data) {
+  return run.detected
+             ? make_fitted_model(run.fit, config, run.detected->data, run.detected->effects)
+             : make_fitted_model(run.fit, config, data);
+}
+
 namespace {
 
 struct FitArgs {
@@ -31,25 +57,11 @@ struct FitArgs {
 int run_fit(const FitArgs& args) {
   const LoadedRun run = load_run(args.config);
   const SeriesData& data = pick_series(run, args.series);
-  const ModelSpec spec = single_spec(run.config);
-  const auto problem = make_problem(data, spec);
-  std::optional<OutlierFit> detected;
-  FitResult fit;
-  if (run.config.outliers.enabled) {
-    detected = fit_with_outliers(data, spec, outlier_options(run.config.outliers));
-    fit = detected->fit;
-  } else {
-    fit = fit_model(problem);
-  }
-  // A fit that fails because inputs are nearly collinear failed on bad input, not numerically.
-  if (!fit.usable())
-    if (auto why = collinear_inputs(problem, kNearCollinearTolerance); !why.empty())
-      throw InputError(
-          fmt::format("{}: {}; the fit failed numerically because of it", args.config, why));
+  const FitRun fitted = fit_single(run.config, data, args.config);
+  const FitResult& fit = fitted.fit;
+  const std::optional<OutlierFit>& detected = fitted.detected;
   if (!args.save.empty() && fit.usable())
-    save_model(args.save,
-               detected ? make_fitted_model(fit, run.config, detected->data, detected->effects)
-                        : make_fitted_model(fit, run.config, data));
+    save_model(args.save, fitted_model_of(fitted, run.config, data));
   if (args.json) {
     auto j = fit_to_json(fit);
     j["series"] = data.target_name;

@@ -68,12 +68,98 @@ void print_search_outliers(const SearchOutliers& o) {
 
 }  // namespace
 
+SearchComputation compute_search(const LoadedRun& run, const SearchOptions& base, bool backtest,
+                                 bool quiet) {
+  const RunConfig& config = run.config;
+  SearchComputation c;
+  SearchOptions options = base;
+  for (const auto& data : run.series) {
+    if (!options.progress) options.progress = progress_printer(quiet, data.target_name);
+    c.results.push_back(run_search(data, config, options));
+    options.progress = base.progress;
+    auto& r = c.results.back();
+    c.backtests.emplace_back();
+    if (config.backtest.enabled && backtest && r.has_leader()) {
+      if (!quiet && ::isatty(STDERR_FILENO))
+        fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
+      c.backtests.back() = backtest_shortlist(data, config, r, options.threads);
+    }
+    c.all_rows.insert(c.all_rows.end(), r.rows.begin(), r.rows.end());
+  }
+  return c;
+}
+
+std::vector<std::string> write_search_files(const std::filesystem::path& stage,
+                                            const LoadedRun& run, const SearchComputation& c) {
+  const RunConfig& config = run.config;
+  const auto& results = c.results;
+  const bool several = run.series.size() > 1;
+  for (size_t k = 0; k < results.size(); ++k) {
+    if (!c.backtests[k]) continue;
+    const auto& r = results[k];
+    const auto& bt = c.backtests[k]->result;
+    write_file_atomic(stage / run_files::per_series(run_files::kBacktest, r.series, several),
+                      backtest_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kAccuracy, r.series, several),
+                      accuracy_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kComparisons, r.series, several),
+                      comparisons_csv(bt));
+    write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
+                      input_value_csv(bt));
+  }
+  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard.
+  std::vector<std::string> without_model;
+  for (size_t k = 0; k < results.size(); ++k) {
+    const auto& r = results[k];
+    const SeriesData& data = run.series[k];
+    const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
+    write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
+                      to_json(screen).dump(1) + "\n");
+    if (!r.has_leader()) {
+      without_model.push_back(fmt::format("series '{}': {}", r.series, no_candidate_reason(r)));
+      continue;
+    }
+    const FittedModel model = leader_model(run, c, k);
+    const SeriesData fitted = search_data(data, r);  // with the detected effects' columns
+    save_model(stage / run_files::model_file(r.series, several), model);
+    auto fit_json = fit_to_json(r.leader);
+    fit_json["series"] = r.series;
+    fit_json["frequency"] = data.frequency;
+    fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
+    if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
+    if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
+    write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
+                      fit_json.dump(1) + "\n");
+    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
+                          model, fitted, config);
+  }
+  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(c.all_rows, config));
+  write_file_atomic(stage / run_files::kLeaderboardJson,
+                    leaderboard_json(c.all_rows, config, results).dump(2) + "\n");
+  return without_model;
+}
+
+FittedModel leader_model(const LoadedRun& run, const SearchComputation& c, size_t k) {
+  // With detected effects: the data with their columns, and the leader's set in its model file.
+  const SearchResult& r = c.results[k];
+  FittedModel model = make_fitted_model(
+      r.leader, run.config, search_data(run.series[k], r),
+      r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
+  if (c.backtests[k] && c.backtests[k]->result.leader >= 0)
+    model.backtest = accuracy_json(c.backtests[k]->result.models[c.backtests[k]->result.leader],
+                                   c.backtests[k]->options);
+  return model;
+}
+
 int run_search_command(const SearchArgs& args) {
   {
     const RunConfig config = load_config(args.config);
     if (!config.data.series_key.empty()) return run_batch_search_command(args, config);
   }
-  const LoadedRun run = load_run(args.config, args.series);
+  return run_search_in_folder(load_run(args.config, args.series), args);
+}
+
+int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
   const RunConfig& config = run.config;
   const int threads = checked_threads(args.threads, config.search.threads);
   if (args.out && args.out->empty()) check_run_dir_path("", "--out");
@@ -89,68 +175,10 @@ int run_search_command(const SearchArgs& args) {
   SearchOptions options;
   options.threads = threads;
   options.journal = &journal;
-
-  std::vector<CandidateRow> all_rows;
-  std::vector<SearchResult> results;
-  std::vector<std::optional<ShortlistBacktest>> backtests;
-  const bool several = run.series.size() > 1;
-  for (const auto& data : run.series) {
-    options.progress = progress_printer(args.quiet, data.target_name);
-    results.push_back(run_search(data, config, options));
-    auto& r = results.back();
-    backtests.emplace_back();
-    if (config.backtest.enabled && !args.no_backtest && r.has_leader()) {
-      if (!args.quiet && ::isatty(STDERR_FILENO))
-        fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
-      backtests.back() = backtest_shortlist(data, config, r, options.threads);
-      const auto& bt = backtests.back()->result;
-      write_file_atomic(stage / run_files::per_series(run_files::kBacktest, r.series, several),
-                        backtest_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kAccuracy, r.series, several),
-                        accuracy_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kComparisons, r.series, several),
-                        comparisons_csv(bt));
-      write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
-                        input_value_csv(bt));
-    }
-    all_rows.insert(all_rows.end(), r.rows.begin(), r.rows.end());
-  }
-  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard. All of
-  // it goes to the staging folder, which replaces the run folder only once everything is written.
-  std::vector<std::string> without_model;
-  for (size_t k = 0; k < results.size(); ++k) {
-    const auto& r = results[k];
-    const SeriesData& data = run.series[k];
-    const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
-    write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
-                      to_json(screen).dump(1) + "\n");
-    if (!r.has_leader()) {
-      without_model.push_back(fmt::format("series '{}': {}", r.series, no_candidate_reason(r)));
-      continue;
-    }
-    // With detected effects: the data with their columns, and the leader's set in its model file.
-    const SeriesData fitted = search_data(data, r);
-    FittedModel model = make_fitted_model(r.leader, config, fitted,
-                                          r.rows.empty() ? std::vector<OutlierEffect>{}
-                                                         : row_effects(r.rows.front(), r));
-    if (backtests[k] && backtests[k]->result.leader >= 0)
-      model.backtest = accuracy_json(backtests[k]->result.models[backtests[k]->result.leader],
-                                     backtests[k]->options);
-    save_model(stage / run_files::model_file(r.series, several), model);
-    auto fit_json = fit_to_json(r.leader);
-    fit_json["series"] = r.series;
-    fit_json["frequency"] = data.frequency;
-    fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
-    if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
-    if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
-    write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
-                      fit_json.dump(1) + "\n");
-    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
-                          model, fitted, config);
-  }
-  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(all_rows, config));
-  write_file_atomic(stage / run_files::kLeaderboardJson,
-                    leaderboard_json(all_rows, config, results).dump(2) + "\n");
+  const SearchComputation computed = compute_search(run, options, !args.no_backtest, args.quiet);
+  const auto& results = computed.results;
+  // Everything goes to the staging folder, which replaces the run folder only once all is written.
+  const std::vector<std::string> without_model = write_search_files(stage, run, computed);
 
   for (const auto& r : results) {
     int failed = 0;

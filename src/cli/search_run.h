@@ -9,6 +9,7 @@
 #include "cli/common.h"
 #include "forecast/fitted_model.h"
 #include "search/search.h"
+#include "search/shortlist.h"
 
 namespace lagsieve::cli {
 
@@ -27,5 +28,29 @@ struct SearchArgs {
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what);
 
 int run_search_command(const SearchArgs& args);
+
+// The same on a run already loaded (the Python module loads its data from a DataFrame).
+int run_search_in_folder(const LoadedRun& run, const SearchArgs& args);
+
+// What a search computes before anything is written: per series the ranked result and the
+// shortlist backtest (absent when off or without a leader), and every row in series order.
+struct SearchComputation {
+  std::vector<SearchResult> results;
+  std::vector<std::optional<ShortlistBacktest>> backtests;
+  std::vector<CandidateRow> all_rows;
+};
+
+// Runs the search (and the shortlist backtest unless `backtest` is false) of every series.
+// `options.progress` empty: the terminal progress line unless `quiet`.
+SearchComputation compute_search(const LoadedRun& run, const SearchOptions& options, bool backtest,
+                                 bool quiet);
+
+// Writes every file of the run folder but the journal, the report and the marker into `stage`;
+// returns why each series without a usable candidate has none.
+std::vector<std::string> write_search_files(const std::filesystem::path& stage,
+                                            const LoadedRun& run, const SearchComputation& c);
+
+// The model file of series k's leader (with its backtest accuracy when there was one).
+FittedModel leader_model(const LoadedRun& run, const SearchComputation& c, size_t k);
 
 }  // namespace lagsieve::cli

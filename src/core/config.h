@@ -155,6 +155,9 @@ struct OutputConfig {
 
 struct RunConfig {
   std::filesystem::path config_file;
+  // The YAML text the config was read from (kept in model files; callers without a file, such as
+  // the Python module, have only the text).
+  std::string text;
   DataConfig data;
   TargetConfig target;
   Differencing differencing;

@@ -171,7 +171,9 @@ FittedModel make_fitted_model(const FitResult& fit, const RunConfig& config, con
   tr.fingerprint = data_fingerprint(data, data.rows(), all_columns);
   tr.data = training_rows(data, all_columns);
   tr.config_file = config.config_file.string();
-  if (std::ifstream in(config.config_file); in) {
+  if (!config.text.empty()) {
+    tr.config_text = config.text;
+  } else if (std::ifstream in(config.config_file); in) {
     std::stringstream text;
     text << in.rdbuf();
     tr.config_text = text.str();

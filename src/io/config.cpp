@@ -499,6 +499,7 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
 
   RunConfig cfg;
   cfg.config_file = config_file;
+  cfg.text = std::string(yaml_text);
   const fs::path base = config_file.parent_path();
   for (const char* key : {"data", "target"})
     if (!root[key]) rd.fail(root, "", fmt::format("missing section `{}`", key));

@@ -1,0 +1,131 @@
+"""Many series on a Dask cluster: one search per series, mapped over a dask.distributed Client.
+
+The panel is a long pandas DataFrame: a key column naming the series, the config's time column,
+target column and inputs. Each series is searched on a worker exactly as
+lagsieve.search(config, that_series_rows) would search it in-process, so the summary equals
+search_panel(config, frame, key) row for row. A series whose input is bad, or with no usable
+candidate, is a row with its status and reason; it never stops the panel. A worker that dies
+mid-run has its series retried elsewhere (`retries`), finished series are kept.
+
+    from dask.distributed import Client, LocalCluster
+    import lagsieve.dask
+    with LocalCluster(n_workers=2, threads_per_worker=1, processes=True) as cluster, \\
+         Client(cluster) as client:
+        panel = lagsieve.dask.search_many(config, frame, "store", client)
+    panel.summary     # one row per series: status, reason, leader, criteria
+    panel.ranking     # every candidate of every series (the leaderboard with a key column)
+"""
+
+import pandas as pd
+
+import lagsieve
+from ._inputs import config_source, load_text
+
+# Columns of the summary, in order.
+SUMMARY_COLUMNS = ["key", "status", "reason", "rows", "candidates", "leader", "loglik", "aic",
+                   "aicc", "bic", "n_obs", "backtest_score"]
+# Leaderboard columns that measure time, not results (they differ between any two runs).
+TIMING_COLUMNS = ["fit_seconds"]
+
+
+class PanelRun:
+    """The searches of a panel: `summary` (one row per series) and `ranking` (every candidate,
+    with the series key in the first column)."""
+
+    def __init__(self, key, rows, rankings):
+        self.key = key
+        self.summary = pd.DataFrame(rows, columns=SUMMARY_COLUMNS).rename(columns={"key": key})
+        frames = [r for r in rankings if r is not None and len(r)]
+        self.ranking = pd.concat(frames, ignore_index=True) if frames else pd.DataFrame()
+
+    @property
+    def failed(self):
+        """Series without a leader (bad input, no usable candidate, an error)."""
+        return self.summary[self.summary["status"] != "ok"]
+
+    def __repr__(self):
+        return "<lagsieve.dask.PanelRun %d series, %d failed>" % (len(self.summary),
+                                                                   len(self.failed))
+
+
+def _no_candidate_reason(ranking):
+    if ranking is None or not len(ranking) or "message" not in ranking.columns:
+        return "no candidate was fitted"
+    messages = ranking["message"].dropna()
+    messages = messages[messages != ""]
+    counts = ranking["status"].value_counts()
+    listed = ", ".join("%d %s" % (n, s) for s, n in sorted(counts.items()))
+    why = ""
+    if len(messages):
+        top = messages.value_counts()
+        why = "; most often (%d of %d): %s" % (top.iloc[0], len(ranking), top.index[0])
+    return "no usable candidate among %d (%s)%s" % (len(ranking), listed, why)
+
+
+def search_one(config_text, config_name, key_value, key, rows, threads=1, backtest=True):
+    """Searches one series (its rows of the panel, without the key column): (summary row,
+    ranking with the key column first). Never raises for the series' own problems."""
+    row = dict.fromkeys(SUMMARY_COLUMNS)
+    row.update(key=key_value, rows=len(rows), candidates=0)
+    try:
+        run = lagsieve._core.search(load_text(config_text, config_name, rows), threads, backtest)
+        result = lagsieve.SearchRun(run)
+        ranking = result.ranking
+        # The key replaces a leaderboard column of the same name (`series`, the target column,
+        # is the same for every series of a panel).
+        ranking = ranking.drop(columns=[key], errors="ignore")
+        ranking.insert(0, key, key_value)
+        row["candidates"] = len(ranking)
+        leader = result.leader
+        if leader is None:
+            row.update(status="no_usable_candidate", reason=_no_candidate_reason(ranking))
+            return row, ranking
+        top = ranking.iloc[0]
+        row.update(status="ok", reason="", leader=leader.label, loglik=leader.loglik,
+                   aic=leader.aic, aicc=leader.aicc, bic=leader.bic, n_obs=leader.n_obs,
+                   backtest_score=float(top["backtest_score"]) if "backtest_score" in
+                   ranking.columns else float("nan"))
+        return row, ranking
+    except lagsieve.InputError as e:
+        row.update(status="input_error", reason=str(e))
+        return row, None
+    except Exception as e:  # noqa: BLE001 - a failing series is a row, never a crash
+        row.update(status="error", reason="%s: %s" % (type(e).__name__, e))
+        return row, None
+
+
+def _split(frame, key):
+    if key not in frame.columns:
+        raise lagsieve.InputError(
+            "panel: key column '%s' is not in the frame; its columns are: %s"
+            % (key, ", ".join(map(str, frame.columns))))
+    groups = []
+    for value, rows in frame.groupby(key, sort=True):
+        groups.append((value, rows.drop(columns=[key]).reset_index(drop=True)))
+    return groups
+
+
+def search_panel(config, frame, key, threads=1, backtest=True):
+    """The panel searched series by series in this process (the reference for search_many)."""
+    text, name = config_source(config)
+    rows, rankings = [], []
+    for value, part in _split(frame, key):
+        row, ranking = search_one(text, name, value, key, part, threads, backtest)
+        rows.append(row)
+        rankings.append(ranking)
+    return PanelRun(key, rows, rankings)
+
+
+def search_many(config, frame, key, client, threads=1, backtest=True, retries=3):
+    """Searches every series of a long panel on the workers of a dask.distributed Client.
+
+    One task per series (threads per search: `threads`, 1 by default since the cluster runs
+    series side by side); results come back in key order, equal to search_panel's. A task lost
+    with its worker is run again up to `retries` times."""
+    text, name = config_source(config)  # read here: the workers need not see the config file
+    groups = _split(frame, key)
+    futures = [client.submit(search_one, text, name, value, key, part, threads, backtest,
+                             key="lagsieve-%s-%d" % (str(value), i), retries=retries, pure=False)
+               for i, (value, part) in enumerate(groups)]
+    results = client.gather(futures)
+    return PanelRun(key, [r[0] for r in results], [r[1] for r in results])

@@ -1,0 +1,481 @@
+// lagsieve._core: the C++ side of the Python module. Every call runs the library functions the
+// CLI runs (src/cli's fit, search and folder writers included), on data that arrive as the table
+// the CSV reader produces (table.h). Results cross as JSON text or plain arrays; the Pythonic
+// layer (python/lagsieve) turns them into DataFrames.
+#include <fmt/format.h>
+#include <pybind11/numpy.h>
+#include <pybind11/pybind11.h>
+#include <pybind11/stl.h>
+#include <stdlib.h>
+#include <yaml-cpp/yaml.h>
+
+#include <cmath>
+#include <filesystem>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "backtest/backtest.h"
+#include "cli/common.h"
+#include "cli/fit_run.h"
+#include "cli/search_run.h"
+#include "core/error.h"
+#include "data/load.h"
+#include "data/transform.h"
+#include "forecast/forecast.h"
+#include "forecast/model_file.h"
+#include "io/config.h"
+#include "model/spec_from_config.h"
+#include "outliers/json.h"
+#include "report/report.h"
+#include "revalidate/revalidate.h"
+#include "screen/screen.h"
+#include "search/leaderboard.h"
+#include "search/run_dir.h"
+#include "search/run_folder.h"
+#include "table.h"
+
+namespace py = pybind11;
+namespace fs = std::filesystem;
+
+namespace lagsieve::python {
+namespace {
+
+// Placeholder data.file of a config whose data come from a DataFrame: the config must name a
+// file to be valid for the CLI (a model file keeps the config text), but nothing reads it.
+constexpr const char* kFrameSource = "<DataFrame>";
+
+// The config text with data.file set when it has none (the DataFrame stands in for it). Text
+// that does not parse is returned unchanged, so parse_config reports the error in its words.
+std::string with_data_file(const std::string& text) {
+  YAML::Node root;
+  try {
+    root = YAML::Load(text);
+  } catch (const YAML::Exception&) {
+    return text;
+  }
+  if (!root.IsMap()) return text;
+  YAML::Node data = root["data"];
+  if (data && data.IsMap() && data["file"]) return text;
+  if (data && !data.IsNull() && !data.IsMap()) return text;
+  if (!data || data.IsNull()) root["data"] = YAML::Node(YAML::NodeType::Map);
+  root["data"]["file"] = kFrameSource;
+  YAML::Emitter out;
+  out << root;
+  return std::string(out.c_str()) + "\n";
+}
+
+// A config with the data it describes, loaded as `lagsieve` commands load them.
+struct Run {
+  cli::LoadedRun loaded;
+};
+using RunPtr = std::shared_ptr<const Run>;
+
+RunConfig read_config(const std::string& text, const std::string& name, bool data_in_memory) {
+  return parse_config(data_in_memory ? with_data_file(text) : text, name);
+}
+
+RunPtr load_from_file(const std::string& text, const std::string& name) {
+  auto run = std::make_shared<Run>();
+  run->loaded.config = read_config(text, name, false);
+  run->loaded.series = load_series(run->loaded.config);
+  apply_seasonal_default(run->loaded.config, run->loaded.series.front());
+  return run;
+}
+
+RunPtr load_from_table(const std::string& text, const std::string& name,
+                       const std::optional<std::string>& time_column,
+                       const std::vector<std::string>& header, const py::list& columns) {
+  auto run = std::make_shared<Run>();
+  RunConfig config = read_config(text, name, true);
+  if (time_column && config.data.time.empty()) config.data.time = *time_column;
+  const CsvTable table = table_from_columns(kFrameSource, header, columns);
+  for (const auto& column : config.target.columns)
+    run->loaded.series.push_back(series_from_table(config, table, column));
+  apply_seasonal_default(config, run->loaded.series.front());
+  run->loaded.config = std::move(config);
+  return run;
+}
+
+// A model with the config it came from (parsed from the config text the model file holds).
+struct Model {
+  FittedModel fitted;
+  RunConfig config;
+};
+using ModelPtr = std::shared_ptr<const Model>;
+
+ModelPtr model_with_config(FittedModel fitted) {
+  if (fitted.training.config_text.empty())
+    throw InputError("the model file holds no config text to read data with");
+  auto m = std::make_shared<Model>();
+  m->config = parse_config(fitted.training.config_text, fitted.training.config_file);
+  m->fitted = std::move(fitted);
+  return m;
+}
+
+std::vector<InputFuture> futures_from(const py::dict& future) {
+  std::vector<InputFuture> out;
+  for (const auto& [name, values] : future) {
+    const auto a = py::array_t<double, py::array::c_style | py::array::forcecast>::ensure(values);
+    if (!a || a.ndim() != 1)
+      throw InputError(fmt::format("future input '{}': give a one-dimensional numeric column",
+                                   py::str(name).cast<std::string>()));
+    const auto v = a.unchecked<1>();
+    InputFuture f{name.cast<std::string>(), {}};
+    for (py::ssize_t i = 0; i < v.shape(0); ++i) {
+      if (!std::isfinite(v(i)))
+        throw InputError(fmt::format("future input '{}': value {} (row {}) is not a finite number",
+                                     f.name, v(i), i + 1));
+      f.values.push_back(v(i));
+    }
+    out.push_back(std::move(f));
+  }
+  return out;
+}
+
+std::string forecast_json(const Model& m, const SeriesData& history, int horizon,
+                          const py::dict& future, const std::vector<double>& levels,
+                          bool parameter_uncertainty) {
+  if (horizon < 1 || horizon > kMaxHorizon)
+    throw InputError(fmt::format("horizon {}: must be between 1 and {}", horizon, kMaxHorizon));
+  ForecastOptions options;
+  options.horizon = horizon;
+  if (!levels.empty()) options.levels = levels;
+  options.parameter_uncertainty = parameter_uncertainty && m.config.forecast.parameter_uncertainty;
+  const auto futures = futures_from(future);
+  ForecastResult r;
+  {
+    py::gil_scoped_release unlocked;
+    r = forecast(m.fitted, history, futures, options);
+  }
+  auto j = forecast_to_json(r);
+  j["target"] = m.fitted.training.target_column;
+  return j.dump();
+}
+
+// One fit (of `fit`, or a search's leader) on its series.
+struct Fit {
+  RunPtr run;
+  size_t series = 0;
+  cli::FitRun result;
+  std::optional<FittedModel> fitted;  // when usable
+
+  const SeriesData& data() const {
+    return result.detected ? result.detected->data : run->loaded.series[series];
+  }
+};
+
+std::string fit_json(const Fit& f) {
+  const SeriesData& data = f.run->loaded.series[f.series];
+  auto j = fit_to_json(f.result.fit);
+  j["series"] = data.target_name;
+  j["frequency"] = data.frequency;
+  j["missing"] = describe_missing(data);
+  const auto& note = f.run->loaded.config.seasonal_note;
+  if (!note.empty()) j["seasonal_note"] = note;
+  if (f.result.detected) j["outliers"] = outliers_to_json(*f.result.detected);
+  return j.dump();
+}
+
+// Residuals on the rows they belong to, and the fitted values y_t - e_t on the target's scale
+// (through the inverse transform when there is one). The residuals are the standardised
+// innovations, so in the first rows of the sample, where the filter has not settled, the fitted
+// value differs slightly from the exact one-step prediction.
+py::tuple residual_rows(const Fit& f) {
+  const FitResult& fit = f.result.fit;
+  if (!fit.usable())
+    return py::make_tuple(std::vector<std::string>{}, std::vector<double>{}, std::vector<double>{});
+  const SeriesData& data = f.data();
+  const auto problem = make_problem(data, fit.spec, fit.start);
+  const int lost = data.rows() - static_cast<int>(problem.w.size());
+  std::vector<std::string> times;
+  std::vector<double> fitted;
+  size_t k = 0;
+  for (int i = problem.start; i < static_cast<int>(problem.w.size()); ++i) {
+    if (problem.is_missing(i)) continue;
+    if (k >= fit.residuals.size()) break;
+    const int row = i + lost;
+    times.push_back(data.time.empty() ? std::to_string(row + 1) : data.time[row]);
+    const double z = apply_transform(data.target[row], fit.spec.transform) - fit.residuals[k];
+    fitted.push_back(invert_transform(z, fit.spec.transform));
+    ++k;
+  }
+  return py::make_tuple(times, fit.residuals, fitted);
+}
+
+std::shared_ptr<Fit> fit_loaded(const RunPtr& run, const std::string& series) {
+  auto f = std::make_shared<Fit>();
+  f->run = run;
+  const auto& all = run->loaded.series;
+  f->series = all.size();
+  for (size_t k = 0; k < all.size(); ++k)
+    if (series.empty() || all[k].target_name == series) {
+      f->series = k;
+      break;
+    }
+  if (f->series == all.size())
+    throw InputError(fmt::format("series '{}' is not a target of the config", series));
+  {
+    py::gil_scoped_release unlocked;
+    f->result = cli::fit_single(run->loaded.config, all[f->series],
+                                run->loaded.config.config_file.string());
+    if (f->result.fit.usable())
+      f->fitted = cli::fitted_model_of(f->result, run->loaded.config, all[f->series]);
+  }
+  return f;
+}
+
+// A finished search: its computation, and the journal its candidates were written to (kept in a
+// private temporary folder until the object goes, copied into every run folder written).
+struct Search {
+  RunPtr run;
+  cli::SearchComputation computed;
+  fs::path scratch;
+  ~Search() {
+    std::error_code ec;
+    if (!scratch.empty()) fs::remove_all(scratch, ec);
+  }
+};
+
+fs::path make_scratch() {
+  std::string pattern = (fs::temp_directory_path() / "lagsieve-py-XXXXXX").string();
+  if (!::mkdtemp(pattern.data()))
+    throw std::runtime_error("cannot create a temporary folder for the search journal");
+  return pattern;
+}
+
+std::shared_ptr<Search> search_loaded(const RunPtr& run, std::optional<int> threads,
+                                      bool backtest) {
+  auto s = std::make_shared<Search>();
+  s->run = run;
+  const RunConfig& config = run->loaded.config;
+  SearchOptions options;
+  options.threads = cli::checked_threads(threads, config.search.threads);
+  s->scratch = make_scratch();
+  {
+    py::gil_scoped_release unlocked;
+    Journal journal(s->scratch / run_files::kJournal, run_fingerprint(config, run->loaded.series),
+                    false);
+    options.journal = &journal;
+    s->computed = cli::compute_search(run->loaded, options, backtest, true);
+  }
+  return s;
+}
+
+// The run folder `lagsieve search` writes, from the computed search: locked, staged, swapped in.
+std::string write_search(const Search& s, const std::string& out) {
+  const RunConfig& config = s.run->loaded.config;
+  py::gil_scoped_release unlocked;
+  RunDir dir(out, {"search", run_fingerprint(config, s.run->loaded.series), false, "write(dir)"});
+  fs::copy_file(s.scratch / run_files::kJournal, dir.staging() / run_files::kJournal,
+                fs::copy_options::overwrite_existing);
+  const auto without_model = cli::write_search_files(dir.staging(), s.run->loaded, s.computed);
+  ReportOptions report_options;
+  report_options.folder_name = dir.out().filename().string();
+  write_report(dir.staging(), report_options);
+  const std::string status = without_model.empty() ? "complete" : "no_usable_candidate";
+  dir.commit(status);
+  return status;
+}
+
+std::string search_summary(const Search& s) {
+  nlohmann::json j = nlohmann::json::array();
+  for (size_t k = 0; k < s.computed.results.size(); ++k) {
+    const auto& r = s.computed.results[k];
+    j.push_back({{"series", r.series},
+                 {"candidates", r.rows.size()},
+                 {"fitted", r.fitted},
+                 {"seconds", r.seconds},
+                 {"has_leader", r.has_leader()},
+                 {"leader", r.has_leader() ? r.rows.front().key : ""},
+                 {"sorted_by", r.sorted_by},
+                 {"leader_reason", r.leader_reason},
+                 {"warnings", r.warnings},
+                 {"backtest", s.computed.backtests[k].has_value()}});
+  }
+  return j.dump();
+}
+
+std::shared_ptr<Fit> search_leader(const std::shared_ptr<Search>& s, size_t k) {
+  if (k >= s->computed.results.size()) throw py::index_error("no such series");
+  const auto& r = s->computed.results[k];
+  if (!r.has_leader()) return nullptr;
+  auto f = std::make_shared<Fit>();
+  f->run = s->run;
+  f->series = k;
+  f->result.fit = r.leader;
+  f->fitted = cli::leader_model(s->run->loaded, s->computed, k);
+  return f;
+}
+
+std::string backtest_table(const Search& s, size_t k, const std::string& which) {
+  if (k >= s.computed.backtests.size() || !s.computed.backtests[k]) return "";
+  const auto& bt = s.computed.backtests[k]->result;
+  if (which == "accuracy") return accuracy_csv(bt);
+  if (which == "comparisons") return comparisons_csv(bt);
+  if (which == "input_value") return input_value_csv(bt);
+  return backtest_csv(bt);
+}
+
+// `lagsieve backtest CONFIG --models ...` in memory: the rolling-origin backtest of model files
+// (or of the config's one model) beside the seasonal naive benchmark; its tables as CSV text.
+py::dict backtest_models(const RunPtr& run,
+                         const std::vector<std::pair<std::string, ModelPtr>>& models,
+                         std::optional<int> threads) {
+  const RunConfig& config = run->loaded.config;
+  if (!config.backtest.enabled)
+    throw InputError(
+        fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "
+                    "step, horizon, ...)",
+                    config.config_file.string()));
+  const SeriesData& data = run->loaded.series.front();
+  BacktestOptions options = backtest_options(config, data.rows());
+  options.threads = cli::checked_threads(threads, config.search.threads);
+  std::vector<BacktestCandidate> candidates;
+  for (const auto& [name, model] : models) {
+    auto c = candidate_from_model(name + ": " + model_label(model->fitted.spec), model->fitted);
+    if (options.refit > 0) c.fixed.reset();  // as the CLI: re-fitted at the origins
+    candidates.push_back(std::move(c));
+  }
+  if (candidates.empty()) {
+    const ModelSpec spec = single_spec(config);
+    candidates.push_back(candidate_from_spec(model_label(spec), spec, config));
+  }
+  candidates.push_back(seasonal_naive_candidate(options.season));
+  BacktestResult result;
+  {
+    py::gil_scoped_release unlocked;
+    result = run_backtest(data, candidates, options);
+    if (result.leader >= 0)
+      result.input_value =
+          input_value(data, candidates[result.leader], result.models[result.leader], options);
+  }
+  py::dict out;
+  out["accuracy"] = accuracy_csv(result);
+  out["backtest"] = backtest_csv(result);
+  out["comparisons"] = comparisons_csv(result);
+  out["input_value"] = input_value_csv(result);
+  return out;
+}
+
+}  // namespace
+}  // namespace lagsieve::python
+
+using namespace lagsieve;
+using namespace lagsieve::python;
+
+PYBIND11_MODULE(_core, m) {
+  m.doc() = "lagsieve's C++ core (use the package `lagsieve`, not this module)";
+  // Bad input: the CLI's messages (exit code 2 there); a ValueError for Python callers.
+  static py::exception<InputError> input_error(m, "InputError", PyExc_ValueError);
+  static py::exception<NumericalError> numerical_error(m, "NumericalError", PyExc_ArithmeticError);
+  py::register_exception_translator([](std::exception_ptr p) {
+    try {
+      if (p) std::rethrow_exception(p);
+    } catch (const InputError& e) {
+      input_error(e.what());
+    } catch (const NumericalError& e) {
+      numerical_error(e.what());
+    }
+  });
+
+  py::class_<Run, std::shared_ptr<Run>>(m, "Run")
+      .def_property_readonly("targets",
+                             [](const Run& r) {
+                               std::vector<std::string> names;
+                               for (const auto& s : r.loaded.series) names.push_back(s.target_name);
+                               return names;
+                             })
+      .def_property_readonly("config_text", [](const Run& r) { return r.loaded.config.text; })
+      .def_property_readonly("output_dir",
+                             [](const Run& r) { return r.loaded.config.output.dir.string(); })
+      .def("screen_json", [](const Run& r, size_t k) {
+        if (k >= r.loaded.series.size()) throw py::index_error("no such series");
+        ScreenResult s;
+        {
+          py::gil_scoped_release unlocked;
+          s = screen_series(r.loaded.series[k], r.loaded.config);
+        }
+        return to_json(s).dump();
+      });
+
+  m.def("config_time_column", [](const std::string& text, const std::string& name) {
+    return read_config(text, name, true).data.time;
+  });
+  m.def("load_file", &load_from_file, py::arg("text"), py::arg("name"));
+  m.def("load_table", &load_from_table, py::arg("text"), py::arg("name"), py::arg("time_column"),
+        py::arg("header"), py::arg("columns"));
+
+  py::class_<Model, std::shared_ptr<Model>>(m, "Model")
+      .def("json", [](const Model& mo) { return to_json(mo.fitted).dump(); })
+      .def("save", [](const Model& mo, const std::string& path) { save_model(path, mo.fitted); })
+      .def_property_readonly("target",
+                             [](const Model& mo) { return mo.fitted.training.target_column; })
+      .def_property_readonly("time_column", [](const Model& mo) { return mo.config.data.time; })
+      .def("forecast_table",
+           [](const Model& mo, const std::optional<std::string>& time_column,
+              const std::vector<std::string>& header, const py::list& columns, int horizon,
+              const py::dict& future, const std::vector<double>& levels, bool uncertainty) {
+             RunConfig config = mo.config;
+             if (time_column && config.data.time.empty()) config.data.time = *time_column;
+             const CsvTable table = table_from_columns(kFrameSource, header, columns);
+             const SeriesData history =
+                 series_from_table(config, table, mo.fitted.training.target_column);
+             return forecast_json(mo, history, horizon, future, levels, uncertainty);
+           })
+      .def("revalidate_json",
+           [](const Model& mo, const RunPtr& run, std::optional<int> threads, double alpha) {
+             const SeriesData* data = nullptr;
+             for (const auto& s : run->loaded.series)
+               if (s.target_name == mo.fitted.training.target_column) data = &s;
+             if (!data)
+               throw InputError(fmt::format("the data have no target column '{}' (the model's)",
+                                            mo.fitted.training.target_column));
+             RevalidateOptions options;
+             options.alpha = alpha;
+             options.threads = cli::checked_threads(threads, run->loaded.config.search.threads);
+             options.validate();
+             RevalidationResult r;
+             {
+               py::gil_scoped_release unlocked;
+               r = revalidate(mo.fitted, *data, run->loaded.config, options);
+             }
+             return to_json(r).dump();
+           });
+  m.def("load_model", [](const std::string& path) { return model_with_config(load_model(path)); });
+
+  py::class_<Fit, std::shared_ptr<Fit>>(m, "Fit")
+      .def("json", &fit_json)
+      .def("residual_rows", &residual_rows)
+      .def_property_readonly("usable", [](const Fit& f) { return f.result.fit.usable(); })
+      .def("model",
+           [](const Fit& f) -> ModelPtr {
+             if (!f.fitted)
+               throw InputError("the fit is not usable (see .status); no model to use");
+             auto mo = std::make_shared<Model>();
+             mo->fitted = *f.fitted;
+             mo->config = f.run->loaded.config;
+             return mo;
+           })
+      .def("forecast", [](const Fit& f, int horizon, const py::dict& future,
+                          const std::vector<double>& levels, bool uncertainty) {
+        if (!f.fitted) throw InputError("the fit is not usable (see .status); no forecast");
+        Model mo{*f.fitted, f.run->loaded.config};
+        return forecast_json(mo, f.run->loaded.series[f.series], horizon, future, levels,
+                             uncertainty);
+      });
+  m.def("fit", &fit_loaded, py::arg("run"), py::arg("series") = "");
+
+  py::class_<Search, std::shared_ptr<Search>>(m, "Search")
+      .def("leaderboard_csv",
+           [](const Search& s) {
+             return leaderboard_csv(s.computed.all_rows, s.run->loaded.config);
+           })
+      .def("summary_json", &search_summary)
+      .def("backtest_csv", &backtest_table)
+      .def("leader", &search_leader)
+      .def("write", &write_search);
+  m.def("backtest", &backtest_models, py::arg("run"), py::arg("models"), py::arg("threads"));
+  m.def("search", &search_loaded, py::arg("run"), py::arg("threads"), py::arg("backtest") = true);
+}
