@@ -1,8 +1,8 @@
 #include "cli/search_run.h"
 
 #include <fmt/format.h>
-#include <limits>
 #include <unistd.h>
+#include <limits>
 
 #include <algorithm>
 #include <chrono>
@@ -17,6 +17,7 @@
 #include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
+#include "model/past.h"
 #include "report/report.h"
 #include "screen/screen.h"
 #include "search/leaderboard.h"
@@ -28,13 +29,15 @@ namespace lagsieve::cli {
 
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what) {
   if (quiet || !::isatty(STDERR_FILENO)) return {};
-  const auto t0 = std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
+  const auto t0 =
+      std::make_shared<std::chrono::steady_clock::time_point>(std::chrono::steady_clock::now());
   return [t0, what](int done, int total) {
-    const double secs = std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
+    const double secs =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - *t0).count();
     const double rate = secs > 0 ? done / secs : 0.0;
     const double left = rate > 0 ? (total - done) / rate : 0.0;
-    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total, rate,
-               std::max(left, 0.0));
+    fmt::print(stderr, "\r{}: {}/{} candidates · {:.0f}/s · {:.0f} s left   ", what, done, total,
+               rate, std::max(left, 0.0));
     if (done >= total) fmt::print(stderr, "\n");
   };
 }
@@ -107,8 +110,9 @@ int run_search_command(const SearchArgs& args) {
   for (const auto& note : journal.notes()) fmt::print(stderr, "lagsieve: warning: {}\n", note);
 
   if (config.outliers.enabled)
-    fmt::print(stderr, "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
-                       "search ranks the candidates without detected effects\n");
+    fmt::print(stderr,
+               "lagsieve: note: `outliers` is applied by `fit` only in this version; the "
+               "search ranks the candidates without detected effects\n");
   SearchOptions options;
   options.threads = threads;
   options.journal = &journal;
@@ -161,6 +165,10 @@ int run_search_command(const SearchArgs& args) {
     fit_json["frequency"] = data.frequency;
     fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
     if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
+    const PastFit past = explain_past(data, r.leader.spec, r.leader.params, r.leader.start);
+    fit_json["past"] = past_to_json(past);
+    write_file_atomic(stage / run_files::per_series(run_files::kPast, r.series, several),
+                      past_csv(past));
     write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
     write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
@@ -186,8 +194,8 @@ int run_search_command(const SearchArgs& args) {
                "status");
     for (size_t i = 0; i < shown; ++i) {
       const auto& row = r.rows[i];
-      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key, width,
-                 row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
+      fmt::print("  {:>4}  {:<{}} {:>11.3f} {:>9.2f} {:>8.3f} {:>9}  {}\n", row.rank, row.key,
+                 width, row.criterion(config.search.criterion), row.loglik, row.ljung_box_p,
                  std::isfinite(row.backtest_score) ? fmt::format("{:.4f}", row.backtest_score) : "",
                  to_string(row.status));
     }
