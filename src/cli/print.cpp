@@ -49,7 +49,8 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   fmt::print("how well it fits (n = {} observations, k = {} parameters, sigma^2 counted):\n",
              fit.n_obs, fit.n_params);
   const auto criterion = [](const char* name, double value, const char* formula) {
-    fmt::print("  {:<16} {:>14}   {}\n", name, num(value, 9), formula);
+    fmt::print("  {:<16} {:>14}   {}\n", name,
+               std::isfinite(value) ? fmt::format("{:.3f}", value) : "\u2014", formula);
   };
   criterion("log-likelihood", fit.loglik, "l, exact Gaussian");
   criterion("AIC", fit.aic, "-2 l + 2 k");

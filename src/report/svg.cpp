@@ -665,15 +665,16 @@ LineChart fan_chart(const FanChartData& data) {
 std::string fan_chart_svg(const FanChartData& data) { return line_chart_svg(fan_chart(data)); }
 
 std::string bar_chart_svg(const BarChart& chart) {
-  const std::string inside_colour(palette_colour(5));   // sky blue
-  const std::string outside_colour(palette_colour(0));  // blue
+  // The report's roles (svg.h): the band in the uncertainty hue, bars beyond it in ink.
+  const std::string inside_colour(palette_colour(5));  // sky blue
+  const std::string outside_colour(kInkColour);
   const bool has_band = !chart.band.empty();
   std::vector<LegendEntry> legend;
   if (has_band) {
     legend.push_back({"within band", inside_colour, SwatchKind::bar, LineStyle::solid, 1.0});
     legend.push_back({"beyond band", outside_colour, SwatchKind::bar, LineStyle::solid, 1.0});
-    legend.push_back({chart.band_label, std::string(palette_colour(1)), SwatchKind::line,
-                      LineStyle::dashed, 1.0});
+    legend.push_back({chart.band_label, std::string(palette_colour(kBandColour)),
+                      SwatchKind::line, LineStyle::solid, 1.0});
   }
   Canvas canvas(chart.frame, legend);
   const size_t n = std::min(chart.x.size(), chart.values.size());
@@ -764,8 +765,8 @@ std::string bar_chart_svg(const BarChart& chart) {
       if (!d.empty()) d.pop_back();
       fmt::format_to(std::back_inserter(out),
                      "<path class=\"band-line\" d=\"{}\" fill=\"none\" stroke=\"{}\" "
-                     "stroke-width=\"1.5\" stroke-dasharray=\"6 4\"/>\n",
-                     d, palette_colour(1));
+                     "stroke-width=\"2\"/>\n",
+                     d, palette_colour(kBandColour));
     }
   }
   out += "</g>\n";
