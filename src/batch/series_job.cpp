@@ -15,6 +15,7 @@
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
 #include "io/csv.h"
+#include "model/past.h"
 #include "screen/screen.h"
 #include "search/leaderboard.h"
 #include "search/run_folder.h"
@@ -152,6 +153,9 @@ void write_series_files(const std::filesystem::path& dir, const SeriesData& data
   fit_json["missing"] = describe_missing(data);
   if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
   if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
+  const PastFit past = explain_past(fitted, r.leader.spec, r.leader.params, r.leader.start);
+  fit_json["past"] = past_to_json(past);
+  write_file_atomic(dir / run_files::kPast, past_csv(past));
   write_file_atomic(dir / run_files::kFit, fit_json.dump(1) + "\n");
   write_leader_forecast(dir / run_files::kForecast, model, fitted, config);
 }

@@ -15,6 +15,7 @@
 #include "forecast/model_file.h"
 #include "model/collinearity.h"
 #include "model/fit.h"
+#include "model/past.h"
 #include "model/spec_from_config.h"
 #include "outliers/detect.h"
 #include "outliers/json.h"
@@ -69,6 +70,9 @@ int run_fit(const FitArgs& args) {
     j["missing"] = describe_missing(data);  // what was missing, filled or inserted, per column
     if (!run.config.seasonal_note.empty()) j["seasonal_note"] = run.config.seasonal_note;
     if (detected) j["outliers"] = outliers_to_json(*detected);
+    if (fit.usable())
+      j["past"] = past_to_json(
+          explain_past(detected ? detected->data : data, fit.spec, fit.params, fit.start));
     fmt::print("{}\n", j.dump(2));
   } else {
     print_fit(fit, data);

@@ -4,6 +4,7 @@
 
 #include <filesystem>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -13,6 +14,7 @@
 #include "data/load.h"
 #include "data/time_index.h"
 #include "forecast/forecast.h"
+#include "forecast/forecast_table.h"
 #include "forecast/model_file.h"
 #include "io/config.h"
 #include "io/csv.h"
@@ -97,10 +99,20 @@ int run_forecast(const ForecastArgs& args) {
   ForecastOptions options;
   options.horizon = args.horizon;
   options.levels = args.levels;
-  options.parameter_uncertainty =
-      !args.fixed_parameters && config.forecast.parameter_uncertainty;
+  options.parameter_uncertainty = !args.fixed_parameters && config.forecast.parameter_uncertainty;
   std::vector<ForecastResult> results;
   for (const auto& s : scenarios) results.push_back(forecast(model, history, s.inputs, options));
+  // With scenarios, the baseline beside them: every input forecast by its own model. A model
+  // with a known input and no own model for it has none.
+  std::optional<ForecastResult> baseline;
+  std::string no_baseline;
+  if (!args.futures.empty()) {
+    try {
+      baseline = forecast(model, history, {}, options);
+    } catch (const InputError& e) {
+      no_baseline = e.what();
+    }
+  }
 
   if (args.json) {
     nlohmann::json j;
@@ -116,6 +128,12 @@ int run_forecast(const ForecastArgs& args) {
       s["name"] = scenarios[k].name;
       j["scenarios"].push_back(s);
     }
+    if (baseline) {
+      j["baseline"] = forecast_to_json(*baseline);
+      j["baseline"]["name"] = "baseline (inputs forecast)";
+    } else if (!no_baseline.empty()) {
+      j["baseline_note"] = no_baseline;
+    }
     fmt::print("{}\n", j.dump(2));
     return kExitOk;
   }
@@ -128,21 +146,22 @@ int run_forecast(const ForecastArgs& args) {
         "the target's last {} value{} missing (a ragged edge): the forecast starts after "
         "the last usable value and uses the inputs of those rows as known\n",
         history.rows() - origin, history.rows() - origin == 1 ? " is" : "s are");
+  std::vector<NamedForecast> named;
   for (size_t k = 0; k < scenarios.size(); ++k) {
     const auto& r = results[k];
     fmt::print("\nscenario {} — inputs:", scenarios[k].name);
     for (size_t i = 0; i < model.inputs.size(); ++i)
       fmt::print(" {} {};", model.inputs[i].name, r.input_treatment[i]);
     fmt::print("\n  parameter uncertainty: {}\n", r.parameter_uncertainty);
-    fmt::print("  {:>4} {:<20} {:>12}", "h", "time", "median");
-    for (double level : r.levels) fmt::print(" {:>25}", fmt::format("{:g}% interval", 100 * level));
-    fmt::print(" {:>8} {:>8}\n", "inputs%", "params%");
-    for (int h = 0; h < static_cast<int>(r.median.size()); ++h) {
-      fmt::print("  {:>4} {:<20} {:>12.6g}", h + 1, r.time[h], r.median[h]);
-      for (size_t l = 0; l < r.levels.size(); ++l)
-        fmt::print(" {:>25}", fmt::format("[{:.6g}, {:.6g}]", r.lower[l][h], r.upper[l][h]));
-      fmt::print(" {:>8.1f} {:>8.1f}\n", 100 * r.share_inputs[h], 100 * r.share_parameters[h]);
-    }
+    named.push_back({scenarios[k].name, r});
+  }
+  fmt::print("\n");
+  if (args.futures.empty()) {
+    fmt::print("{}", forecast_table(results.front()));
+  } else {
+    fmt::print("{}", scenario_table(baseline ? &*baseline : nullptr, named));
+    if (!baseline) fmt::print("  ({})\n", no_baseline);
+    for (const auto& n : named) fmt::print("\nscenario {}:\n{}", n.name, forecast_table(n.result));
   }
   return kExitOk;
 }

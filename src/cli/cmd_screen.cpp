@@ -31,20 +31,25 @@ struct ScreenArgs {
   int ar = -1;
 };
 
-// A horizontal bar of a correlation in [-1, 1]: '|' the zero line, '#' the value, ':' the per-lag
-// band and '!' the family band where the bar does not reach them.
-std::string correlation_bar(double r, double band, double family, int half) {
-  std::string bar(static_cast<size_t>(2 * half + 1), ' ');
-  auto cell = [&](double v) { return half + static_cast<int>(std::lround(v * half)); };
-  for (double mark : {band, -band})
-    if (std::abs(mark) <= 1.0) bar[static_cast<size_t>(cell(mark))] = ':';
-  for (double mark : {family, -family})
-    if (std::abs(mark) <= 1.0) bar[static_cast<size_t>(cell(mark))] = '!';
-  const int end = cell(std::clamp(r, -1.0, 1.0));
-  for (int i = std::min(end, half); i <= std::max(end, half); ++i)
-    if (i != half) bar[static_cast<size_t>(i)] = '#';
-  bar[static_cast<size_t>(half)] = '|';
-  return bar;
+// Magnitude of a correlation as a run of eighth-blocks, one cell per 0.1 of |r| (so |r| = 1 fills
+// ten cells), after its sign: a compact size column beside the number, no axis inside.
+std::string magnitude_cells(double r) {
+  static const char* const kEighths[] = {"",       "\u258f", "\u258e", "\u258d",
+                                         "\u258c", "\u258b", "\u258a", "\u2589"};
+  const int eighths = static_cast<int>(std::lround(std::min(std::abs(r), 1.0) * 80.0));
+  std::string out = r < 0 ? "\u2212" : "+";
+  for (int i = 0; i < eighths / 8; ++i) out += "\u2588";
+  out += kEighths[eighths % 8];
+  const int cells = eighths / 8 + (eighths % 8 ? 1 : 0);
+  out += std::string(static_cast<size_t>(10 - cells), ' ');
+  return out;
+}
+
+// The band column: one word per meaning.
+const char* band_marker(double r, double band, double family) {
+  if (std::abs(r) > family) return "family";
+  if (std::abs(r) > band) return "lag";
+  return "";
 }
 
 std::string join_numbers(const std::vector<double>& v) {
@@ -57,7 +62,6 @@ std::string join_numbers(const std::vector<double>& v) {
 }
 
 void print_input(const InputScreen& s, bool negative) {
-  constexpr int kHalf = 20;
   std::string how = s.is_event ? "event, not prewhitened" : "column";
   if (s.indicator.shape != IndicatorShape::none)
     how = fmt::format("indicator column ({}), not prewhitened", to_string(s.indicator.shape));
@@ -79,26 +83,21 @@ void print_input(const InputScreen& s, bool negative) {
     for (const auto& note : s.notes) fmt::print("  note: {}\n", note);
     return;
   }
-  // Axis labels over the bar: -1 at the left edge, 0 over the zero line, +1 at the right edge.
-  std::string axis(static_cast<size_t>(2 * kHalf + 1), ' ');
-  axis.replace(0, 2, "-1");
-  axis[static_cast<size_t>(kHalf)] = '0';
-  axis.replace(static_cast<size_t>(2 * kHalf - 1), 2, "+1");
-  fmt::print("  {:>5} {:>9} {}  {:>9} {:>8} {:>9}\n", "lag", "r(k)", axis, "v_k", "se", "shape");
+  fmt::print("  {:>5} {:>8}  {:<11} {:<7} {:>11} {:>10} {:>11}\n", "lag", "r(k)", "|r(k)|",
+             "beyond", "v_k", "se", "shape v_k");
   const int from = negative ? -s.max_lag : 0;
   for (int k = from; k <= s.max_lag; ++k) {
     const double r = s.correlation_at(k);
-    const char* flag = std::abs(r) > s.family_band ? "!!" : std::abs(r) > s.band ? "! " : "  ";
     std::string tail;
-    if (k >= 0)
-      tail = fmt::format("{:>9.4f} {:>8.4f} {:>9.4f}", s.impulse[k], s.impulse_se[k],
+    if (k >= 0)  // %g keeps the size of small weights visible (4e-05, not 0.0000)
+      tail = fmt::format("{:>11.4g} {:>10.3g} {:>11.4g}", s.impulse[k], s.impulse_se[k],
                          s.impulse_fitted[k]);
-    fmt::print("  {:>5} {:>7.3f}{} {}  {}\n", k, r, flag,
-               correlation_bar(r, s.band, s.family_band, kHalf), tail);
+    fmt::print("  {:>5} {:>+8.3f}  {} {:<7} {}\n", k, r, magnitude_cells(r),
+               band_marker(r, s.band, s.family_band), tail);
   }
   fmt::print(
-      "  bands: per lag +-{:.3f} (':' / '!'), family-wise over lags 0..{} +-{:.3f} "
-      "('!' / '!!')\n",
+      "  |r(k)|: one cell per 0.1; beyond: \"lag\" = outside the per-lag band +-{:.3f}, "
+      "\"family\" = outside the family-wise band over lags 0..{} +-{:.3f} as well\n",
       s.band, s.max_lag, s.family_band);
   if (!negative) {
     int worst = -1;

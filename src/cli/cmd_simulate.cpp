@@ -71,10 +71,10 @@ int run_simulate(const SimulateArgs& args) {
                in.params.delta.empty() ? "" : ", " + polynomial(in.params.delta, "delta"),
                num / den, relevant ? "" : " (irrelevant: zero gain)");
   }
-  std::string noise = polynomial(spec.phi, "ar") + ", " + polynomial(spec.theta, "ma");
+  std::string noise = polynomial(spec.phi, "phi") + ", " + polynomial(spec.theta, "theta");
   if (!spec.seasonal_phi.empty() || !spec.seasonal_theta.empty())
-    noise += fmt::format(", {}, {}, period {}", polynomial(spec.seasonal_phi, "seasonal ar"),
-                         polynomial(spec.seasonal_theta, "seasonal ma"), spec.noise.period);
+    noise += fmt::format(", {}, {}, period {}", polynomial(spec.seasonal_phi, "Phi"),
+                         polynomial(spec.seasonal_theta, "Theta"), spec.noise.period);
   fmt::print("noise      {}, sigma {:g}\n", noise, spec.sigma);
   bool events = false;
   for (const auto& in : spec.inputs) events = events || in.is_event;

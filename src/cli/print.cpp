@@ -45,8 +45,17 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
                    ? fmt::format("{:.1f}", e.value / e.std_error)
                    : "—");
   fmt::print("  {:<28} {:>12}\n\n", "sigma^2 (innovations)", num(fit.sigma2, 6));
-  fmt::print("log-likelihood {}   k = {} (sigma^2 counted)   AIC {}   AICc {}   BIC {}\n",
-             num(fit.loglik, 8), fit.n_params, num(fit.aic, 8), num(fit.aicc, 8), num(fit.bic, 8));
+  // The criteria as a small table of their own, each with the formula it comes from.
+  fmt::print("how well it fits (n = {} observations, k = {} parameters, sigma^2 counted):\n",
+             fit.n_obs, fit.n_params);
+  const auto criterion = [](const char* name, double value, const char* formula) {
+    fmt::print("  {:<16} {:>14}   {}\n", name,
+               std::isfinite(value) ? fmt::format("{:.3f}", value) : "\u2014", formula);
+  };
+  criterion("log-likelihood", fit.loglik, "l, exact Gaussian");
+  criterion("AIC", fit.aic, "-2 l + 2 k");
+  criterion("AICc", fit.aicc, "AIC + 2 k (k + 1) / (n - k - 1)");
+  criterion("BIC", fit.bic, "-2 l + k ln n");
   if (const auto note = filter_start_note(fit.spec); !note.empty()) fmt::print("{}\n", note);
   if (!fit.diagnostics.gains.empty()) {
     fmt::print("\nlong-run gain of each input (response to a lasting unit change):\n");

@@ -20,6 +20,7 @@
 #include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/atomic_file.h"
+#include "model/past.h"
 #include "outliers/detect.h"
 #include "report/report.h"
 #include "screen/screen.h"
@@ -128,6 +129,10 @@ std::vector<std::string> write_search_files(const std::filesystem::path& stage,
     fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
     if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
     if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
+    const PastFit past = explain_past(fitted, r.leader.spec, r.leader.params, r.leader.start);
+    fit_json["past"] = past_to_json(past);
+    write_file_atomic(stage / run_files::per_series(run_files::kPast, r.series, several),
+                      past_csv(past));
     write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
     write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),

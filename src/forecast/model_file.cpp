@@ -364,6 +364,7 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   }
   const json& cov = r.object(doc, "covariance", "");
   m.param_names = r.texts(cov, "names", "covariance.");
+  for (auto& name : m.param_names) name = current_parameter_name(name);  // ar1 -> phi1, ...
   const json& mat = r.list(cov, "matrix", "covariance.");
   const size_t n = m.param_names.size();
   if (mat.size() != n)

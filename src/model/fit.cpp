@@ -389,8 +389,8 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
     diag.residual_input.push_back(std::move(*check));
   }
 
-  add_roots(diag, "ar", p.phi, -1.0);
-  add_roots(diag, "ma", p.theta, +1.0);
+  add_roots(diag, "phi", p.phi, -1.0);
+  add_roots(diag, "theta", p.theta, +1.0);
   add_roots(diag, "seasonal_ar", p.seasonal_phi, -1.0);
   add_roots(diag, "seasonal_ma", p.seasonal_theta, +1.0);
   double dist = 0.0;

@@ -61,7 +61,7 @@ struct InputGain {
 };
 
 struct PolynomialRoots {
-  std::string polynomial;  // e.g. "ar", "ma", "temp.delta", "temp.omega"
+  std::string polynomial;  // e.g. "phi", "theta", "temp.delta", "temp.omega"
   std::vector<std::complex<double>> roots;
   double min_modulus = 0.0;
 };

@@ -147,10 +147,10 @@ std::vector<std::string> nonlinear_names(const ModelSpec& spec) {
   for (const auto& term : spec.inputs)
     for (int j = 1; j <= term.order.denominator; ++j)
       names.push_back(fmt::format("{}.delta{}", term.name, j));
-  for (int j = 1; j <= spec.noise.p; ++j) names.push_back(fmt::format("ar{}", j));
-  for (int j = 1; j <= spec.noise.q; ++j) names.push_back(fmt::format("ma{}", j));
-  for (int j = 1; j <= spec.noise.seasonal_p; ++j) names.push_back(fmt::format("sar{}", j));
-  for (int j = 1; j <= spec.noise.seasonal_q; ++j) names.push_back(fmt::format("sma{}", j));
+  for (int j = 1; j <= spec.noise.p; ++j) names.push_back(fmt::format("phi{}", j));
+  for (int j = 1; j <= spec.noise.q; ++j) names.push_back(fmt::format("theta{}", j));
+  for (int j = 1; j <= spec.noise.seasonal_p; ++j) names.push_back(fmt::format("Phi{}", j));
+  for (int j = 1; j <= spec.noise.seasonal_q; ++j) names.push_back(fmt::format("Theta{}", j));
   return names;
 }
 

@@ -17,4 +17,16 @@ ModelParams zero_params(const ModelSpec& spec) {
   return p;
 }
 
+std::string current_parameter_name(const std::string& name) {
+  static const std::pair<const char*, const char*> kOld[] = {
+      {"sar", "Phi"}, {"sma", "Theta"}, {"ar", "phi"}, {"ma", "theta"}};
+  for (const auto& [old, now] : kOld) {
+    const std::string prefix(old);
+    if (name.size() > prefix.size() && name.compare(0, prefix.size(), prefix) == 0 &&
+        name.find_first_not_of("0123456789", prefix.size()) == std::string::npos)
+      return now + name.substr(prefix.size());
+  }
+  return name;
+}
+
 }  // namespace lagsieve

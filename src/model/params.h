@@ -17,9 +17,9 @@ struct InputParams {
 
 struct ModelParams {
   double constant = 0.0;
-  std::vector<InputParams> inputs;  // same order as ModelSpec::inputs
-  std::vector<double> phi;          // phi_1..phi_p
-  std::vector<double> theta;        // theta_1..theta_q
+  std::vector<InputParams> inputs;     // same order as ModelSpec::inputs
+  std::vector<double> phi;             // phi_1..phi_p
+  std::vector<double> theta;           // theta_1..theta_q
   std::vector<double> seasonal_phi;    // Phi_1..Phi_P
   std::vector<double> seasonal_theta;  // Theta_1..Theta_Q
   double sigma2 = 1.0;
@@ -27,5 +27,10 @@ struct ModelParams {
 
 // Zero-valued parameters of the right shape for `spec`.
 ModelParams zero_params(const ModelSpec& spec);
+
+// Parameter names follow core/spec.h: phi1.., theta1.., Phi1.., Theta1.. for the noise, then
+// <input>.delta1.., <input>.omega0.., constant. Files written before used ar1, ma1, sar1 and
+// sma1; this maps those to today's names (any other name is returned unchanged).
+std::string current_parameter_name(const std::string& name);
 
 }  // namespace lagsieve

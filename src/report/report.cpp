@@ -22,6 +22,7 @@
 #include "report/effects_section.h"
 #include "report/html.h"
 #include "report/revalidation_page.h"
+#include "report/past_section.h"
 #include "report/svg.h"
 #include "search/run_folder.h"
 
@@ -830,6 +831,23 @@ std::vector<std::pair<double, std::string>> level_keys(const json& bounds) {
   return out;
 }
 
+// The model's event inputs (name and start), for the marks of the fan and the past charts.
+std::vector<PastEvent> model_events(const SeriesFiles& sf) {
+  std::vector<PastEvent> events;
+  if (sf.model)
+    for (const auto& use : sf.model->inputs)
+      if (use.is_event && !use.at.empty()) events.push_back({use.name, use.at});
+  return events;
+}
+
+std::optional<HtmlSection> past_of_series(Builder& b, const SeriesFiles& sf) {
+  if (!sf.fit) return std::nullopt;
+  const std::string stem = b.stem("", sf);
+  return past_section(*sf.fit, sf.fit_file, model_events(sf), b.suffix(sf), stem,
+                      [&b](const std::string& svg, const std::string& file_stem,
+                           const std::string& caption) { return b.figure(svg, file_stem, caption); });
+}
+
 std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, const ReportOptions& options) {
   const JsonFile f(sf.forecast_file);
   const json& doc = *sf.forecast;
@@ -896,10 +914,11 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
   stamps.resize(history.size());
   stamps.insert(stamps.end(), ftime.begin(), ftime.end());
   fan.x_ticks = time_ticks(all_x, stamps);
+  add_past_to_fan(fan, history_time, ftime, sf.fit ? &*sf.fit : nullptr, model_events(sf));
 
   const std::string label = sf.model ? model_label(sf.model->spec) : std::string();
   fan.frame.title = input_share
-      ? "The dashed outline is the band with future inputs known; the extra width of the filled "
+      ? "The green outline is the band with future inputs known; the extra width of the orange "
         "band comes from forecasting the inputs"
       : fmt::format("{}: point forecast with {} and {} bands", sf.name, pct(inner_level),
                     pct(outer_level));
@@ -1553,6 +1572,7 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
       page.sections.push_back(leaderboard_section(b, sf, *run.leaderboard, options));
     if (sf.forecast)
       if (auto s = forecast_section(b, sf, options)) page.sections.push_back(std::move(*s));
+    if (auto s = past_of_series(b, sf)) page.sections.push_back(std::move(*s));
     if (auto s = backtest_section(b, run, sf, options, files_read)) page.sections.push_back(std::move(*s));
     if (sf.fit)
       if (auto e = effects_section(*sf.fit, b.suffix(sf))) {

@@ -36,9 +36,12 @@ std::string join_exact(const std::vector<double>& v) {
 
 std::string_view dash_array(LineStyle style) {
   switch (style) {
-    case LineStyle::dashed: return "7 4";
-    case LineStyle::dotted: return "2 3";
-    case LineStyle::solid: break;
+    case LineStyle::dashed:
+      return "7 4";
+    case LineStyle::dotted:
+      return "2 3";
+    case LineStyle::solid:
+      break;
   }
   return "";
 }
@@ -124,7 +127,8 @@ class Canvas {
     width_ = std::max(frame.width, 240);
     height_ = std::max(frame.height, 180);
     title_lines_ = wrap_words(frame.title, static_cast<size_t>((width_ - 24) / kTitleCharWidth), 2);
-    subtitle_lines_ = wrap_words(frame.subtitle, static_cast<size_t>((width_ - 24) / kCharWidth), 2);
+    subtitle_lines_ =
+        wrap_words(frame.subtitle, static_cast<size_t>((width_ - 24) / kCharWidth), 2);
     legend_ = std::move(legend);
   }
 
@@ -132,7 +136,8 @@ class Canvas {
   void layout(const std::vector<std::string>& y_labels) {
     size_t longest = 1;
     for (const auto& l : y_labels) longest = std::max(longest, l.size());
-    left_ = 12.0 + (frame_.y_title.empty() ? 0.0 : 20.0) + 8.0 + kCharWidth * static_cast<double>(longest);
+    left_ = 12.0 + (frame_.y_title.empty() ? 0.0 : 20.0) + 8.0 +
+            kCharWidth * static_cast<double>(longest);
     right_ = width_ - 18.0;
     double y = 10.0;
     y += 20.0 * static_cast<double>(title_lines_.size());
@@ -149,17 +154,19 @@ class Canvas {
   double bottom() const { return bottom_; }
 
   void begin(std::string& out, std::string_view kind) const {
-    fmt::format_to(std::back_inserter(out),
-                   "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"chart chart-{}\" width=\"{}\" "
-                   "height=\"{}\" viewBox=\"0 0 {} {}\" role=\"img\" font-family=\"{}\" "
-                   "font-size=\"12\">\n",
-                   kind, width_, height_, width_, height_, kFont);
+    fmt::format_to(
+        std::back_inserter(out),
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"chart chart-{}\" width=\"{}\" "
+        "height=\"{}\" viewBox=\"0 0 {} {}\" role=\"img\" font-family=\"{}\" "
+        "font-size=\"12\">\n",
+        kind, width_, height_, width_, height_, kFont);
     fmt::format_to(std::back_inserter(out), "<title>{}</title>\n", escape_markup(frame_.title));
     if (!frame_.subtitle.empty())
       fmt::format_to(std::back_inserter(out), "<desc>{}</desc>\n", escape_markup(frame_.subtitle));
     fmt::format_to(std::back_inserter(out),
                    "<rect class=\"background\" x=\"0\" y=\"0\" width=\"{}\" height=\"{}\" "
-                   "fill=\"#ffffff\"/>\n", width_, height_);
+                   "fill=\"#ffffff\"/>\n",
+                   width_, height_);
     double y = 10.0;
     for (const auto& line : title_lines_) {
       y += 20.0;
@@ -283,7 +290,7 @@ class Canvas {
         case SwatchKind::outline:
           fmt::format_to(std::back_inserter(out),
                          "<rect x=\"{}\" y=\"{}\" width=\"18\" height=\"10\" fill=\"none\" "
-                         "stroke=\"{}\" stroke-width=\"1.5\" stroke-dasharray=\"4 2\"/>\n",
+                         "stroke=\"{}\" stroke-width=\"2\"/>\n",
                          px(x), px(y - 5.0), e.colour);
           break;
         case SwatchKind::point:
@@ -349,6 +356,19 @@ std::string band_path(const Band& b, const Scale& xs, const Scale& ys, bool clos
     }
     size_t j = i;
     while (j < n && ok(j)) ++j;
+    if (b.stepped) {  // each point covers [x - 1/2, x + 1/2]
+      const auto edge = [&](size_t k, double side) { return px(xs(b.x[k] + side)); };
+      for (size_t k = i; k < j; ++k)
+        fmt::format_to(std::back_inserter(d), "{}{} {} L{} {} ", k == i ? "M" : "L", edge(k, -0.5),
+                       px(ys(b.upper[k])), edge(k, 0.5), px(ys(b.upper[k])));
+      for (size_t k = j; k-- > i;)
+        fmt::format_to(std::back_inserter(d), "{}{} {} L{} {} ",
+                       (k == j - 1 && !closed) ? "M" : "L", edge(k, 0.5), px(ys(b.lower[k])),
+                       edge(k, -0.5), px(ys(b.lower[k])));
+      if (closed) d += "Z ";
+      i = j;
+      continue;
+    }
     for (size_t k = i; k < j; ++k)
       fmt::format_to(std::back_inserter(d), "{}{} {} ", k == i ? "M" : "L", px(xs(b.x[k])),
                      px(ys(b.upper[k])));
@@ -387,12 +407,23 @@ std::string escape_markup(std::string_view text) {
   out.reserve(text.size());
   for (char c : text) {
     switch (c) {
-      case '&': out += "&amp;"; break;
-      case '<': out += "&lt;"; break;
-      case '>': out += "&gt;"; break;
-      case '"': out += "&quot;"; break;
-      case '\'': out += "&#39;"; break;
-      default: out += c;
+      case '&':
+        out += "&amp;";
+        break;
+      case '<':
+        out += "&lt;";
+        break;
+      case '>':
+        out += "&gt;";
+        break;
+      case '"':
+        out += "&quot;";
+        break;
+      case '\'':
+        out += "&#39;";
+        break;
+      default:
+        out += c;
     }
   }
   return out;
@@ -438,7 +469,8 @@ std::string line_chart_svg(const LineChart& chart) {
                       LineStyle::solid, std::max(b.opacity, 0.15)});
   for (size_t i = 0; i < chart.series.size(); ++i) {
     const LineSeries& s = chart.series[i];
-    legend.push_back({s.name, series_colour(s, i), SwatchKind::line, s.style, 1.0});
+    legend.push_back({s.name, series_colour(s, i), s.connect ? SwatchKind::line : SwatchKind::point,
+                      s.style, 1.0});
   }
   Canvas canvas(chart.frame, legend);
 
@@ -446,6 +478,10 @@ std::string line_chart_svg(const LineChart& chart) {
   Range yr;
   for (const Band& b : chart.bands) {
     xr.add(b.x);
+    if (b.stepped && !b.x.empty()) {
+      xr.add(b.x.front() - 0.5);
+      xr.add(b.x.back() + 0.5);
+    }
     yr.add(b.lower);
     yr.add(b.upper);
   }
@@ -472,7 +508,8 @@ std::string line_chart_svg(const LineChart& chart) {
   std::vector<double> x_at;
   std::vector<std::string> x_labels;
   if (chart.x_ticks.empty()) {
-    x_at = inner_ticks(xr.lo, xr.hi, std::max(3, static_cast<int>((canvas.right() - canvas.left()) / 90.0)));
+    x_at = inner_ticks(xr.lo, xr.hi,
+                       std::max(3, static_cast<int>((canvas.right() - canvas.left()) / 90.0)));
     const double step = x_at.size() > 1 ? x_at[1] - x_at[0] : 1.0;
     for (double v : x_at) x_labels.push_back(tick_label(v, step, TickFormat::plain));
   } else {
@@ -493,30 +530,50 @@ std::string line_chart_svg(const LineChart& chart) {
     return out;
   }
   if (chart.include_zero || (y_ticks.front() < 0.0 && y_ticks.back() > 0.0))
-    fmt::format_to(std::back_inserter(out),
-                   "<line class=\"zero\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#999999\"/>\n",
-                   px(canvas.left()), px(ys(0.0)), px(canvas.right()), px(ys(0.0)));
+    fmt::format_to(
+        std::back_inserter(out),
+        "<line class=\"zero\" x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#999999\"/>\n",
+        px(canvas.left()), px(ys(0.0)), px(canvas.right()), px(ys(0.0)));
   out += "<g class=\"plot\">\n";
   for (const Band& b : chart.bands) {
     const std::string colour(palette_colour(b.colour));
     const bool filled = b.style == BandStyle::filled;
+    fmt::format_to(
+        std::back_inserter(out),
+        "<path class=\"band\" data-band=\"{}\" data-x=\"{}\" data-lower=\"{}\" "
+        "data-upper=\"{}\" d=\"{}\" {}/>\n",
+        escape_markup(b.name), join_exact(b.x), join_exact(b.lower), join_exact(b.upper),
+        band_path(b, xs, ys, filled),
+        filled
+            ? fmt::format("fill=\"{}\" fill-opacity=\"{}\" stroke=\"none\"", colour, px(b.opacity))
+            : fmt::format("fill=\"none\" stroke=\"{}\" stroke-width=\"1.75\"", colour));
+  }
+  for (size_t m = 0; m < chart.marks.size(); ++m) {
+    const XMark& mark = chart.marks[m];
+    if (!std::isfinite(mark.at) || mark.at < xr.lo || mark.at > xr.hi) continue;
+    const double x = xs(mark.at);
+    const std::string colour(palette_colour(mark.colour));
+    // Labels alternate between two rows so neighbouring marks do not overprint.
+    const double label_y = canvas.top() + (m % 2 == 0 ? 11.0 : 24.0);
+    const bool right_half = x > 0.5 * (canvas.left() + canvas.right());
     fmt::format_to(std::back_inserter(out),
-                   "<path class=\"band\" data-band=\"{}\" data-x=\"{}\" data-lower=\"{}\" "
-                   "data-upper=\"{}\" d=\"{}\" {}/>\n",
-                   escape_markup(b.name), join_exact(b.x), join_exact(b.lower), join_exact(b.upper),
-                   band_path(b, xs, ys, filled),
-                   filled ? fmt::format("fill=\"{}\" fill-opacity=\"{}\" stroke=\"none\"", colour,
-                                        px(b.opacity))
-                          : fmt::format("fill=\"none\" stroke=\"{}\" stroke-width=\"1.5\" "
-                                        "stroke-dasharray=\"5 3\"",
-                                        colour));
+                   "<g class=\"mark\" data-x=\"{0}\" data-label=\"{1}\"><line x1=\"{2}\" "
+                   "y1=\"{3}\" x2=\"{2}\" y2=\"{4}\" stroke=\"{5}\" stroke-width=\"1.25\" "
+                   "stroke-dasharray=\"1 3\" stroke-linecap=\"round\"/>"
+                   "<path d=\"M{6} {4} L{2} {7} L{8} {4} Z\" fill=\"{5}\"/>"
+                   "<text x=\"{9}\" y=\"{10}\" fill=\"{5}\" font-size=\"11\" "
+                   "text-anchor=\"{11}\">{1}</text></g>\n",
+                   format_exact(mark.at), escape_markup(mark.label), px(x), px(canvas.top()),
+                   px(canvas.bottom()), colour, px(x - 4.0), px(canvas.bottom() - 6.0), px(x + 4.0),
+                   px(right_half ? x - 4.0 : x + 4.0), px(label_y), right_half ? "end" : "start");
   }
   if (chart.x_rule) {
     const double x = xs(*chart.x_rule);
-    fmt::format_to(std::back_inserter(out),
-                   "<line class=\"rule\" x1=\"{0}\" y1=\"{1}\" x2=\"{0}\" y2=\"{2}\" stroke=\"{3}\" "
-                   "stroke-dasharray=\"3 3\" data-x=\"{4}\"/>\n",
-                   px(x), px(canvas.top()), px(canvas.bottom()), kMuted, format_exact(*chart.x_rule));
+    fmt::format_to(
+        std::back_inserter(out),
+        "<line class=\"rule\" x1=\"{0}\" y1=\"{1}\" x2=\"{0}\" y2=\"{2}\" stroke=\"{3}\" "
+        "stroke-dasharray=\"3 3\" data-x=\"{4}\"/>\n",
+        px(x), px(canvas.top()), px(canvas.bottom()), kMuted, format_exact(*chart.x_rule));
     if (!chart.x_rule_label.empty())
       fmt::format_to(std::back_inserter(out),
                      "<text x=\"{}\" y=\"{}\" fill=\"{}\" text-anchor=\"end\">{}</text>\n",
@@ -529,19 +586,20 @@ std::string line_chart_svg(const LineChart& chart) {
     const auto dash = dash_array(s.style);
     fmt::format_to(std::back_inserter(out),
                    "<g class=\"series\" data-series=\"{}\" data-x=\"{}\" data-values=\"{}\">\n"
-                   "<path d=\"{}\" fill=\"none\" stroke=\"{}\" stroke-width=\"2\" "
+                   "<path d=\"{}\" fill=\"none\" stroke=\"{}\" stroke-width=\"{}\" "
                    "stroke-linejoin=\"round\"{}/>\n",
                    escape_markup(s.name), join_exact(s.x), join_exact(s.y),
-                   polyline_path(s.x, s.y, xs, ys), colour,
+                   s.connect ? polyline_path(s.x, s.y, xs, ys) : std::string(), colour,
+                   s.ink ? "1.5" : "2",
                    dash.empty() ? "" : fmt::format(" stroke-dasharray=\"{}\"", dash));
     if (s.markers) {
       for (size_t k = 0; k < std::min(s.x.size(), s.y.size()); ++k) {
         if (!std::isfinite(s.x[k]) || !std::isfinite(s.y[k])) continue;
         fmt::format_to(std::back_inserter(out),
                        "<circle class=\"point\" data-series=\"{}\" data-x=\"{}\" "
-                       "data-value=\"{}\" cx=\"{}\" cy=\"{}\" r=\"3.5\" fill=\"{}\"/>\n",
+                       "data-value=\"{}\" cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"{}\"/>\n",
                        escape_markup(s.name), format_exact(s.x[k]), format_exact(s.y[k]),
-                       px(xs(s.x[k])), px(ys(s.y[k])), colour);
+                       px(xs(s.x[k])), px(ys(s.y[k])), s.connect ? "3.5" : "2.5", colour);
       }
     }
     out += "</g>\n";
@@ -555,28 +613,47 @@ LineChart fan_chart(const FanChartData& data) {
   LineChart chart;
   chart.frame = data.frame;
   chart.x_ticks = data.x_ticks;
+  chart.marks = data.marks;
   const auto pct = [](double level) { return fmt::format("{:g}%", 100.0 * level); };
   for (size_t k = 0; k < data.bands.size(); ++k) {
     const FanBands& fb = data.bands[k];
     const bool first = k == 0;
-    const int colour = first ? 0 : static_cast<int>(k);  // blue, then vermillion, ...
+    const int colour = first ? kBandColour : kKnownColour;
     const auto name = [&](double level) {
       return fb.label.empty() ? pct(level) : fmt::format("{} ({})", pct(level), fb.label);
     };
-    Band outer{name(data.outer_level), data.forecast_x, fb.outer_lower, fb.outer_upper, colour,
-               0.16, first ? BandStyle::filled : BandStyle::outline};
-    Band inner{name(data.inner_level), data.forecast_x, fb.inner_lower, fb.inner_upper, colour,
-               0.32, first ? BandStyle::filled : BandStyle::outline};
+    Band outer{name(data.outer_level),
+               data.forecast_x,
+               fb.outer_lower,
+               fb.outer_upper,
+               colour,
+               0.22,
+               first ? BandStyle::filled : BandStyle::outline,
+               true};
+    Band inner{name(data.inner_level),
+               data.forecast_x,
+               fb.inner_lower,
+               fb.inner_upper,
+               colour,
+               0.5,
+               first ? BandStyle::filled : BandStyle::outline,
+               true};
     chart.bands.push_back(std::move(outer));
     chart.bands.push_back(std::move(inner));
   }
   LineSeries history{"History", data.history_x, data.history, -1, true, LineStyle::solid, false};
   chart.series.push_back(std::move(history));
+  if (!data.fitted.empty()) {
+    LineSeries fitted{"Fitted (one step)", data.fitted_x, data.fitted, kModelColour, false,
+                      LineStyle::dotted,   false};
+    chart.series.push_back(std::move(fitted));
+  }
   if (!data.actual.empty()) {
     LineSeries actual{"Actual", data.actual_x, data.actual, -1, true, LineStyle::dotted, true};
     chart.series.push_back(std::move(actual));
   }
-  LineSeries forecast{"Forecast", data.forecast_x, data.forecast, 0, false, LineStyle::solid, false};
+  LineSeries forecast{"Forecast", data.forecast_x,  data.forecast, kModelColour,
+                      false,      LineStyle::solid, true};
   chart.series.push_back(std::move(forecast));
   if (!data.history_x.empty()) {
     chart.x_rule = data.history_x.back();
@@ -588,15 +665,16 @@ LineChart fan_chart(const FanChartData& data) {
 std::string fan_chart_svg(const FanChartData& data) { return line_chart_svg(fan_chart(data)); }
 
 std::string bar_chart_svg(const BarChart& chart) {
-  const std::string inside_colour(palette_colour(5));   // sky blue
-  const std::string outside_colour(palette_colour(0));  // blue
+  // The report's roles (svg.h): the band in the uncertainty hue, bars beyond it in ink.
+  const std::string inside_colour(palette_colour(5));  // sky blue
+  const std::string outside_colour(kInkColour);
   const bool has_band = !chart.band.empty();
   std::vector<LegendEntry> legend;
   if (has_band) {
     legend.push_back({"within band", inside_colour, SwatchKind::bar, LineStyle::solid, 1.0});
     legend.push_back({"beyond band", outside_colour, SwatchKind::bar, LineStyle::solid, 1.0});
-    legend.push_back({chart.band_label, std::string(palette_colour(1)), SwatchKind::line,
-                      LineStyle::dashed, 1.0});
+    legend.push_back({chart.band_label, std::string(palette_colour(kBandColour)),
+                      SwatchKind::line, LineStyle::solid, 1.0});
   }
   Canvas canvas(chart.frame, legend);
   const size_t n = std::min(chart.x.size(), chart.values.size());
@@ -632,7 +710,8 @@ std::string bar_chart_svg(const BarChart& chart) {
   const double x_hi = xr.hi + 0.6 * spacing;
   const Scale xs{x_lo, x_hi, canvas.left(), canvas.right()};
   const Scale ys{y_ticks.front(), y_ticks.back(), canvas.bottom(), canvas.top()};
-  std::vector<double> x_at = inner_ticks(xr.lo, xr.hi, std::max(3, static_cast<int>((canvas.right() - canvas.left()) / 60.0)));
+  std::vector<double> x_at = inner_ticks(
+      xr.lo, xr.hi, std::max(3, static_cast<int>((canvas.right() - canvas.left()) / 60.0)));
   // Lags are whole numbers: never put a tick between two of them.
   if (x_at.size() > 1 && x_at[1] - x_at[0] < spacing) {
     x_at.clear();
@@ -686,8 +765,8 @@ std::string bar_chart_svg(const BarChart& chart) {
       if (!d.empty()) d.pop_back();
       fmt::format_to(std::back_inserter(out),
                      "<path class=\"band-line\" d=\"{}\" fill=\"none\" stroke=\"{}\" "
-                     "stroke-width=\"1.5\" stroke-dasharray=\"6 4\"/>\n",
-                     d, palette_colour(1));
+                     "stroke-width=\"2\"/>\n",
+                     d, palette_colour(kBandColour));
     }
   }
   out += "</g>\n";
@@ -731,8 +810,8 @@ std::string horizon_chart_svg(const HorizonChart& chart) {
 
 std::string coverage_chart_svg(const CoverageChart& chart) {
   std::vector<LegendEntry> legend;
-  legend.push_back({"nominal = empirical", std::string(kInkColour), SwatchKind::line,
-                    LineStyle::dashed, 1.0});
+  legend.push_back(
+      {"nominal = empirical", std::string(kInkColour), SwatchKind::line, LineStyle::dashed, 1.0});
   int count = 0;
   for (const CoverageSeries& s : chart.series)
     if (count == 0 && s.count > 0) count = s.count;

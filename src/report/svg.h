@@ -30,6 +30,15 @@ namespace lagsieve {
 std::string_view palette_colour(int index);
 inline constexpr std::string_view kInkColour = "#000000";  // history, reference lines
 
+// The report's colour roles, the same in every chart (palette indices): what was observed is
+// ink, what the model says is vermillion, its uncertainty a single orange hue (stepped by
+// horizon in forecasts), the band with future inputs known a bluish-green outline, and events
+// reddish-purple marks.
+inline constexpr int kModelColour = 1;  // forecasts, fitted values
+inline constexpr int kBandColour = 3;   // prediction intervals, +-2 sigma bands
+inline constexpr int kKnownColour = 2;  // the interval with future inputs known
+inline constexpr int kEventColour = 4;  // event dates, the largest residual
+
 // Escapes & < > " ' for XML/HTML text and attribute values.
 std::string escape_markup(std::string_view text);
 
@@ -58,7 +67,8 @@ struct LineSeries {
   int colour = -1;        // palette index; -1 takes the series' position in the chart
   bool ink = false;       // draw in black instead of a palette colour (e.g. history)
   LineStyle style = LineStyle::solid;
-  bool markers = false;   // a dot per point (also carries data-value per point)
+  bool markers = false;  // a dot per point (also carries data-value per point)
+  bool connect = true;   // false: markers only (a scatter), no line
 };
 
 enum class BandStyle { filled, outline };
@@ -68,9 +78,17 @@ struct Band {
   std::vector<double> x;
   std::vector<double> lower;
   std::vector<double> upper;
-  int colour = 0;          // palette index
-  double opacity = 0.25;   // fill opacity when filled
-  BandStyle style = BandStyle::filled;  // outline: dashed edges only, for a second band family
+  int colour = 0;                       // palette index
+  double opacity = 0.25;                // fill opacity when filled
+  BandStyle style = BandStyle::filled;  // outline: solid edges only, for a second band family
+  bool stepped = false;  // each x covers [x - 1/2, x + 1/2] (forecast horizons), not a ramp
+};
+
+// A labelled vertical mark at a position of the x axis (an event date, the largest residual).
+struct XMark {
+  double at = 0.0;
+  std::string label;
+  int colour = kEventColour;
 };
 
 struct AxisTick {
@@ -80,20 +98,23 @@ struct AxisTick {
 
 struct LineChart {
   ChartFrame frame;
-  std::vector<Band> bands;          // drawn first, in order (put the widest first)
-  std::vector<LineSeries> series;   // drawn over the bands
-  std::vector<AxisTick> x_ticks;    // empty: nice numeric ticks; else exactly these (e.g. dates)
-  std::optional<double> x_rule;     // a vertical rule, e.g. at the forecast origin
+  std::vector<Band> bands;         // drawn first, in order (put the widest first)
+  std::vector<LineSeries> series;  // drawn over the bands
+  std::vector<AxisTick> x_ticks;   // empty: nice numeric ticks; else exactly these (e.g. dates)
+  std::optional<double> x_rule;    // a vertical rule, e.g. at the forecast origin
   std::string x_rule_label;
-  bool include_zero = false;        // force y = 0 into the range
-  std::optional<double> x_min;      // widen the x range (e.g. half a step of padding)
+  std::vector<XMark> marks;     // drawn under the series, labels along the top edge
+  bool include_zero = false;    // force y = 0 into the range
+  std::optional<double> x_min;  // widen the x range (e.g. half a step of padding)
   std::optional<double> x_max;
 };
 std::string line_chart_svg(const LineChart& chart);
 
-// Forecast fan: history, point forecast and nested inner/outer bands. The first band set is
-// filled; a second set (e.g. "inputs known" beside "inputs forecast") is drawn as dashed
-// outlines in another colour so the extra width from uncertain inputs is visible.
+// Forecast fan: history, point forecast and nested inner/outer bands, stepped by horizon. The
+// first band set is filled in one orange hue (outer light, inner darker); a second set (e.g.
+// "inputs known" beside "inputs forecast") is drawn as bluish-green outlines so the extra width
+// from uncertain inputs is visible. Optional: the model's fitted values over the last stretch
+// of history, and event marks.
 struct FanBands {
   std::string label;  // e.g. "inputs forecast"
   std::vector<double> inner_lower, inner_upper;
@@ -105,8 +126,10 @@ struct FanChartData {
   std::vector<double> forecast_x, forecast;
   double inner_level = 0.80;
   double outer_level = 0.95;
-  std::vector<FanBands> bands;          // 0, 1 or 2 sets over forecast_x
+  std::vector<FanBands> bands;           // 0, 1 or 2 sets over forecast_x
   std::vector<double> actual_x, actual;  // optional realised values after the origin
+  std::vector<double> fitted_x, fitted;  // optional one-step fitted values before the origin
+  std::vector<XMark> marks;              // e.g. event dates
   std::vector<AxisTick> x_ticks;
 };
 LineChart fan_chart(const FanChartData& data);
@@ -151,7 +174,7 @@ struct CoverageSeries {
 };
 struct CoverageChart {
   ChartFrame frame;
-  std::vector<double> nominal;    // as shares, e.g. {0.8, 0.95}
+  std::vector<double> nominal;  // as shares, e.g. {0.8, 0.95}
   std::vector<CoverageSeries> series;
 };
 std::string coverage_chart_svg(const CoverageChart& chart);

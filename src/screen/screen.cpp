@@ -420,13 +420,33 @@ InputScreen screen_input(const std::string& name, bool is_event, const Indicator
     s.suggested_delay = b;
     const std::vector<double> tail(s.impulse.begin() + b, s.impulse.end());
     int best = -1;
+    // The weights' sampling sd is known from the prewhitened series (that of a weight with no
+    // response behind it), so the evidence for a shape is measured against it: BIC with known
+    // variance, SSE / se0^2 + (r + s + 1) ln m. Against the fit's own residual variance a
+    // flexible shape that follows the noise of the tail would look ever better.
+    const double se0 = s.sd_target / (s.sd_input * sqn);
+    const double log_m = std::log(static_cast<double>(tail.size()));
     for (int r = 0; r <= opt.max_shape_order; ++r)
       for (int q = 0; q <= opt.max_shape_order; ++q) {
         s.shapes.push_back(fit_shape(tail, r, q));
-        const auto& f = s.shapes.back();
+        auto& f = s.shapes.back();
+        if (std::isfinite(f.bic) && se0 > 0.0)
+          f.bic = f.sse / (se0 * se0) + (r + q + 1) * log_m;
         if (std::isfinite(f.bic) && (best < 0 || f.bic < s.shapes[best].bic))
           best = static_cast<int>(s.shapes.size()) - 1;
       }
+    // The smallest shape within the margin of the best (fewest parameters, then smallest r).
+    if (best >= 0) {
+      const double limit = s.shapes[best].bic + opt.shape_bic_margin;
+      for (int i = 0; i < static_cast<int>(s.shapes.size()); ++i) {
+        const auto& f = s.shapes[i];
+        const auto& c = s.shapes[best];
+        const auto size = [](const auto& shape) {
+          return std::pair(shape.numerator + shape.denominator, shape.denominator);
+        };
+        if (std::isfinite(f.bic) && f.bic <= limit && size(f) < size(c)) best = i;
+      }
+    }
     if (best >= 0) {
       s.suggested_numerator = s.shapes[best].numerator;
       s.suggested_denominator = s.shapes[best].denominator;
@@ -453,7 +473,9 @@ InputScreen screen_input(const std::string& name, bool is_event, const Indicator
                               0.01 * s.sd_target * s.sd_target);
   s.impulse_se.assign(L + 1, std::sqrt(se2) / (s.sd_input * sqn));
 
-  for (int k = -L; k < 0; ++k)
+  // A deterministic input (an event, or a column recognised as a step or pulse indicator) cannot
+  // respond to the target: correlation at negative lags is then no sign of feedback.
+  for (int k = -L; k < 0 && !deterministic; ++k)
     if (std::abs(s.correlation_at(k)) > s.feedback_band) s.feedback_lags.push_back(k);
   if (!s.feedback_lags.empty()) {
     std::string lags;
@@ -544,6 +566,8 @@ void ScreenOptions::validate() const {
     fail(fmt::format("family_level = {} must lie in (0, 1)", family_level));
   if (max_shape_order < 0 || max_shape_order > 2)
     fail(fmt::format("max_shape_order = {} must lie in 0..2", max_shape_order));
+  if (!(shape_bic_margin >= 0.0))
+    fail(fmt::format("shape_bic_margin = {} must be >= 0", shape_bic_margin));
   if (max_noise_order < 0) fail(fmt::format("max_noise_order = {} must be >= 0", max_noise_order));
   if (noise_lags < 1) fail(fmt::format("noise_lags = {} must be at least 1", noise_lags));
   if (!(collinear > 0.0 && collinear <= 1.0))
@@ -693,6 +717,7 @@ nlohmann::json to_json(const ScreenResult& r) {
                     {"band_z", o.band_z},
                     {"family_level", o.family_level},
                     {"max_shape_order", o.max_shape_order},
+                    {"shape_bic_margin", o.shape_bic_margin},
                     {"max_noise_order", o.max_noise_order},
                     {"noise_lags", o.noise_lags},
                     {"collinear", o.collinear},

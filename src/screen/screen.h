@@ -48,8 +48,15 @@
 // Orders (r, s): every shape omega(B) B^b / delta(B) with r, s in 0..max_shape_order is fitted by
 // least squares to v_b..v_L (omega concentrated out for each delta; delta kept stable through the
 // partial-autocorrelation map; a grid then a Nelder-Mead polish), and the shape with the smallest
-// BIC_v = m log(SSE / m) + (r + s + 1) log m (m = L - b + 1 points) is suggested. Its omega, delta
-// are the starting values in `suggested_omega`, `suggested_delta` (signs of core/spec.h).
+// BIC_v = SSE / se0^2 + (r + s + 1) log m (m = L - b + 1 points; se0 = s_beta / (s_alpha sqrt(n')),
+// the sampling sd of a weight with no response behind it: the BIC of a Gaussian fit with known
+// variance) is computed. The suggestion is
+// the smallest shape (fewest r + s, then smallest r) whose BIC_v is within `shape_bic_margin` of
+// the best: a BIC difference below 2 is "not worth more than a bare mention" as evidence (Kass &
+// Raftery 1995, JASA 90, p. 777, quoted from memory), so a richer shape must beat a plainer one
+// by more than that.
+// Its omega, delta are the starting values in `suggested_omega`, `suggested_delta` (signs of
+// core/spec.h).
 //
 // Noise (p, q): the residual e_t = w_t - sum over relevant inputs of the fitted transfer-function
 // output (zero pre-sample start, the first L values dropped) is examined by its ACF and PACF over
@@ -76,16 +83,17 @@
 namespace lagsieve {
 
 struct ScreenOptions {
-  int max_lag = 20;             // L asked; capped at n/4 of the differenced length (warning)
-  int ar_max_order = 10;        // cap of the prewhitening AR order chosen by AIC
-  std::optional<int> ar_order;  // fixed prewhitening order instead of AIC
-  double band_z = 2.0;          // per-lag band +-band_z / sqrt(n)
-  double family_level = 0.05;   // family-wise level of the relevance and feedback tests
-  int max_shape_order = 2;      // r and s tried in 0..this
-  int max_noise_order = 3;      // p and q suggested in 0..this
-  int noise_lags = 12;          // ACF/PACF lags inspected for the noise suggestion
-  double collinear = 0.8;       // |corr| of two differenced inputs that triggers a warning
-  int min_observations = 50;    // fewer differenced observations: a warning
+  int max_lag = 20;               // L asked; capped at n/4 of the differenced length (warning)
+  int ar_max_order = 10;          // cap of the prewhitening AR order chosen by AIC
+  std::optional<int> ar_order;    // fixed prewhitening order instead of AIC
+  double band_z = 2.0;            // per-lag band +-band_z / sqrt(n)
+  double family_level = 0.05;     // family-wise level of the relevance and feedback tests
+  int max_shape_order = 2;        // r and s tried in 0..this
+  double shape_bic_margin = 2.0;  // smallest shape within this BIC_v of the best (see above)
+  int max_noise_order = 3;        // p and q suggested in 0..this
+  int noise_lags = 12;            // ACF/PACF lags inspected for the noise suggestion
+  double collinear = 0.8;         // |corr| of two differenced inputs that triggers a warning
+  int min_observations = 50;      // fewer differenced observations: a warning
 
   // Throws InputError naming the option and the rule it breaks.
   void validate() const;

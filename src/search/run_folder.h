@@ -4,7 +4,10 @@
 //
 //   leaderboard.csv / .json   one row per candidate (search)
 //   model.json                the leader's model file (model_<series>.json with several series)
-//   fit.json                  the leader's fit: estimates, criteria, diagnostics, residual ACF
+//   fit.json                  the leader's fit: estimates, criteria, diagnostics, residual ACF,
+//                             and the past (fitted values, residuals, contributions)
+//   past.csv                  the leader's past: time, actual, fitted, residual, one column per
+//                             input's contribution, noise (model/past.h)
 //   screen.json               the identification screen of every input
 //   forecast.json             the leader's forecast from the end of the data, inputs as configured
 //                             and with inputs known, plus the recent history
@@ -23,6 +26,7 @@ namespace lagsieve::run_files {
 inline constexpr const char* kLeaderboardCsv = "leaderboard.csv";
 inline constexpr const char* kLeaderboardJson = "leaderboard.json";
 inline constexpr const char* kFit = "fit.json";
+inline constexpr const char* kPast = "past.csv";
 inline constexpr const char* kScreen = "screen.json";
 inline constexpr const char* kForecast = "forecast.json";
 inline constexpr const char* kBacktest = "backtest.csv";

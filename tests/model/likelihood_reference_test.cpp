@@ -90,7 +90,7 @@ TEST(LikelihoodReference, RegressionWithMaErrorsOptimumMatchesR) {
   const auto coef = to_vector(ref["coef"]);
   const auto se = to_vector(ref["se"]);
   for (size_t i = 0; i < names.size(); ++i) {
-    std::string ours = names[i] == "ma1"         ? "ma1"
+    std::string ours = names[i] == "ma1"         ? "theta1"
                        : names[i] == "intercept" ? "constant"
                                                  : "x1.omega0";
     for (const auto& e : fit.estimates)

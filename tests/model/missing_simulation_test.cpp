@@ -42,7 +42,7 @@ SimulationSpec true_model(std::uint64_t seed) {
 
 TEST(MissingSimulation, TenPercentMissingAtRandomKeepsEstimatesUnbiasedAndCoverage) {
   const std::vector<std::pair<std::string, double>> truth = {
-      {"ar1", 0.7}, {"constant", 1.0}, {"x.omega0", 2.0}};
+      {"phi1", 0.7}, {"constant", 1.0}, {"x.omega0", 2.0}};
   ModelSpec spec;
   spec.inputs = {{"x", {1, 0, 0}}};
   spec.noise = {1, 0, 0, 0, 1};

@@ -38,7 +38,7 @@ Case make_case(const nlohmann::json& k) {
   const auto& order = k["order"];
   c.spec.noise.p = order[0];
   c.spec.noise.q = order[2];
-  c.names = {{"ar1", "ar1"}, {"ma1", "ma1"}, {"sma1", "sma1"}, {"constant", "intercept"}};
+  c.names = {{"phi1", "ar1"}, {"theta1", "ma1"}, {"Theta1", "sma1"}, {"constant", "intercept"}};
   bool has_intercept = false;
   for (const auto& n : k["coef_names"]) has_intercept = has_intercept || n == "intercept";
   c.spec.constant = has_intercept;

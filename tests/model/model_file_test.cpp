@@ -217,3 +217,32 @@ TEST(ModelFile, NumberBeyondDoubleIsNamedByItsPath) {
 
 }  // namespace
 }  // namespace lagsieve
+
+namespace lagsieve {
+namespace {
+
+// Model files written before the parameters took the names of core/spec.h (ar1, ma1, sar1,
+// sma1) still load, with today's names (phi1, theta1, Phi1, Theta1).
+TEST(ModelFile, OldParameterNamesLoadAsTodays) {
+  auto doc = to_json(sample_model());
+  doc["covariance"]["names"] = {"ar1", "ma1", "sar1", "sma12", "temp.omega0"};
+  doc["covariance"]["matrix"] = nlohmann::json::array();
+  for (int i = 0; i < 5; ++i) {
+    std::vector<double> row(5, 0.0);
+    row[static_cast<size_t>(i)] = 0.01;
+    doc["covariance"]["matrix"].push_back(row);
+  }
+  const FittedModel m = fitted_model_from_json(doc, "old.json");
+  EXPECT_EQ(m.param_names,
+            (std::vector<std::string>{"phi1", "theta1", "Phi1", "Theta12", "temp.omega0"}));
+  // A model file written by the previous release, as it was (fuzz corpus seed).
+  const FittedModel old = load_model(std::string(LAGSIEVE_SOURCE_DIR) +
+                                     "/fuzz/corpus/fuzz_model_file/input_model.json");
+  EXPECT_EQ(old.param_names,
+            (std::vector<std::string>{"temp.delta1", "phi1", "theta1", "constant", "temp.omega0"}));
+  EXPECT_EQ(current_parameter_name("marginal"), "marginal");
+  EXPECT_EQ(current_parameter_name("ar"), "ar");
+}
+
+}  // namespace
+}  // namespace lagsieve

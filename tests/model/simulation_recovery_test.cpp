@@ -60,7 +60,7 @@ struct TrueValue {
   double value;
 };
 const std::vector<TrueValue> kTruth = {
-    {"x1.delta1", 0.6}, {"ar1", 0.6},        {"ma1", 0.3},       {"constant", 0.5},
+    {"x1.delta1", 0.6}, {"phi1", 0.6},       {"theta1", 0.3},       {"constant", 0.5},
     {"x1.omega0", 2.0}, {"x1.omega1", -1.0}, {"x2.omega0", 1.5},
 };
 

@@ -58,8 +58,8 @@ std::vector<std::string> our_names(const nlohmann::json& k) {
   for (const auto& r : k["coef_names"]) {
     const std::string name = r;
     const bool arma = name.size() == 3 && (name.rfind("ar", 0) == 0 || name.rfind("ma", 0) == 0);
-    if (arma)
-      names.push_back(name);
+    if (arma)  // R's ar1, ma1 are our phi1, theta1
+      names.push_back(current_parameter_name(name));
     else if (name == "intercept")
       names.push_back("constant");
     else

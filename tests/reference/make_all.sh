@@ -36,6 +36,7 @@ $PY $ref/missing_target/make_missing_target.py
 $R $ref/calendar/make_calendar.R
 $R $ref/outliers/make_nile_csv.R
 $R $ref/outliers/make_nile.R
+$R $ref/past_fit/make_past_fit.R
 
 # Fixtures kept by other topics beside their tests.
 $R $ref/distributions/make_distributions.R

@@ -127,9 +127,10 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   EXPECT_EQ(html.find("<img"), std::string::npos);
 
   const std::vector<std::string> want = {
-      "Run summary", "Inputs: cross-correlation and impulse response",
-      "Leaderboard", "Forecast",
-      "Backtest",    "Leader diagnostics"};
+      "Run summary",         "Inputs: cross-correlation and impulse response",
+      "Leaderboard",         "Forecast",
+      "The past, explained", "Backtest",
+      "Leader diagnostics"};
   EXPECT_EQ(headings(doc), want);
   EXPECT_EQ(r.sections, want);
   EXPECT_TRUE(r.warnings.empty());
@@ -151,6 +152,10 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
                                           "ccf_price.svg",
                                           "impulse_price.svg",
                                           "forecast_fan.svg",
+                                          "past_fitted.svg",
+                                          "past_residuals.svg",
+                                          "past_contributions.svg",
+                                          "past_residual_quantiles.svg",
                                           "backtest_error_by_horizon.svg",
                                           "backtest_inputs_known_vs_forecast.svg",
                                           "coverage.svg",
@@ -259,6 +264,66 @@ TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
   ASSERT_EQ(rows.size(), 3u);
   EXPECT_EQ(rows[2].back(), "30%");
   EXPECT_EQ(rows[0][1], "2024-04-10");
+}
+
+// The past charts plot fit.json "past" as it is; the fan borrows the fitted values of its
+// history stretch; an event of the model file is marked in both.
+TEST_F(ReportFolder, PastChartsAreFitJsonPastWithEventsMarked) {
+  FittedModel model = test::leader_model("demand");
+  model.spec.inputs.push_back(InputTerm{"promo", InputOrder{0, 0, 0}});
+  model.params.inputs.push_back(InputParams{{1.5}, {}});
+  InputUse promo;
+  promo.name = "promo";
+  promo.is_event = true;
+  promo.shape = EventShape::step;
+  promo.at = "2024-04-07";
+  model.inputs.push_back(promo);
+  save_model(dir / "model.json", model);
+  const std::string html = slurp(write_report(dir).path);
+  const json past = test::past_json();
+  const std::vector<double> x = {92, 93, 94, 95, 96, 97, 98, 99, 100};
+
+  const auto fitted = chart(dir, "past_fitted.svg", html);
+  const Element* actual = series_named(fitted, "Actual");
+  const Element* fit = series_named(fitted, "Fitted (one step)");
+  ASSERT_TRUE(actual && fit);
+  expect_same(numbers(actual->attrs.at("data-x")), x, "rows");
+  expect_same(numbers(actual->attrs.at("data-values")), from_json(past["actual"]), "actual");
+  expect_same(numbers(fit->attrs.at("data-values")), from_json(past["fitted"]), "fitted");
+  const auto marks = find_all(fitted, "g", "mark");
+  ASSERT_EQ(marks.size(), 1u);
+  EXPECT_EQ(marks[0].attrs.at("data-label"), "promo");
+  EXPECT_EQ(marks[0].attrs.at("data-x"), "98");
+
+  const auto res = chart(dir, "past_residuals.svg", html);
+  const Element* band = band_named(res, "\u00b12\u03c3 (the model's residual sd)");
+  ASSERT_NE(band, nullptr);
+  std::vector<double> lower;
+  for (double sd : from_json(past["residual_sd"])) lower.push_back(-2.0 * sd);
+  expect_same(numbers(band->attrs.at("data-lower")), lower, "-2 sd");
+  const auto largest = find_all(res, "g", "mark");
+  ASSERT_EQ(largest.size(), 1u);  // -0.75 / 1.25 = -0.6 sd on 2024-04-07
+  EXPECT_EQ(largest[0].attrs.at("data-label"), "largest: 2024-04-07");
+  EXPECT_NE(html.find("The largest residual is -0.75 at 2024-04-07"), std::string::npos);
+
+  const auto contrib = chart(dir, "past_contributions.svg", html);
+  const Element* temp = band_named(contrib, "temp");
+  ASSERT_NE(temp, nullptr);  // one input: from zero to its value, either side
+  expect_same(numbers(temp->attrs.at("data-lower")), {0, 0, 0, -0.5, -1, 0, 0, 0, 0}, "lower");
+  expect_same(numbers(temp->attrs.at("data-upper")), {1, 0.5, 0.25, 0, 0, 0.5, 1.5, 1, 0}, "upper");
+
+  const auto qq = chart(dir, "past_residual_quantiles.svg", html);
+  EXPECT_EQ(find_all(qq, "circle", "point").size(), 8u);  // the missing row has no residual
+  EXPECT_EQ(table_cells(html, "Largest residuals").size(), 5u);
+
+  const auto fan = chart(dir, "forecast_fan.svg", html);
+  const Element* ffit = series_named(fan, "Fitted (one step)");
+  ASSERT_NE(ffit, nullptr);
+  expect_same(numbers(ffit->attrs.at("data-x")), {-4, -3, -2, -1, 0}, "fan fitted x");
+  expect_same(numbers(ffit->attrs.at("data-values")), {9.5, 9.0, 9.5, 9.75, 10.0}, "fan fitted");
+  const auto fan_marks = find_all(fan, "g", "mark");
+  ASSERT_EQ(fan_marks.size(), 1u);
+  EXPECT_EQ(fan_marks[0].attrs.at("data-x"), "-2");
 }
 
 TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
@@ -434,11 +499,13 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
                                          "Inputs: cross-correlation and impulse response · north",
                                          "Leaderboard · north",
                                          "Forecast · north",
+                                         "The past, explained · north",
                                          "Backtest · north",
                                          "Leader diagnostics · north",
                                          "Inputs: cross-correlation and impulse response · south",
                                          "Leaderboard · south",
                                          "Forecast · south",
+                                         "The past, explained · south",
                                          "Leader diagnostics · south"};
   EXPECT_EQ(r.sections, want);
   const std::string html = slurp(r.path);
@@ -446,6 +513,7 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   for (const std::string s : {"north", "south"}) {
     EXPECT_TRUE(fs::exists(dir / "charts" / ("forecast_fan_" + s + ".svg"))) << s;
     EXPECT_TRUE(fs::exists(dir / "charts" / ("ccf_temp_" + s + ".svg"))) << s;
+    EXPECT_TRUE(fs::exists(dir / "charts" / ("past_residuals_" + s + ".svg"))) << s;
   }
   // north has accuracy rows; south has none, so no backtest section and no chart of north's
   // numbers.

@@ -37,7 +37,7 @@ Render render(const fs::path& page, const std::string& what, const fs::path& wor
       "timeout 90 " + kChromium.string() +
       " --headless --no-sandbox --disable-gpu --disable-quic --no-first-run"
       " --disable-background-networking --disable-component-update --disable-sync"
-      " --disable-dev-shm-usage --enable-logging=stderr --v=0 --window-size=1200,2400"
+      " --disable-dev-shm-usage --enable-logging=stderr --v=0 --window-size=1280,2400"
       " --user-data-dir=" +
       profile.string() + " " + what + " file://" + page.string() + " > " + log.string() + " 2>&1";
   Render r;

@@ -64,7 +64,11 @@ TEST(ScreenCommand, TablePrintsSuggestionAndBands) {
   const auto r = run_binary("screen " + write_series_m_config());
   ASSERT_EQ(r.code, 0) << r.out;
   EXPECT_NE(r.out.find("suggestion: b = 3, s = 0, r = 1"), std::string::npos) << r.out;
-  EXPECT_NE(r.out.find("bands: per lag"), std::string::npos);
+  // The band is a column of its own ("lag", "family"), explained once; no ruler inside a bar.
+  EXPECT_NE(r.out.find("beyond: \"lag\" = outside the per-lag band"), std::string::npos) << r.out;
+  EXPECT_NE(r.out.find(" family "), std::string::npos) << r.out;
+  EXPECT_EQ(r.out.find("-1                   0"), std::string::npos) << r.out;
+  EXPECT_EQ(r.out.find("0.0000"), std::string::npos) << r.out;  // weights keep their size
   EXPECT_NE(r.out.find("noise: suggested p = 0, q = 1"), std::string::npos);
 }
 
