@@ -596,6 +596,45 @@ std::string new_period_chart_svg(const json& doc, const std::string& target_labe
   return out;
 }
 
+// Effects found in the new rows alone (revalidate/new_effects.h): each one advises a refit.
+HtmlSection new_effects(const Fields& f, const json& doc) {
+  HtmlSection s;
+  s.heading = "New effects in the new rows";
+  const json& e = f.object(doc, "new_effects");
+  const std::string p = "new_effects.";
+  const json& found = f.list(e, "effects", p);
+  const std::string note = f.text(e, "note", p);
+  s.intro = fmt::format(
+      "Outliers, level shifts and temporary changes searched for in the {} tested new row{}, from "
+      "the deployed model's errors, at the critical |statistic| {} ({}). {}",
+      f.integer(e, "tested_rows", p), f.integer(e, "tested_rows", p) == 1 ? "" : "s",
+      short_num(f.number(e, "critical", p)), f.text(e, "critical_rule", p),
+      found.empty() ? (note.empty() ? "None was found." : note)
+                    : fmt::format("{} found; each is a reason to refit.", found.size()));
+  if (found.empty()) return s;
+  HtmlTable t;
+  t.caption = "Effects found after the training rows";
+  t.columns = {{"Type", "", NumberFormat::automatic, 0},
+               {"Time", "", NumberFormat::automatic, 0},
+               {"Row", "", NumberFormat::automatic, 0},
+               {"Size", "target units", NumberFormat::automatic, 3},
+               {"Std. error", "", NumberFormat::automatic, 3},
+               {"Statistic", "", NumberFormat::automatic, 2},
+               {"Could also be", "", NumberFormat::automatic, 0}};
+  for (size_t i = 0; i < found.size(); ++i) {
+    const std::string ep = fmt::format("{}effects[{}].", p, i);
+    std::string also;
+    for (const auto& a : f.texts(found[i], "ambiguous_with", ep))
+      also += (also.empty() ? "" : ", ") + a;
+    t.rows.push_back({text(f.text(found[i], "type", ep)), text(f.text(found[i], "time", ep)),
+                      whole(f.integer(found[i], "row", ep)), num(f.number(found[i], "size", ep)),
+                      num(f.number(found[i], "std_error", ep)),
+                      num(f.number(found[i], "statistic", ep)), text(also.empty() ? "-" : also)});
+  }
+  s.blocks.push_back(std::move(t));
+  return s;
+}
+
 std::vector<HtmlSection> revalidation_sections(const json& doc, const std::string& file) {
   const Fields f{file};
   if (!doc.is_object()) f.fail("(top level)", "is not an object");
@@ -604,6 +643,9 @@ std::vector<HtmlSection> revalidation_sections(const json& doc, const std::strin
   if (doc.contains("performance")) out.push_back(performance(f, doc));
   if (doc.contains("drift")) out.push_back(drift(f, doc));
   if (doc.contains("residuals")) out.push_back(residuals(f, doc));
+  if (doc.contains("new_effects") && doc["new_effects"].is_object() &&
+      doc["new_effects"].value("run", false))
+    out.push_back(new_effects(f, doc));
   if (doc.contains("challengers")) out.push_back(challengers(f, doc));
   return out;
 }

@@ -262,7 +262,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
   rank_rows(result.rows, config.search.criterion);
-  if (config.outliers.enabled) detect_on_shortlist(data, config, result, threads);
+  if (config.outliers.enabled) detect_on_shortlist(data, config, result, options.threads);
 
   // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;
   // boundary and rejected fits do not by default), moved to the front. A shortlist backtest

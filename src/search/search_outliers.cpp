@@ -7,6 +7,7 @@
 #include <chrono>
 #include <cmath>
 
+#include "backtest/backtest.h"
 #include "core/names.h"
 #include "outliers/detect.h"
 #include "outliers/json.h"
@@ -60,8 +61,7 @@ void detect_on_shortlist(const SeriesData& data, const RunConfig& config, Search
     const SeriesData augmented = with_effect_columns(data, out.effects);
     std::vector<std::string> names;
     for (const auto& e : out.effects) names.push_back(e.name);
-    tbb::task_arena arena(std::max(threads, 1));
-    arena.execute([&] {
+    run_in_arena(threads, [&] {  // the search's own arena rule (backtest.h)
       tbb::parallel_for(size_t{0}, shortlist.size(), [&](size_t k) {
         CandidateRow& row = result.rows[shortlist[k]];
         CandidateRow refit =

@@ -5,6 +5,7 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <map>
@@ -568,6 +569,41 @@ TEST(Report, RevalidationVerdictComesFirst) {
   EXPECT_EQ(find_all(doc, "circle", "point").size() >= 10u, true);
   for (const char* flat : {"Ljung box lag", "Drift threshold se", "Mae training"})
     EXPECT_EQ(html.find(flat), std::string::npos) << flat;
+  fs::remove_all(dir);
+}
+
+// A level shift found in the new rows is its own section after the residuals, with its table.
+TEST(Report, RevalidationListsNewEffects) {
+  const fs::path dir = fresh_dir("reval_effects");
+  test::write_full_run(dir);
+  auto doc = nlohmann::json::parse(
+      slurp(fs::path(LAGSIEVE_TEST_DATA_DIR) / "report/fixtures/revalidation_seatbelts.json"));
+  doc["new_effects"] = {{"run", true},
+                        {"critical", 3.5},
+                        {"critical_rule", "the default rule at the training n"},
+                        {"new_rows", 10},
+                        {"tested_rows", 10},
+                        {"effects",
+                         {{{"name", "LS_1984_03"},
+                           {"type", "level_shift"},
+                           {"row", 171},
+                           {"time", "1984-03"},
+                           {"size", 412.25},
+                           {"std_error", 57.5},
+                           {"statistic", 7.14},
+                           {"ambiguous_with", nlohmann::json::array()}}}}};
+  write_text(dir / "revalidation.json", doc.dump());
+  const ReportResult r = write_report(dir);
+  const auto at = std::find(r.sections.begin(), r.sections.end(), "New effects in the new rows");
+  ASSERT_NE(at, r.sections.end());
+  EXPECT_EQ(*(at - 1), "Residuals of the new rows");
+  const std::string html = slurp(r.path);
+  const auto rows = table_cells(html, "Effects found after the training rows");
+  ASSERT_EQ(rows.size(), 1u);
+  EXPECT_EQ(rows[0][0], "level_shift");
+  EXPECT_EQ(rows[0][1], "1984-03");
+  EXPECT_EQ(rows[0][2], "171");
+  EXPECT_NE(html.find("1 found; each is a reason to refit."), std::string::npos);
   fs::remove_all(dir);
 }
 
