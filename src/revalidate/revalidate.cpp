@@ -111,8 +111,13 @@ SeriesData check_history(const FittedModel& model, const SeriesData& data, const
     throw InputError(
         "model file: training.rows is missing or 0; re-validation needs the training "
         "range a model file from fit --save or search records");
+  const auto is_effect = [&model](const std::string& name) {
+    for (const auto& use : model.inputs)
+      if (use.name == name && use.effect) return true;  // rebuilt from its stamp afterwards
+    return false;
+  };
   for (const auto& term : model.spec.inputs)
-    if (data.input_index(term.name) < 0)
+    if (data.input_index(term.name) < 0 && !is_effect(term.name))
       throw InputError(
           fmt::format("{}: the model uses input '{}', which the config does not load; "
                       "add it to the config's inputs",

@@ -218,7 +218,8 @@ bool is_run_entry(const std::string& name) {
   // model.json / model_<series>.json and the per-series files (fit_<series>.json, ...).
   static const char* const per_series[] = {
       "model.json",         run_files::kFit,      run_files::kScreen,      run_files::kForecast,
-      run_files::kBacktest, run_files::kAccuracy, run_files::kComparisons, run_files::kInputValue};
+      run_files::kBacktest, run_files::kAccuracy, run_files::kComparisons, run_files::kInputValue,
+      run_files::kPast};
   for (const char* base : per_series) {
     const std::string b(base);
     const auto dot = b.rfind('.');
