@@ -11,7 +11,7 @@
 
 namespace lagsieve::cli {
 
-// Exit codes of every command (documented in the README).
+// Exit codes of every command (documented in README.md, "Exit codes").
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitBadInput = 2;          // InputError: config, CSV, model file, options
 inline constexpr int kExitInternal = 3;          // numerical failure or a bug

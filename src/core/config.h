@@ -1,7 +1,8 @@
 #pragma once
 // The run configuration: the parsed and validated YAML file. One schema serves a single fit
 // (every range collapsed to one value) and a search. Defaults are documented beside each field;
-// the YAML key is the field name unless noted.
+// the YAML key is the field name unless noted. README.md, "Defaults in one place", lists them for
+// users: keep it in step when a default changes.
 #include <filesystem>
 #include <optional>
 #include <string>
@@ -141,7 +142,7 @@ struct OutliersConfig {
 };
 
 // `revalidate:` at the top level: settings of `lagsieve revalidate` that belong with the data's
-// cadence (see README, Re-validation).
+// cadence (see docs/revalidation.md).
 struct RevalidateConfig {
   // Fewest new observed target values a re-validation accepts. 1 by default: a monthly series
   // re-checked every month has one new value; the tests that need more rows say "not tested" and

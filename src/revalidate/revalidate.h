@@ -70,7 +70,7 @@ struct RevalidateOptions {
   bool allow_revised_history = false;  // go on when the training rows differ from the model's
   // Fewest new observed target values accepted (the config's revalidate.min_new_rows, or
   // --min-new-rows). Few values are no error: the tests that need more say "not tested" and the
-  // verdict says that the evidence is thin (README, Re-validation).
+  // verdict says that the evidence is thin (docs/revalidation.md).
   int min_new_rows = 1;
   int ljung_box_lag = 0;     // 0: min(10, new rows / 5), at least ARMA terms + 1
   int comparison_refit = 0;  // re-fit every m-th new-period origin; 0: backtest.refit of
@@ -214,7 +214,7 @@ struct EvidenceNote {
   bool thin = false;  // fewer than kThinEvidenceRows new one-step errors
   int new_values = 0;
   std::vector<std::string> not_tested;  // each with the reason
-  double detectable_ratio = 0.0;        // NaN below 2 values (see README, Re-validation)
+  double detectable_ratio = 0.0;        // NaN below 2 values (see docs/revalidation.md)
 };
 
 struct RevalidationResult {

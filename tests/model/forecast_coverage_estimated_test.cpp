@@ -5,7 +5,7 @@
 // every horizon, at n = 150 and n = 300.
 //
 // CTest runs kDefaultReplications per length, with tolerances from the Monte Carlo standard
-// error; the full run of the README sets LAGSIEVE_COVERAGE_REPLICATIONS=6000:
+// error; the full run of docs/forecasts.md sets LAGSIEVE_COVERAGE_REPLICATIONS=6000:
 //   LAGSIEVE_COVERAGE_REPLICATIONS=6000 build/tests/test_model
 //   --gtest_filter='ForecastCoverageEstimated*'
 #include <gtest/gtest.h>
