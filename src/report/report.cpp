@@ -1258,7 +1258,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         sm.pooled_p = pv;
         continue;
       }
-      ++sm.tested;
+      if (c.text(r, cs) != "not_tested") ++sm.tested;
       if (std::isfinite(pv) && !(sm.min_p <= pv)) sm.min_p = pv;
       if (std::isfinite(pv) && pv < 0.05) (d < 0 ? sm.leader_better : sm.challenger_better).push_back(static_cast<int>(h));
     }
@@ -1296,8 +1296,19 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         row.push_back(cell(sm.pooled_difference));
         row.push_back(cell(sm.pooled_p));
       }
+      // Each status in words: why a horizon has no test, or a test of a weaker kind.
+      const auto meaning = [](const std::string& status) -> std::string {
+        if (status == "not_tested")
+          return "not tested (fewer than h + 3 paired forecasts; more origins test more horizons)";
+        if (status == "variance_fallback")
+          return "tested with the lag-0 variance only (the long-run variance was not positive)";
+        if (status == "degenerate") return "no test (the two models' losses are equal)";
+        return status;
+      };
       std::vector<std::string> notes;
-      for (const auto& [status, hs] : sm.odd_status) notes.push_back(fmt::format("{} at {}", status, ranges(hs)));
+      for (const auto& [status, hs] : sm.odd_status)
+        notes.push_back(fmt::format("horizon{} {}: {}", hs.size() == 1 ? "" : "s", ranges(hs),
+                                    meaning(status)));
       row.push_back(cell(join(notes, "; ")));
       t.rows.push_back(std::move(row));
     }
@@ -1551,9 +1562,16 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
   for (const auto& sf : run.series) names.push_back(sf.name);
   page.subtitle = names.empty() ? std::string()
                                 : fmt::format("{} {}", names.size() == 1 ? "Series" : "Series:", join(names, ", "));
-  if (run.leaderboard)
-    page.subtitle += fmt::format("{}ranked by {}", page.subtitle.empty() ? "" : " · ",
-                                 criterion_label(run.leaderboard->criterion));
+  // What the rows are sorted by: the criterion, and the backtest score for a backtested shortlist.
+  if (run.leaderboard) {
+    bool backtested = false;
+    for (const auto& row : run.leaderboard->rows)
+      backtested = backtested || std::isfinite(row.backtest_score);
+    page.subtitle += fmt::format(
+        "{}candidates ranked by {}{}", page.subtitle.empty() ? "" : " · ",
+        criterion_label(run.leaderboard->criterion),
+        backtested ? ", the backtested shortlist by its backtest score" : "");
+  }
 
   if (run.revalidation)
     for (auto& s : revalidation_sections(json::parse(run.revalidation->dump()),

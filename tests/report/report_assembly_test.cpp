@@ -391,10 +391,16 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   const auto dm = table_cells(html, "Is the leader better than each challenger?");
   ASSERT_EQ(dm.size(), 2u);
   EXPECT_EQ(dm[0], (std::vector<std::string>{"temp b1 s1 r0 + ARMA(1,0)", "2", "none", "1", "0.020",
-                                             "-0.1250", "0.218", ""}));
+                                             "-0.1250", "0.218",
+                                             "horizon 5: not tested (fewer than h + 3 paired "
+                                             "forecasts; more origins test more horizons)"}));
   EXPECT_EQ(dm[1],
             (std::vector<std::string>{"benchmark: no inputs", "4", "1\u20132, 4", "none", "< 0.001",
-                                      "-0.7500", "0.001", "variance_fallback at 2"}));
+                                      "-0.7500", "0.001",
+                                      "horizon 2: tested with the lag-0 variance only (the "
+                                      "long-run variance was not positive)"}));
+  // The subtitle says what the rows are sorted by.
+  EXPECT_NE(html.find("candidates ranked by"), std::string::npos);
   const auto iv = table_cells(html, "What each input is worth");
   ASSERT_EQ(iv.size(), 1u);
   EXPECT_EQ(iv[0],

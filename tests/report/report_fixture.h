@@ -306,6 +306,8 @@ inline std::string comparisons_csv() {
          "ARMA(1,0)\",1,squared,20,0.5,2.5,0.02,ok\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + "
          "ARMA(1,0)\",2,squared,20,-0.25,-0.5,0.6,ok\n"
+         "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + "
+         "ARMA(1,0)\",5,squared,4,,,,not_tested\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,1,squared,20,-0.5,-3.0,0.007,ok\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no "
          "inputs,2,squared,20,-0.75,-4.0,0.0009,variance_fallback\n"
