@@ -76,6 +76,20 @@ std::vector<double> residual_signature(OutlierType type, double decay,
   return h;
 }
 
+OutlierEffect effect_of(const OutlierCandidate& c, const SeriesData& data, int first_row,
+                        double decay) {
+  OutlierEffect e;
+  e.type = c.type;
+  e.row = first_row + c.index;
+  e.time = e.row < static_cast<int>(data.time.size()) ? data.time[e.row] : "";
+  e.name = effect_name(e.type, data.time, e.row);
+  e.decay = decay;
+  e.size = c.size;
+  e.statistic = c.statistic;
+  e.std_error = c.statistic != 0.0 ? std::abs(c.size / c.statistic) : std::nan("");
+  return e;
+}
+
 double robust_scale(std::vector<double> e) {
   if (e.empty()) return 0.0;
   auto median = [](std::vector<double> v) {
@@ -413,14 +427,7 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
       tentative = !above && found.empty() && c.index >= 0 && options.entry > 0.0 &&
                   std::abs(c.statistic) > options.entry;
       if (!above && !tentative) break;
-      OutlierEffect e;
-      e.type = c.type;
-      e.row = first_row + c.index;
-      e.time = e.row < static_cast<int>(data.time.size()) ? data.time[e.row] : "";
-      e.name = effect_name(e.type, data.time, e.row);
-      e.decay = options.decay;
-      e.size = c.size;
-      e.statistic = c.statistic;
+      OutlierEffect e = effect_of(c, data, first_row, options.decay);
       set_noise(e, current.spec, current.fit.params);
       found.push_back(e);
       excluded[c.index] = true;

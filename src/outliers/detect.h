@@ -82,6 +82,11 @@ OutlierCandidate largest_statistic(const std::vector<double>& residuals,
                                    const std::vector<bool>& excluded,
                                    const std::vector<double>& constant = {});
 
+// The effect a candidate names: type, data row (first_row + index), stamp, name, decay, size
+// and statistic (the s.e. is |size / statistic|). Model-dependent fields are left to the caller.
+OutlierEffect effect_of(const OutlierCandidate& c, const SeriesData& data, int first_row,
+                        double decay);
+
 // Robust scale: the root mean square of the residuals within 3 MADs (1.4826 * median |e - median|)
 // of their median, corrected to be consistent at the normal.
 double robust_scale(std::vector<double> residuals);

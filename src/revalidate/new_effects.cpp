@@ -71,15 +71,7 @@ NewEffectsCheck new_effects_check(const FittedModel& model, const SeriesData& da
   while (static_cast<int>(out.found.size()) < o.max) {
     const auto c = largest_statistic(residuals, o.detect, signatures, excluded);
     if (c.index < 0 || !(std::abs(c.statistic) > out.critical)) break;
-    OutlierEffect e;
-    e.type = c.type;
-    e.row = first_row + c.index;
-    e.time = e.row < static_cast<int>(data.time.size()) ? data.time[e.row] : "";
-    e.name = effect_name(e.type, data.time, e.row);
-    e.decay = o.decay;
-    e.size = c.size;
-    e.statistic = c.statistic;
-    e.std_error = c.statistic != 0.0 ? std::abs(c.size / c.statistic) : std::nan("");
+    OutlierEffect e = effect_of(c, data, first_row, o.decay);
     e.differencing = model.spec.differencing;
     e.ambiguous_with = ambiguous_types(e.type, pool, o.decay, pi, n - c.index, 0.9);
     out.found.push_back(e);
