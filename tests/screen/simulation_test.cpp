@@ -132,6 +132,24 @@ TEST(ScreenWarnings, InputDrivenByThePastTargetIsFeedback) {
   EXPECT_EQ(res.inputs[0].feedback_lags.front(), -2);
 }
 
+TEST(ScreenWarnings, AStepIndicatorIsNeverCalledFeedback) {
+  // The target jumps (and spikes) 4 rows before a 0/1 step column switches on, so the column
+  // "follows" the target at lag -4 by construction (with the feedback check forced on for
+  // events, this case warns). A step indicator cannot respond to the target: no
+  // feedback warning, whatever the correlation at negative lags.
+  Random rng(13);
+  const int n = 300;
+  std::vector<double> y(n), step(n);
+  for (int t = 0; t < n; ++t) {
+    y[t] = rng.normal() + (t >= 146 ? 3.0 : 0.0) + (t == 146 ? 8.0 : 0.0);
+    step[t] = t >= 150 ? 1.0 : 0.0;
+  }
+  const auto res = screen_series(two_series(y, {step}), RunConfig{});
+  ASSERT_EQ(res.inputs.size(), 1u);
+  EXPECT_FALSE(has_warning(res, ScreenWarningKind::feedback));
+  EXPECT_TRUE(res.inputs[0].feedback_lags.empty());
+}
+
 TEST(ScreenWarnings, NearlyEqualInputsAreCollinear) {
   Random rng(11);
   const int n = 200;
