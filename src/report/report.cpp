@@ -622,7 +622,7 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
   s.heading = "Inputs: cross-correlation and impulse response" + b.suffix(sf);
   s.intro =
       "Each input and the target are prewhitened by the input's own AR model, then cross-correlated. "
-      "Bars beyond the dashed band at lags 0 and above point to the delay; bars at negative lags "
+      "Bars beyond the orange band lines at lags 0 and above point to the delay; bars at negative lags "
       "would mean the target leads the input (feedback). Beside it, the impulse response the screen "
       "estimates from those correlations, its fitted shape, and the leader's estimated response.";
   if (inputs.empty()) s.blocks.push_back(HtmlParagraph{"The run has no inputs."});
@@ -681,10 +681,12 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
       est_band.lower.push_back(v[j] - 2.0 * e);
       est_band.upper.push_back(v[j] + 2.0 * e);
     }
-    est_band.colour = 5;
+    // The colour roles of every chart (svg.h): uncertainty orange, what the data say in ink,
+    // what the model says vermillion.
+    est_band.colour = kBandColour;
     est_band.opacity = 0.3;
     ir.bands.push_back(std::move(est_band));
-    ir.series.push_back(LineSeries{"screen estimate", k, v, 5, false, LineStyle::dotted, true});
+    ir.series.push_back(LineSeries{"screen estimate", k, v, 7, false, LineStyle::dotted, true});
     if (relevant && vfit.size() == v.size())
       ir.series.push_back(LineSeries{fmt::format("screen shape b{} s{} r{}", b0, s0, r0), k, vfit, 2,
                                      false, LineStyle::dashed, false});
@@ -697,7 +699,7 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
         const std::vector<double> lv =
             impulse_response(o, sf.model->params.inputs[t], static_cast<int>(v.size()));
         ir.series.push_back(LineSeries{fmt::format("leader b{} s{} r{}", o.delay, o.numerator, o.denominator),
-                                       k, lv, 0, false, LineStyle::solid, true});
+                                       k, lv, kModelColour, false, LineStyle::solid, true});
         leader_text = "";
       }
     }
