@@ -263,23 +263,24 @@ void build_columns(const LikelihoodProblem& problem, std::span<const double> non
   // Where each regressor column reads: the filtered input shifted by its delay and lag, then
   // the start-state columns (already over the sample).
   ws.sources.clear();
-  ws.starts.clear();
-  size_t k = 0;
+  int states = 0;
+  for (size_t i = 0; i < spec.inputs.size(); ++i) states += spec.start_states(i);
+  ws.starts.resize(static_cast<size_t>(states));  // reused between evaluations: no allocation
+  size_t k = 0, column = 0;
   for (size_t i = 0; i < spec.inputs.size(); ++i) {
     const auto& order = spec.inputs[i].order;
-    filter_denominator(problem.u[i], nonlinear.subspan(k, order.denominator), ws.filtered[i]);
+    const auto delta = nonlinear.subspan(k, order.denominator);
+    filter_denominator(problem.u[i], delta, ws.filtered[i]);
     for (int j = 0; j <= order.numerator; ++j)
       ws.sources.push_back(ws.filtered[i].data() + start - order.delay - j);
-    std::vector<double> unit(order.denominator, 0.0);
-    for (int state = 0; state < spec.start_states(i); ++state) {
-      unit.assign(order.denominator, 0.0);
-      unit[state] = 1.0;
-      ws.starts.push_back(
-          homogeneous_solution(nonlinear.subspan(k, order.denominator), unit, n));
+    // Start state j: the homogeneous solution that is 1 at sample row j, 0 at the other first r.
+    for (int state = 0; state < spec.start_states(i); ++state, ++column) {
+      ws.starts[column].resize(static_cast<size_t>(n));
+      homogeneous_unit_solution(delta, state, ws.starts[column]);
     }
     k += order.denominator;
   }
-  for (const auto& column : ws.starts) ws.sources.push_back(column.data());
+  for (const auto& c : ws.starts) ws.sources.push_back(c.data());
   // Row by row: the row-major matrix is written contiguously.
   const int first = spec.constant ? 2 : 1;
   for (int t = 0; t < n; ++t) {

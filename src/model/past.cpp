@@ -70,12 +70,12 @@ PastFit explain_past(const SeriesData& data, const ModelSpec& spec, const ModelP
     if (state.empty()) continue;
     const int rows = data.rows() - (start + lost);
     if (rows <= 0) continue;
-    std::vector<double> g = homogeneous_solution(params.inputs[i].delta, state, rows);
-    const auto lags = differencing_lags(spec.differencing);
-    for (size_t t = 0; t < g.size(); ++t)
-      for (size_t k = 1; k <= lags.size() && k <= t; ++k) g[t] += lags[k - 1] * g[t - k];
+    // Zero before the sample start: undifference from a zero head.
+    const auto g =
+        undifference(std::vector<double>(static_cast<size_t>(lost), 0.0),
+                     homogeneous_solution(params.inputs[i].delta, state, rows), spec.differencing);
     for (int t = 0; t < rows; ++t)
-      responses.back()[static_cast<size_t>(start + lost + t)] += g[static_cast<size_t>(t)];
+      responses.back()[static_cast<size_t>(start + lost + t)] += g[static_cast<size_t>(lost + t)];
   }
 
   PastFit past;

@@ -22,8 +22,8 @@ std::vector<double> expand_ar(std::span<const double> phi, std::span<const doubl
   return a;
 }
 
-std::vector<double> expand_ma(std::span<const double> theta,
-                              std::span<const double> seasonal_theta, int period) {
+std::vector<double> expand_ma(std::span<const double> theta, std::span<const double> seasonal_theta,
+                              int period) {
   const size_t q = theta.size();
   const size_t len = q + seasonal_theta.size() * static_cast<size_t>(period);
   std::vector<double> m(len, 0.0);
@@ -36,8 +36,7 @@ std::vector<double> expand_ma(std::span<const double> theta,
   return m;
 }
 
-std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma,
-                                int count) {
+std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma, int count) {
   std::vector<double> psi(std::max(count, 0), 0.0);
   for (int j = 0; j < count; ++j) {
     double v = j == 0 ? 1.0 : (j - 1 < static_cast<int>(ma.size()) ? ma[j - 1] : 0.0);
@@ -79,20 +78,33 @@ std::vector<double> transfer_response(std::span<const double> u, const InputOrde
   return x;
 }
 
-std::vector<double> homogeneous_solution(std::span<const double> delta,
-                                         std::span<const double> state, int n) {
-  std::vector<double> g(static_cast<size_t>(std::max(n, 0)), 0.0);
-  const int r = static_cast<int>(delta.size());
-  for (int t = 0; t < n; ++t) {
-    if (t < r) {
-      g[t] = t < static_cast<int>(state.size()) ? state[t] : 0.0;
-      continue;
-    }
+namespace {
+
+// g_t = sum_j delta_j g_{t-j} for t >= r, the first r values of g given.
+void continue_recursion(std::span<const double> delta, std::span<double> g) {
+  const int r = static_cast<int>(delta.size()), n = static_cast<int>(g.size());
+  for (int t = r; t < n; ++t) {
     double v = 0.0;
     for (int j = 0; j < r; ++j) v += delta[j] * g[t - 1 - j];
     g[t] = v;
   }
+}
+
+}  // namespace
+
+std::vector<double> homogeneous_solution(std::span<const double> delta,
+                                         std::span<const double> state, int n) {
+  std::vector<double> g(static_cast<size_t>(std::max(n, 0)), 0.0);
+  for (int t = 0; t < n && t < static_cast<int>(delta.size()); ++t)
+    g[t] = t < static_cast<int>(state.size()) ? state[t] : 0.0;
+  continue_recursion(delta, g);
   return g;
+}
+
+void homogeneous_unit_solution(std::span<const double> delta, int unit, std::span<double> out) {
+  const int n = static_cast<int>(out.size());
+  for (int t = 0; t < n && t < static_cast<int>(delta.size()); ++t) out[t] = t == unit ? 1.0 : 0.0;
+  continue_recursion(delta, out);
 }
 
 std::vector<double> transfer_output(std::span<const double> u, const InputOrder& order,

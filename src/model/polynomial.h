@@ -14,12 +14,11 @@ namespace lagsieve {
 std::vector<double> expand_ar(std::span<const double> phi, std::span<const double> seasonal_phi,
                               int period);
 // theta(B) Theta(B^S) written as 1 + sum_k m_k B^k; returns m_1..m_{q+S*Q}.
-std::vector<double> expand_ma(std::span<const double> theta,
-                              std::span<const double> seasonal_theta, int period);
+std::vector<double> expand_ma(std::span<const double> theta, std::span<const double> seasonal_theta,
+                              int period);
 
 // psi-weights psi_0..psi_{count-1} of (1 + sum m_k B^k) / (1 - sum a_k B^k).
-std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma,
-                                int count);
+std::vector<double> psi_weights(std::span<const double> ar, std::span<const double> ma, int count);
 
 // Impulse-response weights v_0..v_{count-1} of omega(B) B^b / delta(B).
 std::vector<double> impulse_response(const InputOrder& order, const InputParams& p, int count);
@@ -33,6 +32,10 @@ std::vector<double> transfer_response(std::span<const double> u, const InputOrde
 // the recursion g_t = sum_j delta_j g_{t-j} after): how an estimated filter start decays.
 std::vector<double> homogeneous_solution(std::span<const double> delta,
                                          std::span<const double> state, int n);
+
+// In place, for the likelihood's regressor columns: the homogeneous solution over out.size()
+// values that is 1 at position `unit` and 0 at the other first r positions.
+void homogeneous_unit_solution(std::span<const double> delta, int unit, std::span<double> out);
 
 // transfer_response plus the input's estimated start (p.state; none when empty) from row
 // `anchor` on: the output deviates from the zero start by state_k at row anchor + k, decaying
