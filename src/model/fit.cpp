@@ -391,8 +391,8 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
 
   add_roots(diag, "phi", p.phi, -1.0);
   add_roots(diag, "theta", p.theta, +1.0);
-  add_roots(diag, "seasonal_ar", p.seasonal_phi, -1.0);
-  add_roots(diag, "seasonal_ma", p.seasonal_theta, +1.0);
+  add_roots(diag, "Phi", p.seasonal_phi, -1.0);  // names as in spec.h
+  add_roots(diag, "Theta", p.seasonal_theta, +1.0);
   double dist = 0.0;
   if (!p.phi.empty() && !p.theta.empty() && near_common_root(p.phi, -1.0, p.theta, 1.0, 0.1, &dist))
     diag.warnings.push_back(fmt::format(
