@@ -109,6 +109,7 @@ int validate(const std::string& path, const std::vector<std::string>& only) {
     spec.transform = c.target.transform;
     spec.differencing = c.differencing;
     spec.filter_start = c.fit.filter_start;
+    spec.estimation = c.fit.estimation;
     for (const auto& in : c.inputs)
       spec.inputs.push_back({in.name, {in.delay.min, in.numerator.min, in.denominator.min}});
     spec.noise = {c.noise.ar.min, c.noise.ma.min, c.noise.seasonal_ar.min, c.noise.seasonal_ma.min,

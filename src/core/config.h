@@ -121,6 +121,9 @@ struct FitConfig {
   // estimated (default): the r pre-sample states of each 1/delta(B) are linear parameters,
   // counted in k; zero: the filter starts from zeros (compare with tables that do so).
   FilterStart filter_start = FilterStart::estimated;
+  // ml (default): exact maximum likelihood; restricted: the linear parameters integrated out of
+  // the objective of the nonlinear ones (less small-sample bias of the noise parameters).
+  Estimation estimation = Estimation::ml;
 };
 
 struct ForecastConfig {

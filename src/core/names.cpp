@@ -39,6 +39,8 @@ constexpr Table<OutlierType, 4> kOutlierType{{{OutlierType::additive, "additive"
                                               {OutlierType::innovational, "innovational"}}};
 constexpr Table<FilterStart, 2> kFilterStart{
     {{FilterStart::estimated, "estimated"}, {FilterStart::zero, "zero"}}};
+constexpr Table<Estimation, 2> kEstimation{
+    {{Estimation::ml, "ml"}, {Estimation::restricted, "restricted"}}};
 
 template <typename Enum, size_t N>
 std::string_view lookup(const Table<Enum, N>& table, Enum v) {
@@ -94,6 +96,7 @@ std::string_view to_string(Criterion v) { return lookup(kCriterion, v); }
 std::string_view to_string(WindowKind v) { return lookup(kWindowKind, v); }
 std::string_view to_string(OutlierType v) { return lookup(kOutlierType, v); }
 std::string_view to_string(FilterStart v) { return lookup(kFilterStart, v); }
+std::string_view to_string(Estimation v) { return lookup(kEstimation, v); }
 
 #define LAGSIEVE_ENUM_NAMES(Enum, table)                                            \
   template <>                                                                       \
@@ -116,6 +119,7 @@ LAGSIEVE_ENUM_NAMES(Criterion, kCriterion)
 LAGSIEVE_ENUM_NAMES(WindowKind, kWindowKind)
 LAGSIEVE_ENUM_NAMES(OutlierType, kOutlierType)
 LAGSIEVE_ENUM_NAMES(FilterStart, kFilterStart)
+LAGSIEVE_ENUM_NAMES(Estimation, kEstimation)
 #undef LAGSIEVE_ENUM_NAMES
 
 std::string closest_match(std::string_view word, const std::vector<std::string>& candidates) {

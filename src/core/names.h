@@ -20,6 +20,7 @@ std::string_view to_string(Criterion v);
 std::string_view to_string(WindowKind v);
 std::string_view to_string(OutlierType v);
 std::string_view to_string(FilterStart v);
+std::string_view to_string(Estimation v);
 
 // Parses a spelling; std::nullopt when unknown. `choices` lists the valid spellings for messages.
 template <typename Enum>
@@ -44,6 +45,7 @@ LAGSIEVE_DECLARE_ENUM_NAMES(Criterion)
 LAGSIEVE_DECLARE_ENUM_NAMES(WindowKind)
 LAGSIEVE_DECLARE_ENUM_NAMES(OutlierType)
 LAGSIEVE_DECLARE_ENUM_NAMES(FilterStart)
+LAGSIEVE_DECLARE_ENUM_NAMES(Estimation)
 #undef LAGSIEVE_DECLARE_ENUM_NAMES
 
 // The closest of `candidates` to `word` by edit distance, or "" when none is close.

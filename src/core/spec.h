@@ -58,6 +58,14 @@ struct NoiseOrder {
 
 enum class FilterStart { estimated, zero };
 
+// What a fit maximises over the nonlinear parameters (every delta and ARMA coefficient; see
+// model/likelihood.h). ml: the exact likelihood with the linear parameters (constant, omegas,
+// start states) at their GLS values, as R's arima and statsmodels do. restricted: the likelihood
+// of the data with those linear parameters integrated out under a flat prior (restricted, or
+// marginal, likelihood), which removes most of the small-sample bias that estimating them puts on
+// the noise parameters. Both report the exact log-likelihood at the estimates and the same k.
+enum class Estimation { ml, restricted };
+
 struct InputTerm {
   std::string name;  // column name or event name
   InputOrder order;
@@ -72,6 +80,7 @@ struct ModelSpec {
   Differencing differencing;
   TargetTransform transform;
   FilterStart filter_start = FilterStart::estimated;
+  Estimation estimation = Estimation::ml;
   bool operator==(const ModelSpec&) const = default;
   // Start states of input i's filter estimated by the fit: r_i, or 0 (no denominator, zero start).
   int start_states(size_t i) const {

@@ -210,6 +210,7 @@ json to_json(const FittedModel& m) {
                    {"period", s.noise.period}};
   spec["constant"] = s.constant;
   spec["filter_start"] = to_string(s.filter_start);
+  spec["estimation"] = to_string(s.estimation);
   spec["inputs"] = json::array();
   for (size_t i = 0; i < s.inputs.size(); ++i) {
     const auto& t = s.inputs[i];
@@ -319,6 +320,10 @@ FittedModel fitted_model_from_json(const json& doc, const std::string& source) {
   m.spec.filter_start = spec.contains("filter_start")
                             ? r.choice<FilterStart>(spec, "filter_start", "spec.")
                             : FilterStart::zero;
+  // Files written before the restricted objective existed were fitted by ML.
+  m.spec.estimation = spec.contains("estimation")
+                          ? r.choice<Estimation>(spec, "estimation", "spec.")
+                          : Estimation::ml;
   const json& ij = r.list(spec, "inputs", "spec.");
   for (size_t i = 0; i < ij.size(); ++i) {
     const std::string path = fmt::format("spec.inputs[{}].", i);

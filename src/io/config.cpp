@@ -423,9 +423,11 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
 }
 
 void read_fit(const Reader& rd, const YAML::Node& node, FitConfig& fc) {
-  rd.check_map(node, "fit", {"filter_start"});
+  rd.check_map(node, "fit", {"filter_start", "estimation"});
   if (const auto n = node["filter_start"])
     fc.filter_start = rd.get_enum<FilterStart>(n, "fit.filter_start");
+  if (const auto n = node["estimation"])
+    fc.estimation = rd.get_enum<Estimation>(n, "fit.estimation");
 }
 
 void read_forecast(const Reader& rd, const YAML::Node& node, ForecastConfig& fc) {

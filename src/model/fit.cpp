@@ -108,11 +108,11 @@ double objective(unsigned n, const double* z, double* /*grad*/, void* data) {
   to_natural(*obj->blocks, std::span<const double>(z, n), obj->natural);
   const auto value = profile_loglik(*obj->problem, obj->natural, *obj->ws);
   if (!value.ok) return 1e12;
-  if (value.loglik > obj->best) {
-    obj->best = value.loglik;
+  if (value.objective > obj->best) {
+    obj->best = value.objective;
     obj->best_z.assign(z, z + n);
   }
-  return -value.loglik;
+  return -value.objective;
 }
 
 struct OptimiserRun {
@@ -194,15 +194,21 @@ bool profile_covariance(const LikelihoodProblem& problem, std::span<const double
   const int d = static_cast<int>(theta0.size());
   const auto k = at_optimum.linear.size();
   Eigen::LDLT<Eigen::MatrixXd> gls(at_optimum.linear_information);
+  // The restricted objective estimates sigma^2 by ssr / (n - k), and so its GLS covariance.
+  const double n = problem.n_obs();
+  const double sigma2 =
+      problem.spec.estimation == Estimation::restricted && n > static_cast<double>(k)
+          ? at_optimum.sigma2 * n / (n - static_cast<double>(k))
+          : at_optimum.sigma2;
   const Eigen::MatrixXd c_inv =
-      k > 0 ? Eigen::MatrixXd(at_optimum.sigma2 * gls.solve(Eigen::MatrixXd::Identity(k, k)))
+      k > 0 ? Eigen::MatrixXd(sigma2 * gls.solve(Eigen::MatrixXd::Identity(k, k)))
             : Eigen::MatrixXd(0, 0);
   if (d == 0) {
     covariance = c_inv;
     return c_inv.allFinite();
   }
   std::vector<double> x(theta0.begin(), theta0.end());
-  const double f0 = at_optimum.loglik;
+  const double f0 = at_optimum.objective;
   // The profile at theta0 + a e_i + b e_j (j < 0: none).
   auto at = [&](int i, double a, int j, double b) {
     x[i] = theta0[i] + a;
@@ -236,15 +242,15 @@ bool profile_covariance(const LikelihoodProblem& problem, std::span<const double
     auto pilot = diagonal(i, 1e-4 * std::max(std::abs(theta0[i]), 0.05));
     if (!pilot.ok) return false;
     const double curvature =
-        -(pilot.plus.loglik - 2.0 * f0 + pilot.minus.loglik) / (pilot.h * pilot.h);
+        -(pilot.plus.objective - 2.0 * f0 + pilot.minus.objective) / (pilot.h * pilot.h);
     const double h = curvature > 0.0 && std::isfinite(curvature)
                          ? std::min(kStepInSe / std::sqrt(curvature), 0.1)
                          : pilot.h;
     diag[i] = diagonal(i, h);
     if (!diag[i].ok) return false;
     const double hi = diag[i].h;
-    s(i, i) = -(diag[i].plus.loglik - 2.0 * f0 + diag[i].minus.loglik) / (hi * hi);
-    gradient(i) = (diag[i].plus.loglik - diag[i].minus.loglik) / (2.0 * hi);
+    s(i, i) = -(diag[i].plus.objective - 2.0 * f0 + diag[i].minus.objective) / (hi * hi);
+    gradient(i) = (diag[i].plus.objective - diag[i].minus.objective) / (2.0 * hi);
     if (k > 0) jac.col(i) = (diag[i].plus.linear - diag[i].minus.linear) / (2.0 * hi);
   }
   for (int i = 0; i < d; ++i)
@@ -253,9 +259,10 @@ bool profile_covariance(const LikelihoodProblem& problem, std::span<const double
       const auto pp = at(i, hi, j, hj);
       const auto mm = at(i, -hi, j, -hj);
       if (!pp.ok || !mm.ok) return false;
-      s(i, j) = s(j, i) = -(pp.loglik + mm.loglik - diag[i].plus.loglik - diag[i].minus.loglik -
-                            diag[j].plus.loglik - diag[j].minus.loglik + 2.0 * f0) /
-                          (2.0 * hi * hj);
+      s(i, j) = s(j, i) =
+          -(pp.objective + mm.objective - diag[i].plus.objective - diag[i].minus.objective -
+            diag[j].plus.objective - diag[j].minus.objective + 2.0 * f0) /
+          (2.0 * hi * hj);
     }
   Eigen::LDLT<Eigen::MatrixXd> ldlt(s);
   if (!s.allFinite() || ldlt.info() != Eigen::Success || !ldlt.isPositive() ||
@@ -559,7 +566,7 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
       const auto better = profile_loglik(problem, polished, ws);
       ++fit.evaluations;
       std::vector<double> z(dim);
-      if (better.ok && better.loglik > value.loglik + 1e-12 &&
+      if (better.ok && better.objective > value.objective + 1e-12 &&
           to_unconstrained(blocks, polished, z) && max_abs_pacf(z) <= options.boundary_pacf) {
         Eigen::MatrixXd cov;
         if (profile_covariance(problem, polished, better, ws, cov)) {

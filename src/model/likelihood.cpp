@@ -321,6 +321,7 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
   const int n = problem.n_obs();
   const Eigen::MatrixXd& m = summary.cross;
   double ssr = m(0, 0);
+  double log_det_information = 0.0;  // log|X' Sigma^-1 X|, for the restricted objective
   if (k > 0) {
     out.linear_information = m.bottomRightCorner(k, k);
     // Equilibrated normal equations: each whitened regressor scaled to unit length, so the
@@ -333,6 +334,8 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
     if (ldlt.info() != Eigen::Success || !ldlt.isPositive()) return out;
     const auto d = ldlt.vectorD();
     if (d.minCoeff() <= 1e-12 * d.maxCoeff()) return out;  // collinear regressors
+    // |X' Sigma^-1 X| = |a| prod(norm)^2, and |a| the product of the LDLT pivots.
+    log_det_information = d.array().log().sum() + 2.0 * norm.array().log().sum();
     Eigen::VectorXd gamma = ldlt.solve(inv.cwiseProduct(m.col(0).tail(k)));
     ssr -= m.col(0).tail(k).dot(inv.cwiseProduct(gamma));
     // ssr = y'y - y'X beta cancels when the fit is close (a large constant, collinear trending
@@ -354,7 +357,13 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
   if (!(ssr > 0.0) || !std::isfinite(ssr)) return out;
   out.sigma2 = ssr / n;
   out.loglik = gaussian_loglik(n, ssr, summary.sum_log_f);
-  out.ok = std::isfinite(out.loglik);
+  out.objective = out.loglik;
+  if (problem.spec.estimation == Estimation::restricted && k > 0) {
+    if (n - k < 1) return out;
+    out.objective = gaussian_loglik(static_cast<int>(n - k), ssr, summary.sum_log_f) -
+                    0.5 * log_det_information;
+  }
+  out.ok = std::isfinite(out.loglik) && std::isfinite(out.objective);
   return out;
 }
 

@@ -77,6 +77,12 @@ struct LikelihoodWorkspace {
 struct ProfileValue {
   bool ok = false;
   double loglik = 0.0;
+  // What the optimiser maximises over the nonlinear parameters: loglik (Estimation::ml), or the
+  // restricted log-likelihood with the k linear parameters integrated out under a flat prior
+  // (Estimation::restricted): -1/2 [(n - k) log(2 pi s2) + (n - k) + log|Sigma| +
+  // log|X' Sigma^-1 X|], s2 = ssr / (n - k) (Harville 1974; for ARMA errors, Cooper & Thompson
+  // 1977, Tunnicliffe Wilson 1989), up to a constant.
+  double objective = 0.0;
   double sigma2 = 0.0;
   Eigen::VectorXd linear;              // GLS estimates
   Eigen::MatrixXd linear_information;  // X' Sigma^-1 X in units of sigma^2 (for diagnostics)

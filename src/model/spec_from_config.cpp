@@ -38,6 +38,7 @@ ModelSpec single_spec(const RunConfig& config) {
   spec.differencing = config.differencing;
   spec.transform = config.target.transform;
   spec.filter_start = config.fit.filter_start;
+  spec.estimation = config.fit.estimation;
   return spec;
 }
 

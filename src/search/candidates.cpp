@@ -37,6 +37,7 @@ CandidateGrid full_grid(const RunConfig& config) {
   g.differencing = config.differencing;
   g.transform = config.target.transform;
   g.filter_start = config.fit.filter_start;
+  g.estimation = config.fit.estimation;
   return g;
 }
 
@@ -81,6 +82,7 @@ std::vector<ModelSpec> enumerate(const CandidateGrid& grid) {
   base.differencing = grid.differencing;
   base.transform = grid.transform;
   base.filter_start = grid.filter_start;
+  base.estimation = grid.estimation;
   base.noise.period = grid.period;
   std::function<void(size_t, ModelSpec&)> recurse = [&](size_t i, ModelSpec& spec) {
     if (i == grid.inputs.size()) {
@@ -129,6 +131,7 @@ ModelSpec suggested_spec(const RunConfig& config, const ScreenResult& screen) {
   spec.differencing = g.differencing;
   spec.transform = g.transform;
   spec.filter_start = g.filter_start;
+  spec.estimation = g.estimation;
   for (const auto& in : g.inputs) {
     const InputScreen* s = find_screen(screen, in.name);
     if (in.optional && s && !s->relevant) continue;

@@ -29,6 +29,7 @@ struct CandidateGrid {
   Differencing differencing;
   TargetTransform transform;
   FilterStart filter_start = FilterStart::estimated;  // fit.filter_start
+  Estimation estimation = Estimation::ml;              // fit.estimation
 };
 
 CandidateGrid full_grid(const RunConfig& config);

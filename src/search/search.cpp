@@ -330,6 +330,8 @@ std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesDat
                                 static_cast<int>(config.data.missing));
   for (const auto& c : config.target.columns) all += "target=" + c + ";";
   all += fmt::format("filter_start={}|", to_string(config.fit.filter_start));
+  if (config.fit.estimation != Estimation::ml)  // absent for ml: earlier runs still resume
+    all += fmt::format("estimation={}|", to_string(config.fit.estimation));
   all += fmt::format("|transform={},{:.17g}|diff={},{},{}|start={}|period={}|",
                      static_cast<int>(config.target.transform.kind), config.target.transform.lambda,
                      config.differencing.regular, config.differencing.seasonal,
