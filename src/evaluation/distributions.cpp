@@ -208,6 +208,40 @@ double student_t_cdf(double x, double df) {
   return x < 0.0 ? 0.5 * two_sided : 1.0 - 0.5 * two_sided;
 }
 
+double student_t_quantile(double p, double df) {
+  if (!(df > 0.0) || std::isnan(p) || p < 0.0 || p > 1.0) return kNaN;
+  if (p == 0.0) return -std::numeric_limits<double>::infinity();
+  if (p == 1.0) return std::numeric_limits<double>::infinity();
+  if (p == 0.5) return 0.0;
+  // Solve P(|T| >= x) = 2 min(p, 1 - p) for x > 0 on the upper-tail side (no cancellation in the
+  // tails): Newton steps on the log of the tail, safeguarded by a bracket that bisection keeps.
+  const double tail = 2.0 * std::min(p, 1.0 - p);
+  // f(x) = (1 + x^2 / df)^(-(df + 1) / 2) / (sqrt(df) B(df / 2, 1 / 2)).
+  const double log_density_constant = -0.5 * std::log(df) - log_beta(0.5 * df, 0.5);
+  double lo = 0.0, hi = 1.0;
+  while (student_t_two_sided_p(hi, df) > tail && hi < 1e300) lo = hi, hi *= 4.0;
+  const double z = normal_quantile(1.0 - 0.5 * tail);  // Cornish-Fisher start (Hill 1970)
+  double x = z + (z * z * z + z) / (4.0 * df);
+  if (!(x > lo && x < hi)) x = 0.5 * (lo + hi);
+  for (int iter = 0; iter < 200; ++iter) {
+    const double q = student_t_two_sided_p(x, df);
+    if (q > tail)
+      lo = x;
+    else
+      hi = x;
+    const double log_density = log_density_constant - 0.5 * (df + 1.0) * std::log1p(x * x / df);
+    // d/dx log q(x) = -2 f(x) / q(x); the step solves log q = log tail to first order.
+    double next = x + (std::log(q) - std::log(tail)) * q / (2.0 * std::exp(log_density));
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (std::abs(next - x) <= 1e-15 * x) {
+      x = next;
+      break;
+    }
+    x = next;
+  }
+  return p < 0.5 ? -x : x;
+}
+
 double regularized_gamma_lower(double a, double x) {
   if (!(a > 0.0) || std::isnan(x) || x < 0.0) return kNaN;
   if (x == 0.0) return 0.0;

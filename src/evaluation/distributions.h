@@ -20,6 +20,10 @@ double normal_quantile(double p);
 // P(T <= x) for T ~ Student t with df > 0 degrees of freedom (df need not be an integer).
 double student_t_cdf(double x, double df);
 
+// x with P(T <= x) = p for T ~ Student t with df > 0 degrees of freedom; -inf at p = 0, +inf at
+// p = 1, NaN outside [0, 1].
+double student_t_quantile(double p, double df);
+
 // P(|T| >= |x|), computed without the cancellation of 1 - cdf in the tails.
 double student_t_two_sided_p(double x, double df);
 

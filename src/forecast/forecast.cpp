@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <limits>
 #include <span>
 
 #include "core/error.h"
@@ -309,6 +310,7 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
   // path in the parameters (central differences) and Cov the fit's covariance.
   Eigen::VectorXd var_param_model = Eigen::VectorXd::Zero(horizon);
   Eigen::VectorXd var_param_inputs = Eigen::VectorXd::Zero(horizon);
+  bool model_part = false;  // the model's parameter part is included
   out.parameter_uncertainty = "off";
   if (options.parameter_uncertainty) {
     const auto nonlinear = pack_nonlinear(spec, model.params);
@@ -328,6 +330,7 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
           });
       var_param_model = (jac * model.covariance * jac.transpose()).diagonal();
       parts.push_back("model");
+      model_part = true;
     } else if (!all.empty()) {
       parts.push_back("model left out (no usable covariance)");
     }
@@ -365,11 +368,32 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
       out.parameter_uncertainty += (k == 0 ? ": " : ", ") + parts[k];
   }
 
+  // Degrees of freedom, with the model's parameter part included: sigma^2 is the ML estimate
+  // SSR / n, low by (n - k) / n on average with k estimated coefficients (every parameter but
+  // sigma^2, start states included), and normal quantiles treat it as known. The model's parts
+  // (noise and its parameter estimates, both proportional to sigma^2 to first order) are scaled
+  // by n / (n - k) and the quantiles are Student t with n - k degrees of freedom: for a regression
+  // with white noise this is the textbook prediction interval. A model without its sample size
+  // (n_obs = 0: built by hand) or without a covariance keeps the plain intervals.
+  double model_scale = 1.0;
+  double quantile_df = std::numeric_limits<double>::infinity();
+  if (model_part && model.n_obs > 0) {
+    const int k = std::max(model.n_params - 1, 0);
+    if (model.n_obs - k >= 1) {
+      model_scale = double(model.n_obs) / (model.n_obs - k);
+      quantile_df = model.n_obs - k;
+      out.parameter_uncertainty +=
+          fmt::format("; {} degrees of freedom (sigma^2 as SSR / (n - k), Student t quantiles)",
+                      model.n_obs - k);
+    }
+  }
+
+  var_param_model *= model_scale;
   const Eigen::VectorXd var_noise =
-      Eigen::Map<const Eigen::VectorXd>(base.var_known.data(), horizon);
-  const Eigen::VectorXd var_all = var_noise +
-                                  Eigen::Map<const Eigen::VectorXd>(base.var_inputs.data(), horizon) +
-                                  var_param_model + var_param_inputs;
+      model_scale * Eigen::Map<const Eigen::VectorXd>(base.var_known.data(), horizon);
+  const Eigen::VectorXd var_all =
+      var_noise + Eigen::Map<const Eigen::VectorXd>(base.var_inputs.data(), horizon) +
+      var_param_model + var_param_inputs;
   const Eigen::VectorXd var_known = var_noise + var_param_model;
   out.share_inputs.resize(horizon);
   out.share_parameters.resize(horizon);
@@ -408,7 +432,9 @@ ForecastResult forecast_complete(const FittedModel& model, const SeriesData& his
     }
   }
   for (double level : options.levels) {
-    const double zq = normal_quantile(0.5 + level / 2.0);
+    const double zq = std::isfinite(quantile_df)
+                          ? student_t_quantile(0.5 + level / 2.0, quantile_df)
+                          : normal_quantile(0.5 + level / 2.0);
     std::vector<double> lo(horizon), hi(horizon), lo_k(horizon), hi_k(horizon);
     for (int s = 0; s < horizon; ++s) {
       lo[s] = invert_transform(out.level[s] - zq * out.se[s], tr);

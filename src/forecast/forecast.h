@@ -14,8 +14,11 @@
 // Var_par(k) = J_k C J_k', J_k the derivative of the k-step point forecast (transformed scale) in
 // the model's parameters (nonlinear then linear, the fit's covariance C), by central differences
 // with steps of 1e-3 s.e.; likewise for each forecast input's own ARMA (phi, theta, mean) with its
-// covariance. Estimation error is taken as independent of the future shocks. The intervals with
-// inputs known (`*_known`) include the model's parameter part but not the input models'.
+// covariance. Estimation error is taken as independent of the future shocks. With the model's
+// part included and its sample size known, sigma^2 is taken as SSR / (n - k) instead of the ML
+// SSR / n and the quantiles are Student t with n - k df (k: the estimated coefficients). The
+// intervals with inputs known (`*_known`) include the model's parameter part but not the input
+// models'.
 #include <nlohmann/json.hpp>
 #include <string>
 #include <vector>

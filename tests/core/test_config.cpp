@@ -119,6 +119,11 @@ TEST(Config, MinimalConfigTakesDefaults) {
   EXPECT_EQ(c.fit.filter_start, FilterStart::estimated);
   EXPECT_EQ(parse_config(kHead + std::string("fit: {filter_start: zero}\n"), kFile).fit.filter_start,
             FilterStart::zero);
+  EXPECT_EQ(c.fit.estimation, Estimation::ml);
+  EXPECT_EQ(parse_config(kHead + std::string("fit: {estimation: restricted}\n"), kFile)
+                .fit.estimation,
+            Estimation::restricted);
+  EXPECT_THROW(parse_config(kHead + std::string("fit: {estimation: reml}\n"), kFile), InputError);
 }
 
 TEST(Config, PanelTargetsBareBacktestConstantSpellingsAndNoisePeriod) {

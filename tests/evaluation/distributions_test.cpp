@@ -1,4 +1,4 @@
-// Distribution functions against R's base stats (pnorm, qnorm, pt, pchisq, pbeta); the values
+// Distribution functions against R's base stats (pnorm, qnorm, pt, qt, pchisq, pbeta); the values
 // and the script that produced them are in tests/reference/distributions/.
 #include "evaluation/distributions.h"
 
@@ -65,6 +65,27 @@ TEST(Distributions, StudentTMatchesR) {
     expect_close(student_t_cdf(x[i], df[i]), cdf[i], 5e-13, what);
     expect_close(student_t_two_sided_p(x[i], df[i]), two[i], 5e-13, "two-sided " + what);
   }
+}
+
+TEST(Distributions, StudentTQuantileMatchesR) {
+  const auto fx = load_fixture()["student_t_quantile"];
+  const auto p = vec(fx["p"]);
+  const auto df = vec(fx["df"]);
+  const auto want = vec(fx["value"]);
+  ASSERT_GT(p.size(), 100u);
+  for (size_t i = 0; i < p.size(); ++i) {
+    const std::string what = "qt(" + std::to_string(p[i]) + ", " + std::to_string(df[i]) + ")";
+    if (want[i] == 0.0) {
+      EXPECT_EQ(student_t_quantile(p[i], df[i]), 0.0) << what;
+      continue;
+    }
+    // The inverse of a cdf accurate to ~1e-13 (relative): its slope amplifies that by p / (x f)
+    // in the far tails of small df; 1e-10 relative still fails on a wrong density or step.
+    expect_close(student_t_quantile(p[i], df[i]), want[i], 1e-10, what);
+  }
+  EXPECT_TRUE(std::isnan(student_t_quantile(0.5, 0.0)));
+  EXPECT_TRUE(std::isnan(student_t_quantile(1.5, 3.0)));
+  EXPECT_EQ(student_t_quantile(1.0, 3.0), std::numeric_limits<double>::infinity());
 }
 
 TEST(Distributions, ChiSquareUpperTailMatchesR) {

@@ -91,6 +91,8 @@ Coverage run(int history, int reps) {
     for (const auto& e : fit.estimates) model.param_names.push_back(e.name);
     model.covariance = fit.covariance;
     model.start = fit.start;
+    model.n_obs = fit.n_obs;
+    model.n_params = fit.n_params;
     InputUse use;
     use.name = "x";
     use.future = FutureMode::forecast;

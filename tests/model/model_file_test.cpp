@@ -56,6 +56,10 @@ TEST(ModelFile, RoundTripKeepsEveryNumber) {
   EXPECT_EQ(back.covariance(0, 0), 0.01);
   EXPECT_EQ(back.spec.filter_start, FilterStart::estimated);
   EXPECT_EQ(back.params.inputs[0].state, m.params.inputs[0].state);
+  auto restricted = m;
+  restricted.spec.estimation = Estimation::restricted;
+  EXPECT_EQ(fitted_model_from_json(to_json(restricted), "model.json").spec.estimation,
+            Estimation::restricted);
 }
 
 TEST(ModelFile, FilesWithoutAFilterStartLoadAsAZeroStart) {
@@ -66,6 +70,7 @@ TEST(ModelFile, FilesWithoutAFilterStartLoadAsAZeroStart) {
   const auto back = fitted_model_from_json(doc, "model.json");
   EXPECT_EQ(back.spec.filter_start, FilterStart::zero);
   EXPECT_TRUE(back.params.inputs[0].state.empty());
+  EXPECT_EQ(back.spec.estimation, Estimation::ml);  // no key: fitted by ML
   doc = to_json(sample_model());
   doc["params"]["inputs"][0]["state"] = {0.1, 0.2};
   EXPECT_NE(refusal(doc).find("params.inputs[0].state"), std::string::npos) << refusal(doc);
