@@ -75,12 +75,12 @@ TEST(Distributions, StudentTQuantileMatchesR) {
   ASSERT_GT(p.size(), 100u);
   for (size_t i = 0; i < p.size(); ++i) {
     const std::string what = "qt(" + std::to_string(p[i]) + ", " + std::to_string(df[i]) + ")";
-    if (want[i] == 0.0) {
-      EXPECT_EQ(student_t_quantile(p[i], df[i]), 0.0) << what;
+    if (std::fabs(want[i]) < 1e-12) {  // the median (R prints rounding noise there for some df)
+      EXPECT_LT(std::fabs(student_t_quantile(p[i], df[i])), 1e-12) << what;
       continue;
     }
-    // The inverse of a cdf accurate to ~1e-13 (relative): its slope amplifies that by p / (x f)
-    // in the far tails of small df; 1e-10 relative still fails on a wrong density or step.
+    // The inverse of a cdf accurate to ~1e-13 (relative); 4e-14 is the worst on this grid, and
+    // 1e-10 relative still fails on a wrong density or Newton step.
     expect_close(student_t_quantile(p[i], df[i]), want[i], 1e-10, what);
   }
   EXPECT_TRUE(std::isnan(student_t_quantile(0.5, 0.0)));
