@@ -98,6 +98,8 @@ struct FitResult {
   int evaluations = 0;
   int starts = 0;        // optimiser starts used (multi-start, or a restart after a boundary)
   int lower_optima = 0;  // starts that ended more than 0.01 below the best (kept) optimum
+  // Extra starts stopped after a short probe because they were still far below the best.
+  int abandoned_starts = 0;
   double seconds = 0.0;
 
   bool usable() const { return status != FitStatus::numerical_failure; }
