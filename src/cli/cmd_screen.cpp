@@ -32,12 +32,13 @@ struct ScreenArgs {
 };
 
 // Magnitude of a correlation as a run of eighth-blocks, one cell per 0.1 of |r| (so |r| = 1 fills
-// ten cells), after its sign: a compact size column beside the number, no axis inside.
+// ten cells), after its sign: a compact size column beside the number, no axis inside. The sign
+// is the same ASCII '+' / '-' as in the number beside it (one glyph, one meaning).
 std::string magnitude_cells(double r) {
   static const char* const kEighths[] = {"",       "\u258f", "\u258e", "\u258d",
                                          "\u258c", "\u258b", "\u258a", "\u2589"};
   const int eighths = static_cast<int>(std::lround(std::min(std::abs(r), 1.0) * 80.0));
-  std::string out = r < 0 ? "\u2212" : "+";
+  std::string out = r < 0 ? "-" : "+";
   for (int i = 0; i < eighths / 8; ++i) out += "\u2588";
   out += kEighths[eighths % 8];
   const int cells = eighths / 8 + (eighths % 8 ? 1 : 0);
@@ -62,10 +63,8 @@ std::string join_numbers(const std::vector<double>& v) {
 }
 
 void print_input(const InputScreen& s, bool negative) {
-  std::string how = s.is_event ? "event, not prewhitened" : "column";
-  if (s.indicator.shape != IndicatorShape::none)
-    how = fmt::format("indicator column ({}), not prewhitened", to_string(s.indicator.shape));
-  if (s.prewhitened) how = fmt::format("column, prewhitened by AR({})", s.prewhitening.order);
+  const std::string how =
+      describe_treatment({s.is_event, s.indicator.shape}, s.prewhitened, s.prewhitening.order);
   fmt::print("\n{}  [{}; n = {}]\n", s.name, how, s.n);
   const bool has_bars = !(s.cross_correlation.empty() || s.band == 0.0);
   if (s.indicator.shape != IndicatorShape::none && has_bars)
@@ -83,8 +82,8 @@ void print_input(const InputScreen& s, bool negative) {
     for (const auto& note : s.notes) fmt::print("  note: {}\n", note);
     return;
   }
-  fmt::print("  {:>5} {:>8}  {:<11} {:<7} {:>11} {:>10} {:>11}\n", "lag", "r(k)", "|r(k)|",
-             "beyond", "v_k", "se", "shape v_k");
+  fmt::print("  {:>5} {:>8}  {:<11} {:<7} {:>11} {:>10} {:>11}\n", "lag", "r(k)", "bar", "beyond",
+             "v_k", "se", "shape v_k");
   const int from = negative ? -s.max_lag : 0;
   for (int k = from; k <= s.max_lag; ++k) {
     const double r = s.correlation_at(k);
@@ -96,17 +95,20 @@ void print_input(const InputScreen& s, bool negative) {
                band_marker(r, s.band, s.family_band), tail);
   }
   fmt::print(
-      "  |r(k)|: one cell per 0.1; beyond: \"lag\" = outside the per-lag band +-{:.3f}, "
-      "\"family\" = outside the family-wise band over lags 0..{} +-{:.3f} as well\n",
+      "  bar: the sign of r(k), then one cell per 0.1 of |r(k)|\n"
+      "  beyond: \"lag\" = outside the per-lag band \u00b1{:.3f}, \"family\" = outside the "
+      "family-wise band over lags 0..{} \u00b1{:.3f} as well\n",
       s.band, s.max_lag, s.family_band);
   if (!negative) {
     int worst = -1;
     for (int k = -s.max_lag; k <= -1; ++k)
       if (std::abs(s.correlation_at(k)) > std::abs(s.correlation_at(worst))) worst = k;
+    const bool deterministic = s.is_event || s.indicator.shape != IndicatorShape::none;
     fmt::print("  negative lags: largest |r| {:.3f} at lag {}{}\n",
                std::abs(s.correlation_at(worst)), worst,
-               s.feedback_lags.empty() ? " (within the feedback band)"
-                                       : " (beyond the feedback band: see warnings)");
+               deterministic ? " (not a sign of feedback: a deterministic input cannot respond)"
+               : s.feedback_lags.empty() ? " (within the feedback band)"
+                                         : " (beyond the feedback band: see warnings)");
   }
 }
 
@@ -123,8 +125,8 @@ void print_screen(const ScreenResult& r, bool negative) {
     std::string acf, pacf;
     for (size_t k = 1; k < r.noise.acf.size(); ++k) acf += fmt::format(" {:6.2f}", r.noise.acf[k]);
     for (double v : r.noise.pacf) pacf += fmt::format(" {:6.2f}", v);
-    fmt::print("  ACF  lags 1..{}:{}\n  PACF lags 1..{}:{}\n  band +-{:.3f}\n", r.noise.pacf.size(),
-               acf, r.noise.pacf.size(), pacf, r.noise.band);
+    fmt::print("  ACF  lags 1..{}:{}\n  PACF lags 1..{}:{}\n  band \u00b1{:.3f}\n",
+               r.noise.pacf.size(), acf, r.noise.pacf.size(), pacf, r.noise.band);
   }
   if (r.warnings.empty()) {
     fmt::print("\nwarnings: none\n");
@@ -166,8 +168,8 @@ int run_screen(const ScreenArgs& args) {
 void register_screen(CLI::App& app) {
   auto* cmd = app.add_subcommand(
       "screen",
-      "Identification screen: prewhitened cross-correlations and impulse responses per input, "
-      "with suggested delay and orders, noise orders and warnings");
+      "Identification screen: cross-correlations (data columns prewhitened) and impulse "
+      "responses per input, with suggested delay and orders, noise orders and warnings");
   auto args = std::make_shared<ScreenArgs>();
   cmd->add_option("CONFIG", args->config, "Run configuration (YAML)")->required();
   cmd->add_option("--series", args->series, "Screen only this target column (default: all)");

@@ -70,12 +70,14 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
   }
   if (!fit.diagnostics.residual_input.empty()) {
     fmt::print(
-        "\nresiduals against each prewhitened input (small p = a lag the transfer function "
-        "misses):\n");
+        "\nresiduals against each input (small p = a lag the transfer function misses; events "
+        "and indicator columns are not prewhitened, as in the screen):\n");
     for (const auto& c : fit.diagnostics.residual_input)
-      fmt::print("  {:<20} S = {:>8}  df {:>3}  p = {:<9}  largest at lag {} (r = {}, band ±{})\n",
-                 c.input, num(c.statistic, 5), c.df, num(c.p_value, 3), c.largest_lag,
-                 num(c.values[static_cast<size_t>(c.largest_lag + c.max_lag)], 3), num(c.band, 3));
+      fmt::print(
+          "  {:<20} S = {:>8}  df {:>3}  p = {:<9}  largest at lag {} (r = {}, band ±{})  [{}]\n",
+          c.input, num(c.statistic, 5), c.df, num(c.p_value, 3), c.largest_lag,
+          num(c.values[static_cast<size_t>(c.largest_lag + c.max_lag)], 3), num(c.band, 3),
+          describe_treatment(c.kind, c.prewhitened, c.ar_order));
   }
   if (!fit.diagnostics.roots.empty()) {
     fmt::print("\nsmallest root modulus (must exceed 1; near 1 = near a unit root):\n");

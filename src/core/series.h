@@ -13,6 +13,9 @@ struct SeriesData {
   std::vector<std::string> time;            // time stamps as read ("" when the file has none)
   std::vector<std::string> input_names;     // every configured input, events included, config order
   std::vector<std::vector<double>> inputs;  // inputs[i][row], events generated from the config
+  // 1 where input i was generated from an event of the config (or is a detected effect); may be
+  // shorter than `inputs` (missing entries: data columns). Events are not prewhitened.
+  std::vector<unsigned char> input_is_event;
   std::string source_file;
   int interpolated = 0;            // cells filled by `missing: interpolate` (target and inputs)
   std::string time_format;         // data.time_format ("" = a recognised form)
@@ -54,6 +57,16 @@ struct SeriesData {
   }
 
   int rows() const { return static_cast<int>(target.size()); }
+  bool is_event(size_t input) const {
+    return input < input_is_event.size() && input_is_event[input] != 0;
+  }
+  // Appends a column with its name and whether it is an event.
+  void add_input(std::string name, std::vector<double> values, bool event) {
+    input_names.push_back(std::move(name));
+    inputs.push_back(std::move(values));
+    if (event || !input_is_event.empty()) input_is_event.resize(inputs.size());
+    if (event) input_is_event.back() = 1;
+  }
   int input_index(const std::string& name) const {
     for (size_t i = 0; i < input_names.size(); ++i)
       if (input_names[i] == name) return static_cast<int>(i);
@@ -67,6 +80,7 @@ inline SeriesData slice_rows(const SeriesData& data, int from, int to) {
   s.target_name = data.target_name;
   s.source_file = data.source_file;
   s.input_names = data.input_names;
+  s.input_is_event = data.input_is_event;
   s.interpolated = data.interpolated;
   s.time_format = data.time_format;
   s.frequency = data.frequency;

@@ -392,8 +392,7 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
           "the model's constant; remove it {}",
           what, values.front(), table.source,
           in.is_event ? "or move `at` inside the data" : "or check the column"));
-    s.input_names.push_back(in.name);
-    s.inputs.push_back(std::move(values));
+    s.add_input(in.name, std::move(values), in.is_event);
     if (!filled.empty()) {
       s.input_filled.resize(s.inputs.size());
       s.input_filled.back() = std::move(filled);

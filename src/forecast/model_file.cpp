@@ -579,20 +579,30 @@ json fit_to_json(const FitResult& fit) {
         {"lags", json::array()}, {"values", r}, {"band", fit.diagnostics.residual_acf_band}};
     for (size_t k = 1; k <= r.size(); ++k) d["residual_acf"]["lags"].push_back(k);
   }
-  // Residuals against each prewhitened input: lags -L..L (input at t-k against residual at t),
-  // the portmanteau over lags 0..L.
+  // Residuals against each input (prewhitened unless an event or an indicator column): lags
+  // -L..L (input at t-k against residual at t), the portmanteau over lags 0..L. A reader of an
+  // older file without "prewhitened" takes every input as prewhitened (it was, then).
   d["residual_input_ccf"] = json::array();
-  for (const auto& c : fit.diagnostics.residual_input)
-    d["residual_input_ccf"].push_back({{"input", c.input},
-                                       {"lags", c.lags},
-                                       {"values", c.values},
-                                       {"band", c.band},
-                                       {"statistic", c.statistic},
-                                       {"df", c.df},
-                                       {"p_value", c.p_value},
-                                       {"ar_order", c.ar_order},
-                                       {"n", c.n},
-                                       {"largest_lag", c.largest_lag}});
+  for (const auto& c : fit.diagnostics.residual_input) {
+    json e = {{"input", c.input},
+              {"input_kind", c.kind.is_event                               ? "event"
+                             : c.kind.indicator != IndicatorShape::none ? "indicator"
+                                                                         : "column"},
+              {"prewhitened", c.prewhitened},
+              {"lags", c.lags},
+              {"values", c.values},
+              {"band", c.band},
+              {"statistic", c.statistic},
+              {"df", c.df},
+              {"p_value", c.p_value},
+              {"ar_order", c.ar_order},
+              {"extra_differences", c.extra_differences},
+              {"n", c.n},
+              {"largest_lag", c.largest_lag}};
+    if (c.kind.indicator != IndicatorShape::none)
+      e["indicator_shape"] = std::string(to_string(c.kind.indicator));
+    d["residual_input_ccf"].push_back(std::move(e));
+  }
   j["diagnostics"] = d;
   return j;
 }

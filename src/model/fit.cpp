@@ -423,24 +423,20 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
     omega_offset += static_cast<int>(ip.omega.size());
   }
 
-  // Residuals against each prewhitened input over the likelihood sample (rows start..N-1 of the
-  // differenced input pair with the residuals row by row).
+  // Residuals against each input (prewhitened unless an event or an indicator column) over the
+  // likelihood sample (rows start..N-1 of the differenced input pair with the residuals row by row).
   for (size_t i = 0; options.residual_input_check && i < spec.inputs.size(); ++i) {
     const auto& term = spec.inputs[i];
     // At observed rows only, as the residuals are (missing rows joined: approximate there).
     std::vector<double> u;
     for (int t = problem.start; t < static_cast<int>(problem.u[i].size()); ++t)
       if (!problem.is_missing(t)) u.push_back(problem.u[i][t]);
-    auto check = residual_input_correlation(term.name, fit.residuals, u,
-                                            term.order.numerator + term.order.denominator + 1);
+    const InputKind kind = i < problem.input_kinds.size() ? problem.input_kinds[i] : InputKind{};
+    auto check = residual_input_correlation(
+        term.name, fit.residuals, u, term.order.numerator + term.order.denominator + 1, kind);
     if (!check) continue;
     if (check->p_value < ResidualInputOptions{}.warn_level)
-      diag.warnings.push_back(fmt::format(
-          "residual_input_correlation: residuals still correlate with prewhitened {} (S = {:.1f}, "
-          "df {}, p = {:.2g}; largest at lag {}: {:.2f}, band {:.2f}); its transfer function "
-          "misses a lag or has the wrong delay",
-          term.name, check->statistic, check->df, check->p_value, check->largest_lag,
-          check->values[check->largest_lag + check->max_lag], check->band));
+      diag.warnings.push_back(residual_input_warning(*check));
     diag.residual_input.push_back(std::move(*check));
   }
 

@@ -114,6 +114,10 @@ LikelihoodProblem make_problem(const SeriesData& data, const ModelSpec& spec, in
       throw InputError(
           fmt::format("input '{}' is not in the data of series '{}'", term.name, data.target_name));
     problem.u.push_back(difference(data.inputs[index], spec.differencing));
+    // The same rule as the screen's: an event by the config, else an indicator by its values.
+    const bool event = data.is_event(static_cast<size_t>(index));
+    problem.input_kinds.push_back(
+        {event, event ? IndicatorShape::none : classify_indicator(data.inputs[index]).shape});
   }
   problem.start = start < 0 ? minimum_start(spec) : start;
   if (std::any_of(problem.w.begin(), problem.w.end(), [](double v) { return std::isnan(v); })) {

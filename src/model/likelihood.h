@@ -23,6 +23,7 @@
 #include "core/spec.h"
 #include "model/arma_filter.h"
 #include "model/params.h"
+#include "screen/indicator.h"
 
 namespace lagsieve {
 
@@ -32,6 +33,9 @@ struct LikelihoodProblem {
   ModelSpec spec;
   std::vector<double> w;               // differenced, transformed target (N values)
   std::vector<std::vector<double>> u;  // differenced inputs of spec.inputs, in spec order
+  // What each input of spec.inputs is (an event, an indicator column or a plain column), for the
+  // diagnostics' choice of prewhitening; empty: every input a plain column.
+  std::vector<InputKind> input_kinds;
   int start = 0;                       // first index of w inside the likelihood
   // 1 where w is missing (NaN: a missing target value, or a difference that involves one);
   // empty when none is. The Kalman filter predicts through these rows without an update, so

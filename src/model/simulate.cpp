@@ -158,12 +158,12 @@ SeriesData simulate(const SimulationSpec& spec) {
     }
     const auto x = transfer_response(u, input.order, input.params);
     for (int t = 0; t < total; ++t) w[t] += x[t];
-    out.input_names.push_back(input.name);
     if (input.is_event) {
-      out.inputs.push_back(event_values(input.shape, input.at_row + lost, spec.n + lost));
+      out.add_input(input.name, event_values(input.shape, input.at_row + lost, spec.n + lost),
+                    true);
     } else {
       std::vector<double> kept(u.begin() + spec.burn_in, u.end());
-      out.inputs.push_back(integrate(kept, spec.integrate));
+      out.add_input(input.name, integrate(kept, spec.integrate), false);
     }
   }
   std::vector<double> kept(w.begin() + spec.burn_in, w.end());

@@ -183,8 +183,7 @@ std::vector<OutlierType> ambiguous_types(OutlierType type, const std::vector<Out
 SeriesData with_effect_columns(const SeriesData& data, const std::vector<OutlierEffect>& effects) {
   SeriesData out = data;
   for (const auto& e : effects) {
-    out.input_names.push_back(e.name);
-    out.inputs.push_back(effect_values(e, data.rows()));
+    out.add_input(e.name, effect_values(e, data.rows()), true);
   }
   return out;
 }
@@ -285,14 +284,13 @@ OutlierFit finish(JointFit&& j, std::vector<OutlierEffect> effects, double criti
   }
   std::sort(effects.begin(), effects.end(),
             [](const auto& a, const auto& b) { return a.row < b.row; });
-  // The residual-input check prewhitens an input by its own AR model: meaningless for a pulse or
-  // a step, so the effects' entries (and their warnings) are left out.
+  // The effects were placed where the residuals were largest, so the residuals right after them
+  // are small by construction: their residual-input entries (and warnings) would say nothing.
   auto& diag = j.fit.diagnostics;
   for (const auto& e : effects) {
     std::erase_if(diag.residual_input, [&](const auto& c) { return c.input == e.name; });
     std::erase_if(diag.warnings, [&](const std::string& w) {
-      return w.starts_with(
-          "residual_input_correlation: residuals still correlate with prewhitened " + e.name + " ");
+      return w.starts_with(residual_input_warning_prefix(e.name));
     });
   }
   out.data = std::move(j.data);

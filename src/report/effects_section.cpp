@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "report/svg.h"
+#include "report/time_axis.h"
 
 namespace lagsieve {
 
@@ -147,9 +148,10 @@ std::optional<EffectsSection> effects_section(const json& fit, const std::string
       }
       if (any) chart.series.push_back(std::move(m));
     }
-    if (!time.empty() && static_cast<int>(time.size()) == n && !time.front().empty()) {
-      const int step = std::max(1, (n - 1) / 6);
-      for (int t = 0; t < n; t += step) chart.x_ticks.push_back({double(t + 1), time[t]});
+    if (static_cast<int>(time.size()) == n) {
+      std::vector<double> rows(static_cast<size_t>(n));
+      for (int t = 0; t < n; ++t) rows[t] = t + 1.0;
+      chart.x_ticks = time_axis_ticks(rows, time, chart.frame.width - 90.0);
     }
     out.chart_svg = line_chart_svg(chart);
     out.chart_caption =

@@ -10,6 +10,7 @@
 
 #include "core/error.h"
 #include "evaluation/distributions.h"
+#include "report/time_axis.h"
 
 namespace lagsieve {
 namespace {
@@ -89,16 +90,10 @@ bool stamped(const std::vector<std::string>& time) {
          std::none_of(time.begin(), time.end(), [](const std::string& t) { return t.empty(); });
 }
 
-// Time-stamp labels at "nice" row positions.
+// Calendar ticks in the stamps' own form (report/time_axis.h) across the plot of a wide chart.
 std::vector<AxisTick> stamp_ticks(const std::vector<double>& x,
                                   const std::vector<std::string>& time) {
-  std::vector<AxisTick> ticks;
-  if (x.empty() || !stamped(time)) return ticks;
-  for (double a : nice_ticks(x.front(), x.back(), 7)) {
-    const auto it = std::find(x.begin(), x.end(), a);
-    if (it != x.end()) ticks.push_back({a, time[static_cast<size_t>(it - x.begin())]});
-  }
-  return ticks;
+  return time_axis_ticks(x, time, kWide - 90.0);
 }
 
 std::string where(const Past& p, size_t i) {
@@ -118,7 +113,6 @@ HtmlFigure fitted_chart(const Past& p, const std::vector<XMark>& marks, const st
       "Fitted values (one step ahead) follow the actuals where the model explains the "
       "history; dotted marks are event dates";
   c.frame.subtitle = p.label;
-  c.frame.x_title = c.x_ticks.empty() ? "Time" : "Time";
   c.frame.y_title = scale_title(p, "Target");
   c.frame.width = kWide;
   c.frame.height = 400;

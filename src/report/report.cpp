@@ -24,6 +24,8 @@
 #include "report/revalidation_page.h"
 #include "report/past_section.h"
 #include "report/svg.h"
+#include "report/time_axis.h"
+#include "screen/indicator.h"
 #include "search/run_folder.h"
 
 namespace lagsieve {
@@ -615,14 +617,36 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
 
 // ---- Inputs (screen) ------------------------------------------------------------------------
 
+// The treatment of an input in the words of screen/indicator.h, from a screen.json input (fields
+// "event", "indicator", "prewhitened", "prewhitening") or a fit.json residual_input_ccf entry
+// ("input_kind", "indicator_shape", "prewhitened", "ar_order"). Files written before the field
+// "prewhitened" existed prewhitened every data column and every diagnostics input.
+std::string treatment_of(const json& e) {
+  InputKind kind;
+  kind.is_event = e.value("event", false) || e.value("input_kind", std::string()) == "event";
+  if (e.contains("indicator") && e["indicator"].is_object())
+    kind.indicator = indicator_shape_from(e["indicator"].value("shape", std::string()));
+  if (e.contains("indicator_shape") && e["indicator_shape"].is_string())
+    kind.indicator = indicator_shape_from(e["indicator_shape"].get<std::string>());
+  if (kind.is_event) kind.indicator = IndicatorShape::none;
+  int ar_order = 0;
+  if (e.contains("prewhitening") && e["prewhitening"].is_object() &&
+      e["prewhitening"].contains("order") && e["prewhitening"]["order"].is_number())
+    ar_order = e["prewhitening"]["order"].get<int>();
+  if (e.contains("ar_order") && e["ar_order"].is_number()) ar_order = e["ar_order"].get<int>();
+  const bool prewhitened = e.value("prewhitened", !kind.deterministic());
+  return describe_treatment(kind, prewhitened, ar_order);
+}
+
 void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
   const JsonFile f(sf.screen_file);
   const json& doc = *sf.screen;
   const json& inputs = f.array(doc, "inputs", "");
   s.heading = "Inputs: cross-correlation and impulse response" + b.suffix(sf);
   s.intro =
-      "Each input and the target are prewhitened by the input's own AR model, then cross-correlated. "
-      "Bars beyond the orange band lines at lags 0 and above point to the delay; bars at negative lags "
+      "Each data column and the target are prewhitened by the column's own AR model, then "
+      "cross-correlated; events and indicator columns (two-valued steps and pulses) are not "
+      "prewhitened, since an AR model fitted to a step whitens away the change itself. Bars beyond the orange band lines at lags 0 and above point to the delay; bars at negative lags "
       "would mean the target leads the input (feedback). Beside it, the impulse response the screen "
       "estimates from those correlations, its fitted shape, and the leader's estimated response.";
   if (inputs.empty()) s.blocks.push_back(HtmlParagraph{"The run has no inputs."});
@@ -637,25 +661,23 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
     const double family = f.number(in, "family_band", path);
     const bool relevant = in.value("relevant", false);
     const bool event = in.value("event", false);
+    const bool indicator = in.contains("indicator") && in["indicator"].is_object();
     const int b0 = static_cast<int>(f.number(in, "suggested_delay", path));
     const int s0 = static_cast<int>(f.number(in, "suggested_numerator", path));
     const int r0 = static_cast<int>(f.number(in, "suggested_denominator", path));
     const double n = f.number(in, "n", path);
-    int ar_order = 0;
-    if (in.contains("prewhitening") && in["prewhitening"].is_object())
-      ar_order = static_cast<int>(f.number(in["prewhitening"], "order", path + "prewhitening."));
+    const std::string treatment = treatment_of(in);
 
     BarChart ccf;
-    if (event)
-      ccf.frame.title = relevant ? fmt::format("{} (event): bars beyond the band show when the target responds", name)
-                                 : fmt::format("{} (event): no clear response beyond the band", name);
+    if (event || indicator)
+      ccf.frame.title =
+          relevant ? fmt::format("{} ({}): bars beyond the band show when the target responds", name,
+                                 event ? "event" : "indicator")
+                   : fmt::format("{} ({}): no clear response beyond the band", name, event ? "event" : "indicator");
     else
       ccf.frame.title = relevant ? fmt::format("{}: bars beyond the band from lag {} on mark the delay", name, b0)
                                  : fmt::format("{}: no lag clears the family band; a candidate to drop", name);
-    ccf.frame.subtitle =
-        event ? fmt::format("event input (not prewhitened), n = {:.0f}", n)
-              : fmt::format("prewhitened by AR({}), n = {:.0f}; family band \u00b1{}", ar_order, n,
-                            short_num(family));
+    ccf.frame.subtitle = fmt::format("{}, n = {:.0f}; family band \u00b1{}", treatment, n, short_num(family));
     ccf.frame.x_title = "Lag k (steps; input leads the target for k > 0)";
     ccf.frame.y_title = "Cross-correlation";
     ccf.x = lags;
@@ -663,7 +685,7 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
     if (std::isfinite(band)) ccf.band = {band};
     ccf.band_label = fmt::format("\u00b1{} per-lag band", short_num(band));
     HtmlFigure left = b.figure(bar_chart_svg(ccf), b.stem("ccf_" + name, sf),
-                               fmt::format("Prewhitened cross-correlation of {} with {}.", name, sf.name));
+                               fmt::format("Cross-correlation of {} with {} ({}).", name, sf.name, treatment));
 
     const std::vector<double> v = f.numbers(in, "impulse", path);
     const std::vector<double> se = in.contains("impulse_se") ? f.numbers(in, "impulse_se", path)
@@ -802,21 +824,11 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
 
 // ---- Forecast -------------------------------------------------------------------------------
 
-// Labelled ticks at "nice" step positions of a time axis given as position -> stamp.
-std::vector<AxisTick> time_ticks(const std::vector<double>& x, const std::vector<std::string>& stamps) {
-  std::vector<AxisTick> ticks;
-  if (x.empty() || std::any_of(stamps.begin(), stamps.end(), [](const std::string& t) { return t.empty(); }))
-    return ticks;
-  const double lo = x.front(), hi = x.back();
-  const std::vector<double> at = nice_ticks(lo, hi, 6);
-  for (double a : at) {
-    if (a < lo || a > hi || std::floor(a) != a) continue;
-    const auto it = std::find(x.begin(), x.end(), a);
-    if (it == x.end()) continue;
-    std::string label = stamps[static_cast<size_t>(it - x.begin())];
-    ticks.push_back({a, label});
-  }
-  return ticks;
+// Calendar ticks of a time axis given as position -> stamp (report/time_axis.h), across the plot
+// of a chart `width` wide.
+std::vector<AxisTick> time_ticks(const std::vector<double>& x, const std::vector<std::string>& stamps,
+                                 int width) {
+  return time_axis_ticks(x, stamps, width - 90.0);
 }
 
 // The level keys of forecast.json ("0.8", "0.95") as level -> key, ascending.
@@ -915,7 +927,7 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
   std::vector<std::string> stamps = history_time;
   stamps.resize(history.size());
   stamps.insert(stamps.end(), ftime.begin(), ftime.end());
-  fan.x_ticks = time_ticks(all_x, stamps);
+  fan.x_ticks = time_ticks(all_x, stamps, kWideChart);
   add_past_to_fan(fan, history_time, ftime, sf.fit ? &*sf.fit : nullptr, model_events(sf));
 
   const std::string label = sf.model ? model_label(sf.model->spec) : std::string();
@@ -1217,11 +1229,13 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
         while (u < uppers.size() && uppers[u].first != lowers[l].first) ++u;
         if (u == uppers.size()) continue;
         lc.bands.push_back(Band{pct(lowers[l].first) + " interval", x, lo[l], hi[u],
-                                0, l + 1 == lowers.size() ? 0.16 : 0.32, BandStyle::filled});
+                                kBandColour, l + 1 == lowers.size() ? 0.2 : 0.4, BandStyle::filled});
       }
+      // The colour roles of every chart: observed ink, the model vermillion, its bands orange.
       lc.series.push_back(LineSeries{"actual", x, actual, -1, true, LineStyle::solid, true});
-      lc.series.push_back(LineSeries{"one-step forecast", x, fcast, 0, false, LineStyle::solid, false});
-      lc.x_ticks = time_ticks(x, stamps);
+      lc.series.push_back(
+          LineSeries{"one-step forecast", x, fcast, kModelColour, false, LineStyle::solid, false});
+      lc.x_ticks = time_ticks(x, stamps, kWideChart);
       lc.frame.title = "Leader's one-step backtest forecasts: actuals outside the bands are misses";
       lc.frame.subtitle = leader + " · inputs as in production";
       lc.frame.x_title = "Time of the one-step forecast";
@@ -1405,7 +1419,7 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
     bc.frame.width = kWideChart;
     s.blocks.push_back(b.figure(bar_chart_svg(bc), b.stem("residual_acf", sf), ""));
   }
-  // Residuals against each prewhitened input (absent from fit files written before the check).
+  // Residuals against each input (absent from fit files written before the check).
   if (d.contains("residual_input_ccf") && d["residual_input_ccf"].is_array() &&
       !d["residual_input_ccf"].empty()) {
     HtmlTable t;
@@ -1415,7 +1429,8 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
                  {"Degrees of freedom", "", NumberFormat::automatic, 0},
                  {"Statistic", "", NumberFormat::fixed, 2},
                  {"p-value", "", NumberFormat::p_value, 3},
-                 {"Largest at lag", "", NumberFormat::automatic, 0}};
+                 {"Largest at lag", "", NumberFormat::automatic, 0},
+                 {"Input treatment", "", NumberFormat::automatic, 0}};
     for (size_t i = 0; i < d["residual_input_ccf"].size(); ++i) {
       const json& e = d["residual_input_ccf"][i];
       const std::string path = fmt::format("diagnostics.residual_input_ccf[{}].", i);
@@ -1440,15 +1455,15 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
           "Residuals vs {}: bars beyond the band at k \u2265 0 mark lags its transfer function "
           "misses",
           name);
-      const std::string prewhitened =
-          e.contains("ar_order")
-              ? fmt::format("{} prewhitened by AR({:.0f})", name, f.number(e, "ar_order", path))
-              : fmt::format("{} prewhitened", name);
+      const std::string treatment = treatment_of(e);
+      // An event or indicator cannot respond to the target: its bars at k < 0 are chance.
+      const bool deterministic = treatment.find("not prewhitened") != std::string::npos;
       bc.frame.subtitle = fmt::format(
-          "{}; test over lags 0\u2013{:.0f}: S = {}, df {:.0f}, p = {}{}; bars at k < 0 "
-          "(residual first) point to feedback",
-          prewhitened, max_lag, short_num(stat), df, p < 0.001 ? "< 0.001" : short_num(p),
-          p < 0.01 ? " (significant)" : "");
+          "{}: {}; test over lags 0\u2013{:.0f}: S = {}, df {:.0f}, p = {}{}; {}",
+          name, treatment, max_lag, short_num(stat), df, p < 0.001 ? "< 0.001" : short_num(p),
+          p < 0.01 ? " (significant)" : "",
+          deterministic ? "bars at k < 0 are chance (it cannot respond to the target)"
+                        : "bars at k < 0 (residual first) point to feedback");
       bc.frame.x_title =
           fmt::format("Lag k (steps; {} at t\u2212k against the residual at t)", name);
       bc.frame.y_title = "Cross-correlation";
@@ -1457,12 +1472,15 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
       t.rows.push_back(
           {cell(name), cell(fmt::format("0\u2013{:.0f}", max_lag)),
            std::isfinite(df) ? cell(static_cast<int>(df)) : cell(kNaN), cell(stat), cell(p),
-           std::isfinite(largest_lag) ? cell(static_cast<int>(largest_lag)) : cell(kNaN)});
+           std::isfinite(largest_lag) ? cell(static_cast<int>(largest_lag)) : cell(kNaN),
+           cell(treatment)});
     }
     t.note =
-        "Portmanteau over lags 0 to L of the residuals against the prewhitened input, with "
-        "L + 1 \u2212 (r + s + 1) degrees of freedom. A small p-value: try another delay or more "
-        "numerator or denominator lags.";
+        "Portmanteau over lags 0 to L of the residuals against each input, with "
+        "L + 1 \u2212 (r + s + 1) degrees of freedom. Data columns are prewhitened by their own AR "
+        "model, as in the screen; events and indicator columns are not (a step is differenced "
+        "once more into a pulse), and for them the p-value is approximate. A small p-value: try "
+        "another delay or more numerator or denominator lags.";
     s.blocks.push_back(std::move(t));
   }
   if (d.contains("ljung_box") && d["ljung_box"].is_array() && !d["ljung_box"].empty()) {

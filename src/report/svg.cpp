@@ -20,7 +20,7 @@ constexpr std::string_view kMuted = "#555555";
 constexpr std::string_view kGrid = "#e3e3e3";
 constexpr std::string_view kAxis = "#333333";
 constexpr double kCharWidth = 6.6;  // average glyph width at 12 px, for layout estimates
-constexpr double kTitleCharWidth = 8.4;
+constexpr double kTitleCharWidth = 9.0;
 
 // Pixel coordinates: two decimals are far below what a screen or printer resolves.
 std::string px(double v) { return fmt::format("{:.2f}", v); }
@@ -207,11 +207,14 @@ class Canvas {
                      px(ys(y_at[i]) + 4.0), escape_markup(y_labels[i]));
     for (size_t i = 0; i < x_at.size(); ++i) {
       const double x = xs(x_at[i]);
+      // A label centred on a tick near an edge would be cut: align it to end there instead.
+      const double half = 0.5 * kCharWidth * static_cast<double>(x_labels[i].size());
+      const char* anchor = x + half > width_ - 2.0 ? "end" : x - half < 2.0 ? "start" : "middle";
       fmt::format_to(std::back_inserter(out),
                      "<line x1=\"{0}\" y1=\"{1}\" x2=\"{0}\" y2=\"{2}\" stroke=\"{3}\"/>\n"
-                     "<text x=\"{0}\" y=\"{4}\" text-anchor=\"middle\">{5}</text>\n",
+                     "<text x=\"{0}\" y=\"{4}\" text-anchor=\"{6}\">{5}</text>\n",
                      px(x), px(bottom_), px(bottom_ + 4.0), kAxis, px(bottom_ + 17.0),
-                     escape_markup(x_labels[i]));
+                     escape_markup(x_labels[i]), anchor);
     }
     if (!frame_.x_title.empty())
       fmt::format_to(std::back_inserter(out),

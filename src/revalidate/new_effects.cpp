@@ -24,8 +24,7 @@ SeriesData with_model_effects(const FittedModel& model, const SeriesData& data) 
     ic.at = use.at;
     OutlierEffect e = *use.effect;
     e.row = event_row(ic, data.time, model.training.config_file, data.time_format);
-    out.input_names.push_back(use.name);
-    out.inputs.push_back(effect_values(e, data.rows()));
+    out.add_input(use.name, effect_values(e, data.rows()), true);
   }
   return out;
 }

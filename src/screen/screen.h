@@ -20,11 +20,9 @@
 // target otherwise correlates at every lag near the true delay. The impulse response is the same
 // (a common difference commutes with the transfer function); n is one shorter.
 //
-// Indicator columns. A data column (not an event of the config) with exactly two distinct values
-// whose minority value forms at most two runs, or only single-row runs, is indicator-like: a step
-// (one change of value), a pulse (single-row runs) or a temporary shift. It is deterministic like
-// an event, so it is screened as an event is (not prewhitened: an AR model fitted to a step or a
-// pulse whitens away the very change the target responds to), and a note says so.
+// Indicator columns (the rule is in screen/indicator.h: two-valued steps, pulses and temporary
+// shifts) are deterministic like events, so they are screened as events are (not prewhitened),
+// and a note says so. The fit's residual-input check (model/residual_input.h) treats both alike.
 //
 // Cross-correlation r(k) = corr(alpha_t, beta_{t+k}) at k = -L..L, L = min(max_lag, n/4); positive
 // k: the input comes first. Per-lag band: +-band_z / sqrt(n'), n' = length of the prewhitened pair.
@@ -79,6 +77,7 @@
 #include "core/series.h"
 #include "core/spec.h"
 #include "screen/correlation.h"
+#include "screen/indicator.h"
 
 namespace lagsieve {
 
@@ -108,19 +107,6 @@ struct ShapeFit {
   std::vector<double> omega;  // omega_0..omega_s
   std::vector<double> delta;  // delta_1..delta_r (delta(B) = 1 - delta_1 B - ...)
 };
-
-// How an indicator-like data column looks (see the rule above); kind none: not indicator-like.
-enum class IndicatorShape { none, step, pulse, shift };
-std::string_view to_string(IndicatorShape shape);
-
-struct IndicatorInfo {
-  IndicatorShape shape = IndicatorShape::none;
-  double base = 0.0, other = 0.0;  // the majority (first, for a step) and the minority value
-  std::vector<int> change_rows;    // 0-based rows where the value changes (before differencing)
-};
-
-// Classifies a raw (undifferenced) data column by the rule above.
-IndicatorInfo classify_indicator(const std::vector<double>& column);
 
 struct InputScreen {
   std::string name;

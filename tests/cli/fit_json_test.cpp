@@ -69,7 +69,16 @@ TEST(CliFitJson, DiagnosticsCarryTheResidualInputCrossCorrelation) {
     for (const char* key : {"lags", "values", "band", "statistic", "df", "p_value"})
       EXPECT_TRUE(c.contains(key)) << key;
     const int n = c["n"].get<int>();
-    EXPECT_EQ(n, j["n_obs"].get<int>() - c["ar_order"].get<int>());
+    EXPECT_EQ(n, j["n_obs"].get<int>() - c["ar_order"].get<int>() -
+                     c["extra_differences"].get<int>());
+    // As in the screen: the two weather columns are prewhitened, the tariff step (an event) is
+    // not; a single step in this undifferenced model is differenced once into a pulse.
+    const bool event = i == 2;
+    EXPECT_EQ(c["prewhitened"].get<bool>(), !event);
+    EXPECT_EQ(c["input_kind"], event ? "event" : "column");
+    EXPECT_EQ(c["extra_differences"].get<int>(), event ? 1 : 0);
+    if (event) EXPECT_EQ(c["ar_order"].get<int>(), 0);
+    else EXPECT_GE(c["ar_order"].get<int>(), 1);
     const int L = std::min(24, n / 4);
     ASSERT_EQ(c["lags"].size(), size_t(2 * L + 1));
     ASSERT_EQ(c["values"].size(), size_t(2 * L + 1));

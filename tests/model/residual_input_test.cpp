@@ -1,8 +1,9 @@
-// Cross-correlation of residuals with each prewhitened input (the check of the transfer-function
-// part). Against R (tests/reference/residual_ccf/, residuals from stats::arima, AR fits by lm,
-// stats::ccf, stats::pchisq): the function on R's own residuals to rounding, and the diagnostics
-// of our Series M fits to the agreement of the two ML optima. Then seeded simulations: a correct
-// delay passes, a wrong one shows its missing lag.
+// Cross-correlation of residuals with each input (the check of the transfer-function part;
+// columns prewhitened, events and indicator columns not). Against R (tests/reference/residual_ccf/,
+// residuals from stats::arima, AR fits by lm, stats::ccf, stats::pchisq): the function on R's own
+// residuals to rounding, and the diagnostics of our Series M fits to the agreement of the two ML
+// optima. Then seeded simulations: a correct delay passes, a wrong one shows its missing lag, for
+// a column and for a step event.
 #include "model/residual_input.h"
 
 #include <gtest/gtest.h>
@@ -182,6 +183,107 @@ TEST(ResidualInputCorrelation, WrongDelayShowsItsLagAndTheRightOneDoesNot) {
   // Under the correct model the test holds its level: at most 3 of 20 below 0.05 (a binomial
   // tail of 7.5% at the nominal 5%), at most 1 below 0.01.
   EXPECT_LE(right_below_05, 3);
+  EXPECT_LE(right_flagged, 1);
+}
+
+// Truth: y = 2 + 0.8 x + `size` B^`delay` step_t + n, (1 - 0.5 B) n = a, x AR(1) 0.6, step at row 150,
+// n = 300 (undifferenced: the step stays a step).
+SimulationSpec step_model(std::uint64_t seed, int delay, double size) {
+  SimulationSpec sim;
+  sim.n = 300;
+  sim.seed = seed;
+  sim.constant = 2.0;
+  sim.noise.p = 1;
+  sim.phi = {0.5};
+  SimulatedInput x;
+  x.name = "x";
+  x.order = {0, 0, 0};
+  x.params.omega = {0.8};
+  x.ar = 0.6;
+  SimulatedInput step;
+  step.name = "step";
+  step.is_event = true;
+  step.shape = EventShape::step;
+  step.at_row = 150;
+  step.order = {delay, 0, 0};
+  step.params.omega = {size};
+  sim.inputs = {x, step};
+  return sim;
+}
+
+FitResult fit_step_model(const SeriesData& data, int step_delay) {
+  ModelSpec spec;
+  spec.inputs = {{"x", {0, 0, 0}}, {"step", {step_delay, 0, 0}}};
+  spec.noise.p = 1;
+  return fit_model(make_problem(data, spec, 2));
+}
+
+TEST(ResidualInputCorrelation, EventsAndIndicatorColumnsAreNotPrewhitenedAsInTheScreen) {
+  const SeriesData data = simulate(step_model(3, 0, 3.0));
+  ASSERT_TRUE(data.is_event(1));
+  const FitResult fit = fit_step_model(data, 0);
+  ASSERT_EQ(fit.status, FitStatus::ok) << fit.message;
+  ASSERT_EQ(fit.diagnostics.residual_input.size(), 2u);
+  const auto& x = fit.diagnostics.residual_input[0];
+  const auto& step = fit.diagnostics.residual_input[1];
+  // The AR(1) column is prewhitened (AIC finds its autocorrelation).
+  EXPECT_TRUE(x.prewhitened);
+  EXPECT_FALSE(x.kind.deterministic());
+  EXPECT_GE(x.ar_order, 1);
+  EXPECT_EQ(x.n, fit.n_obs - x.ar_order);
+  // The event is not, and being a single step it is differenced once into a pulse.
+  EXPECT_FALSE(step.prewhitened);
+  EXPECT_TRUE(step.kind.is_event);
+  EXPECT_EQ(step.ar_order, 0);
+  EXPECT_EQ(step.extra_differences, 1);
+  EXPECT_EQ(step.n, fit.n_obs - 1);
+  EXPECT_EQ(describe_treatment(step.kind, step.prewhitened, step.ar_order),
+            "event, not prewhitened");
+  // Against a pulse at row p, r(k) is the correlation of the residual series with a single
+  // spike: (e_{p+k} - mean) / sqrt(sum (e - mean)^2) times sqrt(m / (m - 1)) (the spike's sd).
+  // Checked from the definition here, not through ccf().
+  const int pulse = 150 - fit.start - 1;  // the step's row in the differenced, shortened sample
+  const std::vector<double> e(fit.residuals.begin() + 1, fit.residuals.end());
+  const double m = static_cast<double>(e.size());
+  double mean = 0.0, ss = 0.0;
+  for (double v : e) mean += v / m;
+  for (double v : e) ss += (v - mean) * (v - mean);
+  for (int k = 0; k <= 3; ++k) {
+    const double want = (e[pulse + k] - mean) / std::sqrt(ss) * std::sqrt(m / (m - 1.0));
+    EXPECT_NEAR(step.values[k + step.max_lag], want, 2e-3) << "lag " << k;
+  }
+
+  // The same step read as a data column (no event flag): recognised as an indicator column.
+  SeriesData column = data;
+  column.input_is_event.clear();
+  const FitResult as_column = fit_step_model(column, 0);
+  ASSERT_EQ(as_column.diagnostics.residual_input.size(), 2u);
+  const auto& ind = as_column.diagnostics.residual_input[1];
+  EXPECT_FALSE(ind.prewhitened);
+  EXPECT_EQ(ind.kind.indicator, IndicatorShape::step);
+  EXPECT_EQ(describe_treatment(ind.kind, ind.prewhitened, ind.ar_order),
+            "indicator column (step), not prewhitened");
+  EXPECT_EQ(ind.values, step.values);
+}
+
+TEST(ResidualInputCorrelation, AStepAtTheWrongDelayLeavesItsResponseRightAfterTheEvent) {
+  // The step acts two rows after its date; a fit at delay 0 leaves about -8 and -4 (sd 1) in
+  // the residuals of the event's two rows, which the unprewhitened check sees at lag 0 (the right
+  // fit leaves nothing).
+  int right_flagged = 0;
+  for (int seed = 1; seed <= 5; ++seed) {
+    SCOPED_TRACE("seed " + std::to_string(seed));
+    const SeriesData data = simulate(step_model(static_cast<std::uint64_t>(seed), 2, 8.0));
+    const FitResult wrong = fit_step_model(data, 0);
+    const FitResult right = fit_step_model(data, 2);
+    ASSERT_EQ(wrong.diagnostics.residual_input.size(), 2u);
+    ASSERT_EQ(right.diagnostics.residual_input.size(), 2u);
+    const auto& w = wrong.diagnostics.residual_input[1];
+    EXPECT_EQ(w.largest_lag, 0);
+    EXPECT_LT(w.p_value, 1e-4);
+    EXPECT_TRUE(has_warning(wrong, "step"));
+    right_flagged += right.diagnostics.residual_input[1].p_value < 0.01 ? 1 : 0;
+  }
   EXPECT_LE(right_flagged, 1);
 }
 

@@ -48,7 +48,7 @@ TEST(OutlierNile, LevelShiftFoundAutomaticallyAndMatchesArimaWithStep) {
   EXPECT_NEAR(result.fit.params.phi[0], ref["ar1"].get<double>(), 1e-3);
   EXPECT_NEAR(result.fit.params.constant, ref["intercept"].get<double>(),
               1e-4 * ref["intercept"].get<double>());
-  // The effect's residual-input check is left out (a prewhitened step means nothing).
+  // The effect's residual-input check is left out (it sits where the residuals were largest).
   EXPECT_TRUE(result.fit.diagnostics.residual_input.empty());
 }
 

@@ -102,6 +102,59 @@ std::string layout_check(const fs::path& page, const fs::path& work) {
   return out.substr(from, out.find("</pre>", from) - from);
 }
 
+// Lays `page` out at 1,280 px and measures every chart's text: "charts=N titles=[...]
+// problems=[...]", a problem being a label that sticks out of its chart or two x-axis tick labels
+// that overlap. The titles let a test see which charts were drawn.
+std::string chart_text_check(const fs::path& page, const fs::path& work) {
+  const std::string script = R"(<script>
+(function () {
+  var bad = [], titles = [], charts = document.querySelectorAll('svg.chart');
+  charts.forEach(function (svg, i) {
+    var t = svg.querySelector('title'), name = t ? t.textContent.slice(0, 40) : 'chart ' + i;
+    titles.push(name);
+    var box = svg.getBoundingClientRect();
+    var ticks = [];
+    svg.querySelectorAll('text').forEach(function (el) {
+      var r = el.getBoundingClientRect();
+      if (r.width === 0) return;
+      if (r.left < box.left - 0.5 || r.right > box.right + 0.5 || r.top < box.top - 0.5 ||
+          r.bottom > box.bottom + 0.5)
+        bad.push(name + ': "' + el.textContent + '" outside the chart');
+      if (el.parentElement.getAttribute('class') === 'axes' && el.getAttribute('text-anchor') === 'middle')
+        ticks.push({r: r, text: el.textContent});
+    });
+    ticks.sort(function (a, b) { return a.r.left - b.r.left; });
+    for (var k = 1; k < ticks.length; ++k)
+      if (Math.abs(ticks[k].r.top - ticks[k - 1].r.top) < 1 && ticks[k].r.left < ticks[k - 1].r.right)
+        bad.push(name + ': ticks "' + ticks[k - 1].text + '" and "' + ticks[k].text + '" overlap');
+  });
+  var m = document.createElement('pre');
+  m.id = 'chart-check';
+  m.textContent = 'charts=' + charts.length + ' titles=[' + titles.join('; ') + '] problems=[' +
+    bad.join('; ') + ']';
+  document.body.appendChild(m);
+})();
+</script>)";
+  std::string html = slurp(page);
+  html.replace(html.rfind("</body>"), 7, script + "</body>");
+  const fs::path probe = work / "chart_probe.html";
+  test::write_text(probe, html);
+  const fs::path dom = work / "chart_dom.html";
+  const std::string cmd =
+      "timeout 90 " + kChromium.string() +
+      " --headless --no-sandbox --disable-gpu --no-first-run --hide-scrollbars"
+      " --disable-background-networking --disable-component-update --disable-sync"
+      " --disable-dev-shm-usage --window-size=1280,3000 --user-data-dir=" +
+      (work / "profile").string() + " --dump-dom file://" + probe.string() + " > " + dom.string() +
+      " 2>/dev/null";
+  if (std::system(cmd.c_str()) != 0) return "chromium failed";
+  const std::string out = slurp(dom);
+  const auto at = out.find("<pre id=\"chart-check\">");
+  if (at == std::string::npos) return "no measurement";
+  const auto from = out.find('>', at) + 1;
+  return out.substr(from, out.find("</pre>", from) - from);
+}
+
 class Browser : public ::testing::Test {
  protected:
   void SetUp() override {
@@ -167,6 +220,31 @@ TEST_F(Browser, RevalidationReportFitsThePageAt1280Pixels) {
   ASSERT_EQ(r.exit_code, 0) << r.log;
   EXPECT_FALSE(console_error(r.log)) << r.log;
   EXPECT_GT(slurp(png).size(), 20000u);
+}
+
+// Every chart of the report, those of the past included, keeps its labels inside and its x-axis
+// ticks apart.
+TEST_F(Browser, ChartLabelsStayInsideTheirChartAndTicksDoNotOverlap) {
+  const std::string check = chart_text_check(page, work);
+  EXPECT_NE(check.find("problems=[]"), std::string::npos) << check;
+  for (const char* title : {"Fitted values (one step ahead)", "Residuals over time",
+                            "Which input moved the target when", "Residual quantiles against"})
+    EXPECT_NE(check.find(title), std::string::npos) << title << " not drawn: " << check;
+}
+
+// The chart check can fail: overlapping tick labels and a label beyond the edge are caught.
+TEST_F(Browser, DetectsOverlappingTicksAndCutLabels) {
+  const fs::path page_file = work / "ticks.html";
+  test::write_text(page_file,
+                   "<!DOCTYPE html><html><body><svg class=\"chart\" width=\"300\" height=\"100\" "
+                   "font-size=\"12\"><title>crowded</title><g class=\"axes\">"
+                   "<text x=\"100\" y=\"80\" text-anchor=\"middle\">2024-01-01</text>"
+                   "<text x=\"120\" y=\"80\" text-anchor=\"middle\">2024-01-02</text>"
+                   "<text x=\"298\" y=\"80\" text-anchor=\"middle\">2024-01-03</text>"
+                   "</g></svg></body></html>");
+  const std::string check = chart_text_check(page_file, work);
+  EXPECT_NE(check.find("\"2024-01-01\" and \"2024-01-02\" overlap"), std::string::npos) << check;
+  EXPECT_NE(check.find("\"2024-01-03\" outside the chart"), std::string::npos) << check;
 }
 
 // The layout check can fail: a table of 40 wide columns is caught, outside a scrolling box anywhere

@@ -69,6 +69,11 @@ TEST(ScreenCommand, TablePrintsSuggestionAndBands) {
   EXPECT_NE(r.out.find(" family "), std::string::npos) << r.out;
   EXPECT_EQ(r.out.find("-1                   0"), std::string::npos) << r.out;
   EXPECT_EQ(r.out.find("0.0000"), std::string::npos) << r.out;  // weights keep their size
+  // One glyph, one meaning: the bar's sign is the number's ASCII minus, bands are written with
+  // one plus-minus sign, and the legend explains the bar.
+  EXPECT_EQ(r.out.find("\u2212"), std::string::npos) << r.out;
+  EXPECT_EQ(r.out.find("+-"), std::string::npos) << r.out;
+  EXPECT_NE(r.out.find("bar: the sign of r(k), then one cell per 0.1 of |r(k)|"), std::string::npos);
   EXPECT_NE(r.out.find("noise: suggested p = 0, q = 1"), std::string::npos);
 }
 
