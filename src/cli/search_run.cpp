@@ -193,6 +193,10 @@ int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
         "{:.1f} s on {} common observations; rows: {}\n",
         r.series, to_string(config.search.strategy), r.rows.size(), r.fitted, r.resumed, failed,
         r.seconds, r.rows.empty() ? 0 : r.rows.front().n_obs, r.sorted_by);
+    if (r.stages.size() > 1 || (!r.stages.empty() && !r.stages.front().skipped.empty())) {
+      fmt::print("  of a grid of {} candidates:\n", r.full_grid_size);
+      for (const auto& line : stage_lines(r.stages)) fmt::print("    {}\n", line);
+    }
     const size_t shown = std::min<size_t>(r.rows.size(), 10);
     size_t width = 5;  // the model column fits the longest label shown
     for (size_t i = 0; i < shown; ++i) width = std::max(width, r.rows[i].key.size());

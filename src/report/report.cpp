@@ -198,6 +198,7 @@ struct LeaderboardRow {
 struct SeriesNote {
   std::string sorted_by, leader_reason;
   std::vector<std::string> warnings;
+  std::vector<std::string> stages;  // what each search stage fitted and skipped, in words
 };
 
 struct Leaderboard {
@@ -252,6 +253,19 @@ Leaderboard read_leaderboard(const fs::path& file) {
       if (n.contains("warnings"))
         for (const auto& w : f.array(n, "warnings", path))
           note.warnings.push_back(w.is_string() ? w.get<std::string>() : w.dump());
+      if (n.contains("search") && n["search"].is_object() && n["search"].contains("stages") &&
+          n["search"]["stages"].is_array())
+        for (const auto& st : n["search"]["stages"]) {
+          if (!st.is_object()) continue;
+          std::string line = fmt::format("{}: {} fitted", st.value("stage", "?"), st.value("fitted", 0));
+          if (st.value("from_journal", 0) > 0)
+            line += fmt::format(", {} from the journal", st.value("from_journal", 0));
+          if (st.contains("skipped") && st["skipped"].is_array())
+            for (const auto& k : st["skipped"])
+              if (k.is_object() && k.value("count", 0LL) > 0)
+                line += fmt::format("; {} skipped: {}", k.value("count", 0LL), k.value("reason", ""));
+          note.stages.push_back(line);
+        }
       lb.notes[f.text(n, "series", path)] = std::move(note);
     }
   return lb;
@@ -777,6 +791,9 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
   if (note != lb.notes.end()) {
     if (!note->second.leader_reason.empty())
       s.blocks.push_back(HtmlNotice{Tone::neutral, "Why this leader", note->second.leader_reason});
+    if (!note->second.stages.empty())
+      s.blocks.push_back(HtmlNotice{Tone::neutral, "What the search fitted and skipped",
+                                    join(note->second.stages, ". ") + "."});
     for (const auto& w : note->second.warnings)
       s.blocks.push_back(HtmlNotice{Tone::warning, "Warning", w});
   }

@@ -59,7 +59,12 @@ nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const Run
       j["series_notes"].push_back({{"series", r.series},
                                    {"sorted_by", r.sorted_by},
                                    {"leader_reason", r.leader_reason},
-                                   {"warnings", r.warnings}});
+                                   {"warnings", r.warnings},
+                                   {"search", {{"grid_size", r.full_grid_size},
+                                               {"considered", r.grid_size},
+                                               {"fitted", r.fitted},
+                                               {"from_journal", r.resumed},
+                                               {"stages", stages_json(r.stages)}}}});
   }
   return j;
 }

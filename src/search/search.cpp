@@ -19,6 +19,8 @@
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
 #include "search/candidates.h"
+#include "search/evaluator.h"
+#include "search/guided.h"
 #include "search/search_outliers.h"
 
 namespace lagsieve {
@@ -96,6 +98,11 @@ CandidateRow candidate_row_from_json(const json& j, const ModelSpec& spec) {
   r.ljung_box_p = num_from(j, "ljung_box_p");
   r.seconds = num_from(j, "seconds");
   r.evaluations = j.value("evaluations", 0);
+  if (j.contains("nonlinear") && j["nonlinear"].is_array())
+    for (const auto& v : j["nonlinear"])
+      if (v.is_number()) r.nonlinear.push_back(v.get<double>());
+  // Estimates of another spec's size (a damaged row) are not a usable start.
+  if (r.nonlinear.size() != nonlinear_names(spec).size()) r.nonlinear.clear();
   return r;
 }
 
@@ -113,35 +120,51 @@ void rank_rows(std::vector<CandidateRow>& rows, Criterion criterion) {
   for (size_t i = 0; i < rows.size(); ++i) rows[i].rank = static_cast<int>(i) + 1;
 }
 
-CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start) {
+namespace {
+
+CandidateRow row_of(const SeriesData& data, const ModelSpec& spec) {
   CandidateRow row;
   row.series = data.target_name;
   row.key = candidate_key(spec);
   row.spec = spec;
+  return row;
+}
+
+void fit_into(CandidateRow& row, const LikelihoodProblem& problem,
+              const std::optional<ModelParams>& warm) {
+  FitOptions options;
+  options.standard_errors = false;
+  options.residual_input_check = false;
+  options.warm_start = warm;
+  const FitResult fit = fit_model(problem, options);
+  row.status = fit.status;
+  row.message = fit.message;
+  row.loglik = fit.loglik;
+  row.aic = fit.aic;
+  row.aicc = fit.aicc;
+  row.bic = fit.bic;
+  row.n_obs = fit.n_obs;
+  row.n_params = fit.n_params;
+  row.seconds = fit.seconds;
+  row.evaluations = fit.evaluations;
+  if (!fit.diagnostics.ljung_box.empty())
+    row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
+  for (const auto& w : fit.diagnostics.warnings)
+    if (w.rfind("near_cancellation", 0) == 0 && fit.usable()) {
+      row.status = FitStatus::rejected;
+      row.message = w;
+    }
+  if (!fit.usable()) row.loglik = row.aic = row.aicc = row.bic = std::nan("");
+  if (fit.usable()) row.nonlinear = pack_nonlinear(problem.spec, fit.params);
+}
+
+}  // namespace
+
+CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start,
+                           const std::optional<ModelParams>& warm) {
+  CandidateRow row = row_of(data, spec);
   try {
-    const auto problem = make_problem(data, spec, start);
-    FitOptions options;
-    options.standard_errors = false;
-    options.residual_input_check = false;
-    const FitResult fit = fit_model(problem, options);
-    row.status = fit.status;
-    row.message = fit.message;
-    row.loglik = fit.loglik;
-    row.aic = fit.aic;
-    row.aicc = fit.aicc;
-    row.bic = fit.bic;
-    row.n_obs = fit.n_obs;
-    row.n_params = fit.n_params;
-    row.seconds = fit.seconds;
-    row.evaluations = fit.evaluations;
-    if (!fit.diagnostics.ljung_box.empty())
-      row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
-    for (const auto& w : fit.diagnostics.warnings)
-      if (w.rfind("near_cancellation", 0) == 0 && fit.usable()) {
-        row.status = FitStatus::rejected;
-        row.message = w;
-      }
-    if (!fit.usable()) row.loglik = row.aic = row.aicc = row.bic = std::nan("");
+    fit_into(row, make_problem(data, spec, start), warm);
   } catch (const std::exception& e) {
     // Bad data for this candidate only (e.g. an input constant over the sample): a failure row.
     row.status = FitStatus::numerical_failure;
@@ -150,63 +173,17 @@ CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int st
   return row;
 }
 
-namespace {
-
-class Evaluator {
- public:
-  Evaluator(const SeriesData& data, int start, const SearchOptions& options, int threads)
-      : data_(data), start_(start), options_(options), threads_(threads) {}
-
-  // Fits every spec not seen before (journal rows are reused); returns their rows in input order.
-  std::vector<CandidateRow> evaluate(const std::vector<ModelSpec>& specs, int total_hint) {
-    std::vector<CandidateRow> out(specs.size());
-    std::vector<size_t> todo;
-    for (size_t i = 0; i < specs.size(); ++i) {
-      const std::string key = candidate_key(specs[i]);
-      const json* j = options_.journal ? options_.journal->find(data_.target_name, key) : nullptr;
-      if (j) {
-        out[i] = candidate_row_from_json(*j, specs[i]);
-        ++resumed_;
-        report(total_hint);
-      } else {
-        todo.push_back(i);
-      }
-    }
-    run_in_arena(threads_, [&] {
-      tbb::parallel_for(tbb::blocked_range<size_t>(0, todo.size(), 1), [&](const auto& range) {
-        for (size_t k = range.begin(); k != range.end(); ++k) {
-          const size_t i = todo[k];
-          out[i] = fit_candidate(data_, specs[i], start_);
-          if (options_.journal) options_.journal->append(to_json(out[i]));
-          report(total_hint);
-        }
-      });
-    });
-    fitted_ += static_cast<int>(todo.size());
-    return out;
+CandidateRow fit_candidate(const SeriesData& data, const LikelihoodProblem& problem,
+                           const std::optional<ModelParams>& warm) {
+  CandidateRow row = row_of(data, problem.spec);
+  try {
+    fit_into(row, problem, warm);
+  } catch (const std::exception& e) {
+    row.status = FitStatus::numerical_failure;
+    row.message = e.what();
   }
-
-  int fitted() const { return fitted_; }
-  int resumed() const { return resumed_; }
-
- private:
-  void report(int total) {
-    if (!options_.progress) return;
-    std::lock_guard lock(mutex_);
-    options_.progress(++done_, total);
-  }
-
-  const SeriesData& data_;
-  int start_;
-  const SearchOptions& options_;
-  int threads_;
-  std::mutex mutex_;
-  int done_ = 0;
-  int fitted_ = 0;
-  int resumed_ = 0;
-};
-
-}  // namespace
+  return row;
+}
 
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options) {
@@ -219,6 +196,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
 
   if (config.search.strategy != Strategy::exhaustive) result.screen = screen_series(data, config);
 
+  result.full_grid_size = grid_size(grid);
   if (config.search.strategy == Strategy::stepwise) {
     // Greedy moves from the screen's suggestion; every neighbour of the current model is fitted
     // (in parallel), the best strictly better one becomes current, until none improves or the
@@ -247,6 +225,27 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
       current = best.spec;
     }
     result.grid_size = static_cast<long long>(seen.size());
+    StageReport steps =
+        stage_named("stepwise", "single moves from the screen's suggestion while one improves");
+    steps.fitted = evaluator.fitted();
+    steps.from_journal = evaluator.resumed();
+    steps.skipped = {{"not reached by the moves", result.full_grid_size - result.grid_size}};
+    result.stages.push_back(steps);
+  } else if (config.search.strategy == Strategy::guided && options.staged_guided) {
+    const CandidateGrid g = guided_grid(config, *result.screen);
+    result.grid_size = grid_size(g);
+    StageReport screen = stage_named("screen", "the grid narrowed around the screen's suggestions");
+    screen.skipped = {
+        {"outside the screen's neighbourhood (delay within one of the suggestion, "
+         "orders and noise up to one above it, an optional input without "
+         "significant cross-correlation only left out)",
+         result.full_grid_size - result.grid_size}};
+    StagedSearch staged = staged_search(g, suggested_spec(config, *result.screen),
+                                        config.search.criterion, config.search.budget, evaluator);
+    result.rows = std::move(staged.rows);
+    result.stages.push_back(screen);
+    for (auto& s : staged.stages) result.stages.push_back(std::move(s));
+    for (auto& w : staged.warnings) result.warnings.push_back(std::move(w));
   } else {
     const CandidateGrid g =
         config.search.strategy == Strategy::guided ? guided_grid(config, *result.screen) : grid;
@@ -255,9 +254,22 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
       throw InputError(fmt::format(
           "{}: search.budget: the {} grid has {} candidates, more than the budget of {}; raise "
           "search.budget, narrow the ranges, or use `strategy: stepwise`",
-          config.config_file.filename().string(), to_string(config.search.strategy), result.grid_size,
-          config.search.budget));
+          config.config_file.filename().string(), to_string(config.search.strategy),
+          result.grid_size, config.search.budget));
+    const auto t_grid = std::chrono::steady_clock::now();
     result.rows = evaluator.evaluate(enumerate(g), static_cast<int>(result.grid_size));
+    if (config.search.strategy == Strategy::guided) {
+      StageReport screen =
+          stage_named("screen", "the grid narrowed around the screen's suggestions");
+      screen.skipped = {
+          {"outside the screen's neighbourhood", result.full_grid_size - result.grid_size}};
+      result.stages.push_back(screen);
+    }
+    StageReport all = stage_named("grid", "every candidate of the grid");
+    all.fitted = evaluator.fitted();
+    all.from_journal = evaluator.resumed();
+    all.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t_grid).count();
+    result.stages.push_back(all);
   }
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
@@ -323,9 +335,10 @@ namespace lagsieve {
 
 std::string run_fingerprint(const RunConfig& config, const std::vector<SeriesData>& series) {
   // Only what a candidate's fit depends on: the data (values and time stamps), how they are
-  // read, the target's transform, the differencing, the filter start (fit.filter_start), the inputs and
-  // events, and the common sample start the grid implies. Comments, layout, the strategy, budget, threads, backtest, forecast
-  // and output sections do not change a candidate's result, so they do not block a resume.
+  // read, the target's transform, the differencing, the filter start (fit.filter_start), the inputs
+  // and events, and the common sample start the grid implies. Comments, layout, the strategy,
+  // budget, threads, backtest, forecast and output sections do not change a candidate's result, so
+  // they do not block a resume.
   std::string all = fmt::format("v3|time={}|missing={}|", config.data.time,
                                 static_cast<int>(config.data.missing));
   for (const auto& c : config.target.columns) all += "target=" + c + ";";

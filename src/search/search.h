@@ -16,6 +16,7 @@
 #include "outliers/effects.h"
 #include "screen/screen.h"
 #include "search/journal.h"
+#include "search/stages.h"
 
 namespace lagsieve {
 
@@ -43,6 +44,9 @@ struct CandidateRow {
   // Names of the detected effects fitted with this row (search_outliers.h); empty: fitted
   // without. `spec` and `key` stay those of the candidate itself.
   std::vector<std::string> effects;
+  // Nonlinear estimates in natural coordinates (pack_nonlinear order) of a usable fit: the warm
+  // start of neighbouring candidates in a staged search; kept in the journal, not in rankings.
+  std::vector<double> nonlinear;
 
   double criterion(Criterion c) const {
     return c == Criterion::aic ? aic : c == Criterion::aicc ? aicc : bic;
@@ -62,6 +66,9 @@ struct SearchOptions {
   Journal* journal = nullptr;  // rows found there are reused; new rows are appended
   // Called after every finished candidate (from worker threads, serialised by the search).
   std::function<void(int done, int total)> progress;
+  // guided: true fits in stages (search/guided.h); false fits the whole guided grid, as the
+  // strategy did before (benchmarks and checks compare the two).
+  bool staged_guided = true;
 };
 
 // Outlier detection in a search (config `outliers`; search_outliers.h): one detection on the
@@ -84,6 +91,8 @@ struct SearchResult {
   long long grid_size = 0;         // candidates the strategy considered
   int fitted = 0;                  // fitted in this run
   int resumed = 0;                 // taken from the journal
+  long long full_grid_size = 0;    // candidates of the config's whole grid
+  std::vector<StageReport> stages;  // what each stage fitted and skipped (stages.h)
   double seconds = 0.0;
   std::optional<ScreenResult> screen;  // guided and stepwise
   FitResult leader;                    // the top row re-fitted with standard errors
@@ -99,8 +108,13 @@ struct SearchResult {
 // Ranks rows in place: rankable rows by criterion (ties by key), then rejected, then failures.
 void rank_rows(std::vector<CandidateRow>& rows, Criterion criterion);
 
-// Fits one candidate into a row (never throws for numerical trouble; bad data is a failure row).
-CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start);
+// Fits one candidate into a row (never throws for numerical trouble; bad data is a failure row),
+// from `warm` when given (FitOptions::warm_start), else from the regression start values.
+CandidateRow fit_candidate(const SeriesData& data, const ModelSpec& spec, int start,
+                           const std::optional<ModelParams>& warm = std::nullopt);
+// The same on a problem already built for the candidate (problem.spec is the candidate).
+CandidateRow fit_candidate(const SeriesData& data, const LikelihoodProblem& problem,
+                           const std::optional<ModelParams>& warm);
 
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options);
