@@ -175,6 +175,7 @@ class Evaluator {
     run_in_arena(threads_, [&] {
       tbb::parallel_for(tbb::blocked_range<size_t>(0, todo.size(), 1), [&](const auto& range) {
         for (size_t k = range.begin(); k != range.end(); ++k) {
+          if (cancelled()) return;  // the rest are skipped; Cancelled is thrown below
           const size_t i = todo[k];
           out[i] = fit_candidate(data_, specs[i], start_);
           if (options_.journal) options_.journal->append(to_json(out[i]));
@@ -182,6 +183,7 @@ class Evaluator {
         }
       });
     });
+    check_cancel(options_.cancel);
     fitted_ += static_cast<int>(todo.size());
     return out;
   }
@@ -190,6 +192,7 @@ class Evaluator {
   int resumed() const { return resumed_; }
 
  private:
+  bool cancelled() const { return options_.cancel && options_.cancel->load(); }
   void report(int total) {
     if (!options_.progress) return;
     std::lock_guard lock(mutex_);
@@ -208,8 +211,13 @@ class Evaluator {
 
 }  // namespace
 
+void check_cancel(const std::atomic<bool>* cancel) {
+  if (cancel && cancel->load()) throw Cancelled();
+}
+
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options) {
+  check_cancel(options.cancel);
   const auto t0 = std::chrono::steady_clock::now();
   SearchResult result;
   result.series = data.target_name;
@@ -262,6 +270,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
   rank_rows(result.rows, config.search.criterion);
+  check_cancel(options.cancel);
   if (config.outliers.enabled) detect_on_shortlist(data, config, result, options.threads);
 
   // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;

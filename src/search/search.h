@@ -1,6 +1,7 @@
 #pragma once
 // The model search: candidates from the config, fitted in parallel (TBB) on one common sample,
 // ranked by an information criterion, every outcome a row; a journal makes runs resumable.
+#include <atomic>
 #include <filesystem>
 #include <functional>
 #include <limits>
@@ -62,7 +63,13 @@ struct SearchOptions {
   Journal* journal = nullptr;  // rows found there are reused; new rows are appended
   // Called after every finished candidate (from worker threads, serialised by the search).
   std::function<void(int done, int total)> progress;
+  // Set (from any thread) to stop: checked before every candidate; the search then throws
+  // Cancelled (core/error.h) once the candidates already running have finished.
+  const std::atomic<bool>* cancel = nullptr;
 };
+
+// Throws Cancelled when `cancel` is set (a null flag never cancels).
+void check_cancel(const std::atomic<bool>* cancel);
 
 // Outlier detection in a search (config `outliers`; search_outliers.h): one detection on the
 // criterion leader, its set shared by every shortlisted candidate.
