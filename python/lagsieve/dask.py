@@ -76,6 +76,8 @@ def search_one(config_text, config_name, key_value, key, rows, threads=1, backte
         # is the same for every series of a panel).
         ranking = ranking.drop(columns=[key], errors="ignore")
         ranking.insert(0, key, key_value)
+        if "series" in ranking.columns and key != "series":
+            ranking["series"] = str(key_value)  # as the core's panel names a series: its key
         row["candidates"] = len(ranking)
         leader = result.leader
         if leader is None:
@@ -147,9 +149,17 @@ def search_panel(config, frame, key=None, threads=1, backtest=True):
 
 
 def search_partition(config_text, config_name, key, partition, threads=1, backtest=True):
-    """Every series of one partition of a Dask DataFrame: [(key value, summary row, ranking)]."""
-    return [(value,) + search_one(config_text, config_name, value, key, part, threads, backtest)
-            for value, part in _split(partition, key)]
+    """Every series of one partition of a Dask DataFrame: [(key value, summary row, ranking)].
+    Partitioning by the key (set_index) does not keep the order of the rows within a series, so
+    each series' rows are put back in time order (a stable sort on the config's data.time)."""
+    time = lagsieve._core.config_time_column(config_text, config_name)
+    out = []
+    for value, part in _split(partition, key):
+        if time and time in part.columns:
+            part = part.sort_values(time, kind="mergesort").reset_index(drop=True)
+        out.append((value,) + search_one(config_text, config_name, value, key, part, threads,
+                                         backtest))
+    return out
 
 
 def _gather_partitions(results, key):
