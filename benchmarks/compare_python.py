@@ -3,7 +3,9 @@
 
     PYTHONPATH=build/python /usr/bin/python3 benchmarks/compare_python.py --binary build/lagsieve
     ... --panel 200      # also: a 200-series panel on a 2-worker LocalCluster against the CLI
-                         # searching the same series as one run on 2 threads
+                         # searching the same series as one run on 2 threads, and the long
+                         # frame in one lagsieve.search call (data.series_key) against the
+                         # CLI's search of the same long file
 
 Data: simulated with a fixed seed, n = 500, two inputs (x1: b = 1, s = 1, r = 1; x2: b = 2,
 s = 1, r = 1), ARMA(2,1) noise and a constant, the model of benchmarks/fit_benchmark.cpp.
@@ -134,6 +136,27 @@ def fit_comparison(args):
         print("  %-34s %10.1f" % ("ratio statsmodels / python", sm_time / py_time))
 
 
+def search_comparison(args):
+    """A search through the Ctrl-C watcher (the core runs on a worker thread while the caller
+    polls for signals every 50 ms): the wall time of lagsieve.search against the search's own
+    time (SearchResult.seconds), paired per call."""
+    frame = simulate()
+    config = {**CONFIG, "inputs": [{**CONFIG["inputs"][0], "delay": [0, 2]},
+                                   {**CONFIG["inputs"][1], "delay": [1, 3]}]}
+    lagsieve.search(config, frame, threads=1, backtest=False)  # warm-up
+    walls, cores = [], []
+    for _ in range(max(1, args.repeats // 3)):
+        t0 = time.perf_counter()
+        run = lagsieve.search(config, frame, threads=1, backtest=False)
+        walls.append(time.perf_counter() - t0)
+        cores.append(run.summary[0]["seconds"])
+    wall, core = statistics.median(walls), statistics.median(cores)
+    print("search at n = %d, %d candidates, 1 thread" % (len(frame), run.summary[0]["candidates"]))
+    print("  %-34s %10.3f ms" % ("python lagsieve.search", 1e3 * wall))
+    print("  %-34s %10.3f ms" % ("core search (SearchResult.seconds)", 1e3 * core))
+    print("  %-34s %10.3f" % ("ratio python / core", wall / core))
+
+
 PANEL_CONFIG = {
     "data": {"time": "t"},
     "target": {"column": "y"},
@@ -175,6 +198,15 @@ def panel_comparison(args):
         subprocess.run([args.binary, "search", str(tmp / "panel.yaml"), "--out",
                         str(tmp / "run"), "--quiet"], check=True, capture_output=True)
         cli_time = time.perf_counter() - t0
+        # The long file as one panel run (data.series_key): the CLI's batch.
+        long.to_csv(tmp / "long.csv", index=False)
+        (tmp / "long.yaml").write_text(json.dumps(
+            {**PANEL_CONFIG, "data": {"file": "long.csv", "time": "t", "series_key": "series"},
+             "search": {**PANEL_CONFIG["search"], "threads": 2}}, indent=2))
+        t0 = time.perf_counter()
+        subprocess.run([args.binary, "search", str(tmp / "long.yaml"), "--out",
+                        str(tmp / "long_run"), "--quiet"], check=True, capture_output=True)
+        cli_batch_time = time.perf_counter() - t0
     with LocalCluster(n_workers=2, threads_per_worker=1, processes=True, host="127.0.0.1",
                       dashboard_address=None, silence_logs=40) as cluster, \
             Client(cluster) as client:
@@ -182,12 +214,21 @@ def panel_comparison(args):
         t0 = time.perf_counter()
         result = lagsieve.dask.search_many(PANEL_CONFIG, long, "series", client)
         dask_time = time.perf_counter() - t0
+    # The same long frame in one call in this process (the core's batch, 2 threads).
+    t0 = time.perf_counter()
+    in_process = lagsieve.search({**PANEL_CONFIG, "data": {"time": "t", "series_key": "series"}},
+                                 long, threads=2)
+    one_call = time.perf_counter() - t0
     print("panel of %d series (n = %d, %d candidates each)" % (
         args.panel, n, int(result.summary["candidates"].iloc[0])))
     print("  %-34s %10.3f s" % ("cli search, 2 threads", cli_time))
+    print("  %-34s %10.3f s" % ("cli search of the long file, 2 thr", cli_batch_time))
     print("  %-34s %10.3f s  (%d ok)" % ("dask search_many, 2 workers", dask_time,
                                          int((result.summary["status"] == "ok").sum())))
+    print("  %-34s %10.3f s  (%d ok)" % ("lagsieve.search (series_key), 2 thr", one_call,
+                                         int((in_process.summary["status"] == "ok").sum())))
     print("  %-34s %10.3f" % ("ratio dask / cli", dask_time / cli_time))
+    print("  %-34s %10.3f" % ("ratio lagsieve.search / cli long", one_call / cli_batch_time))
 
 
 def main():
@@ -197,6 +238,7 @@ def main():
     parser.add_argument("--panel", type=int, default=0, help="series of the Dask panel (0: off)")
     args = parser.parse_args()
     fit_comparison(args)
+    search_comparison(args)
     if args.panel:
         if not args.binary:
             sys.exit("--panel needs --binary")

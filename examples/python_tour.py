@@ -47,3 +47,25 @@ print(run.ranking[["rank", "model", "status", "aicc", "backtest_score"]].head(8)
 print(run.leader.params)
 print(run.backtest.head())
 print("run folder:", run.write("runs/bjsales_from_python"))
+
+# %% In a notebook the fit and the run display as tables; the report's charts come as SVG
+# (IPython.display.SVG(fit.chart("forecast")) shows one). Here they are written to files.
+print("charts of the leader:", run.leader.charts())
+with open("runs/bjsales_leader_forecast.svg", "w", encoding="utf-8") as f:
+    f.write(run.leader.chart("forecast"))
+# One-step predictions (past.csv's `fitted`) and what each input contributed to them.
+print(run.leader.past.tail())
+
+# %% Many series from one long-format frame: data.series_key makes the search a panel run, the
+# run folder `lagsieve search` writes for it (Ctrl-C stops it cleanly, as any search).
+panel = pd.read_csv("data/seatbelts_long.csv")
+panel_config = {
+    "data": {"time": "month", "series_key": "series"},
+    "target": {"column": "casualties", "transform": "log"},
+    "differencing": {"seasonal": 1, "period": 12},
+    "inputs": [{"column": "law", "delay": [0, 1]}],
+    "noise": {"ar": [0, 1], "seasonal_ar": [0, 1], "period": 12},
+}
+panel_run = lagsieve.search(panel_config, panel)
+print(panel_run.summary[["series", "status", "reason"]])
+print("panel run folder:", panel_run.write("runs/seatbelts_from_python"))

@@ -12,6 +12,7 @@ place of data.file. The numbers are the CLI's: the DataFrame goes through the sa
     run.ranking, run.leader.params, run.write("runs/from_python")
 """
 
+import difflib
 import io
 import json
 import os
@@ -21,12 +22,13 @@ import pandas as pd
 
 from . import _core
 from ._inputs import config_source, frame_columns, load
+from ._panel import PanelRun
 
 InputError = _core.InputError  # bad input: the CLI's message; a subclass of ValueError
 NumericalError = _core.NumericalError
 
 __all__ = ["fit", "search", "screen", "backtest", "load_model", "forecast", "revalidate", "Fit", "SearchRun",
-           "Model", "InputError", "NumericalError"]
+           "PanelRun", "Model", "InputError", "NumericalError"]
 
 
 def _time_index(times, dated=True):
@@ -70,6 +72,22 @@ def _future_columns(future):
         return {str(c): future[c].to_numpy(dtype=np.float64) for c in future.columns
                 if pd.api.types.is_numeric_dtype(future[c])}
     return {str(k): np.asarray(v, dtype=np.float64) for k, v in dict(future).items()}
+
+
+def _read_chart(folder, name):
+    """charts/<name>.svg; a name that starts only one chart's name stands for it ("forecast"
+    for "forecast_fan")."""
+    names = sorted(os.path.splitext(f)[0] for f in os.listdir(folder) if f.endswith(".svg"))
+    starting = [n for n in names if n.startswith(str(name) + "_")]
+    if name not in names and len(starting) == 1:
+        name = starting[0]
+    if name not in names:
+        close = difflib.get_close_matches(str(name), names, n=1)
+        hint = " (did you mean '%s'?)" % close[0] if close else ""
+        raise InputError("chart '%s' is not drawn for this object%s; its charts are: %s"
+                         % (name, hint, ", ".join(names)))
+    with open(os.path.join(folder, name + ".svg"), encoding="utf-8") as f:
+        return f.read()
 
 
 class Model:
@@ -152,11 +170,13 @@ class Fit:
 
     def _residual_rows(self):
         if self._rows is None:
-            times, resid, fitted = self._core.residual_rows()
+            resid_times, resid, times, fitted, scale = self._core.residual_rows()
             dated = self._doc.get("frequency", "none") != "none"
-            index = _time_index(times, dated)
-            self._rows = (pd.Series(resid, index=index, name="residual"),
-                          pd.Series(fitted, index=index, name="fitted"))
+            fitted = pd.Series(fitted, index=_time_index(times, dated), name="fitted",
+                               dtype="float64")
+            fitted.attrs["scale"] = scale
+            self._rows = (pd.Series(resid, index=_time_index(resid_times, dated),
+                                    name="residual", dtype="float64"), fitted)
         return self._rows
 
     @property
@@ -166,8 +186,41 @@ class Fit:
 
     @property
     def fitted(self):
-        """y_t - e_t on the target's scale (through the inverse transform) on the time index."""
+        """One-step predictions on the time index of the likelihood sample: past.csv's `fitted`
+        column, on the model's scale of the target (after its transform; `.attrs["scale"]`
+        says which), NaN where the target is missing."""
         return self._residual_rows()[1]
+
+    @property
+    def past(self):
+        """The fit's past as past.csv has it: actual, fitted, residual (actual - fitted), one
+        column per input's contribution, noise; on the model's scale, on the time index."""
+        doc = self.to_dict(past=True).get("past")
+        if not doc:
+            return pd.DataFrame()
+        dated = self._doc.get("frequency", "none") != "none"
+        times = [t if t else str(r) for t, r in zip(doc["time"], doc["row"])]
+        cols = {k: doc[k] for k in ("actual", "fitted", "residual")}
+        for c in doc["contributions"]:
+            cols[c["input"]] = c["values"]
+        cols["noise"] = doc["noise"]
+        frame = pd.DataFrame({k: np.array([np.nan if v is None else v for v in vals],
+                                          dtype=np.float64) for k, vals in cols.items()},
+                             index=_time_index(times, dated))
+        frame.attrs["scale"] = doc["scale"]
+        return frame
+
+    def charts(self):
+        """Names of the charts the run report draws for this fit (forecast, past, residual
+        autocorrelation, impulse responses, ...): the names chart() takes."""
+        folder = self._core.chart_dir()
+        return sorted(os.path.splitext(f)[0] for f in os.listdir(folder) if f.endswith(".svg"))
+
+    def chart(self, name):
+        """The report's chart `name` as SVG text (see charts() for the names; the first word
+        suffices when it names one chart: "forecast" for "forecast_fan"); displayed as an
+        image in a notebook cell through IPython.display.SVG."""
+        return _read_chart(self._core.chart_dir(), name)
 
     @property
     def model(self):
@@ -183,8 +236,11 @@ class Fit:
                                              list(levels or []), bool(parameter_uncertainty)))
         return _forecast_frame(doc, self._doc.get("frequency", "none") != "none")
 
-    def to_dict(self):
-        """Everything `lagsieve fit --json` prints."""
+    def to_dict(self, past=False):
+        """Everything `lagsieve fit --json` prints (with `past`, as fit.json of a run folder
+        has it, when asked)."""
+        if past:
+            return json.loads(self._core.json(True))
         return dict(self._doc)
 
     def __repr__(self):
@@ -255,6 +311,16 @@ class SearchRun:
         backtest tables, report). Returns the folder's status: complete or no_usable_candidate."""
         return self._core.write(str(path))
 
+    def charts(self):
+        """Names of the charts of the run's report (what write() puts under charts/)."""
+        folder = self._core.chart_dir()
+        return sorted(os.path.splitext(f)[0] for f in os.listdir(folder) if f.endswith(".svg"))
+
+    def chart(self, name):
+        """The run report's chart `name` as SVG text (the file charts/<name>.svg of the run
+        folder write() gives)."""
+        return _read_chart(self._core.chart_dir(), name)
+
     def __repr__(self):
         return "<lagsieve.SearchRun %s>" % ", ".join(
             "%s: %s" % (s["series"], s["leader"] or "no leader") for s in self._summary)
@@ -276,7 +342,20 @@ def fit(config, data=None, series=None):
 
 def search(config, data=None, threads=None, backtest=True):
     """Searches the candidates of the config (and backtests the shortlist when the config's
-    backtest is on and `backtest` is true). threads=None: the config's search.threads."""
+    backtest is on and `backtest` is true). threads=None: the config's search.threads.
+
+    With data.series_key in the config, the data are a long-format panel (the key column naming
+    each series): every series is searched as `lagsieve search` does, and the result is a
+    PanelRun. Ctrl-C stops a search between candidates (KeyboardInterrupt, nothing written)."""
+    text, name = config_source(config)
+    if _core.config_series_key(text, name):
+        if data is None:
+            core = _core.search_panel_file(text, name, threads, bool(backtest))
+        else:
+            header, columns, told = frame_columns(data, _core.config_time_column(text, name))
+            core = _core.search_panel_table(text, name, told, header, columns, threads,
+                                            bool(backtest))
+        return PanelRun(core)
     return SearchRun(_core.search(load(config, data), threads, bool(backtest)))
 
 

@@ -97,8 +97,9 @@ def load(config, data=None):
     return _core.load_table(text, name, told, header, columns)
 
 
-def load_text(text, name, data):
-    """load() for a config already read to text (what Dask workers receive)."""
+def load_text(text, name, data, one_series=False):
+    """load() for a config already read to text (what Dask workers receive); one_series: the
+    rows of one series of a panel, without the key column (data.series_key is then ignored)."""
     time_column = _core.config_time_column(text, name)
     header, columns, told = frame_columns(data, time_column)
-    return _core.load_table(text, name, told, header, columns)
+    return _core.load_table(text, name, told, header, columns, one_series)

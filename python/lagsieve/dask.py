@@ -11,7 +11,7 @@ mid-run has its series retried elsewhere (`retries`), finished series are kept.
     import lagsieve.dask
     with LocalCluster(n_workers=2, threads_per_worker=1, processes=True) as cluster, \\
          Client(cluster) as client:
-        panel = lagsieve.dask.search_many(config, frame, "store", client)
+        panel = lagsieve.dask.search_many(config, frame, "store", client)  # or a Dask DataFrame
     panel.summary     # one row per series: status, reason, leader, criteria
     panel.ranking     # every candidate of every series (the leaderboard with a key column)
 """
@@ -68,13 +68,16 @@ def search_one(config_text, config_name, key_value, key, rows, threads=1, backte
     row = dict.fromkeys(SUMMARY_COLUMNS)
     row.update(key=key_value, rows=len(rows), candidates=0)
     try:
-        run = lagsieve._core.search(load_text(config_text, config_name, rows), threads, backtest)
+        run = lagsieve._core.search(load_text(config_text, config_name, rows, True), threads,
+                                    backtest)
         result = lagsieve.SearchRun(run)
         ranking = result.ranking
         # The key replaces a leaderboard column of the same name (`series`, the target column,
         # is the same for every series of a panel).
         ranking = ranking.drop(columns=[key], errors="ignore")
         ranking.insert(0, key, key_value)
+        if "series" in ranking.columns and key != "series":
+            ranking["series"] = str(key_value)  # as the core's panel names a series: its key
         row["candidates"] = len(ranking)
         leader = result.leader
         if leader is None:
@@ -94,7 +97,16 @@ def search_one(config_text, config_name, key_value, key, rows, threads=1, backte
         return row, None
 
 
+def _with_key_column(frame, key):
+    """The frame with the key as a column (a frame indexed by the key, as a Dask DataFrame
+    partitioned with set_index(key) is, gets it back as a column)."""
+    if key not in frame.columns and frame.index.name == key:
+        return frame.reset_index()
+    return frame
+
+
 def _split(frame, key):
+    frame = _with_key_column(frame, key)
     if key not in frame.columns:
         raise lagsieve.InputError(
             "panel: key column '%s' is not in the frame; its columns are: %s"
@@ -105,9 +117,29 @@ def _split(frame, key):
     return groups
 
 
-def search_panel(config, frame, key, threads=1, backtest=True):
-    """The panel searched series by series in this process (the reference for search_many)."""
+def _key_of(config_text, config_name, key):
+    if key:
+        return key
+    key = lagsieve._core.config_series_key(config_text, config_name)
+    if not key:
+        raise lagsieve.InputError(
+            "panel: name the series key column (key=...) or set data.series_key in the config")
+    return key
+
+
+def _is_dask_frame(frame):
+    try:
+        import dask.dataframe as dd
+    except ImportError:
+        return False
+    return isinstance(frame, dd.DataFrame)
+
+
+def search_panel(config, frame, key=None, threads=1, backtest=True):
+    """The panel searched series by series in this process (the reference for search_many).
+    key=None: the config's data.series_key."""
     text, name = config_source(config)
+    key = _key_of(text, name, key)
     rows, rankings = [], []
     for value, part in _split(frame, key):
         row, ranking = search_one(text, name, value, key, part, threads, backtest)
@@ -116,13 +148,56 @@ def search_panel(config, frame, key, threads=1, backtest=True):
     return PanelRun(key, rows, rankings)
 
 
-def search_many(config, frame, key, client, threads=1, backtest=True, retries=3):
+def search_partition(config_text, config_name, key, partition, threads=1, backtest=True):
+    """Every series of one partition of a Dask DataFrame: [(key value, summary row, ranking)].
+    Partitioning by the key (set_index) does not keep the order of the rows within a series, so
+    each series' rows are put back in time order (a stable sort on the config's data.time)."""
+    time = lagsieve._core.config_time_column(config_text, config_name)
+    out = []
+    for value, part in _split(partition, key):
+        if time and time in part.columns:
+            part = part.sort_values(time, kind="mergesort").reset_index(drop=True)
+        out.append((value,) + search_one(config_text, config_name, value, key, part, threads,
+                                         backtest))
+    return out
+
+
+def _gather_partitions(results, key):
+    seen = {}
+    for k, found in enumerate(results):
+        for value, row, ranking in found:
+            if value in seen:
+                raise lagsieve.InputError(
+                    "panel: series '%s' has rows in partitions %d and %d of the Dask DataFrame; "
+                    "partition by the key (frame.set_index('%s') or "
+                    "frame.shuffle('%s')) so that each series lies in one partition"
+                    % (value, seen[value][0], k, key, key))
+            seen[value] = (k, row, ranking)
+    ordered = [seen[v] for v in sorted(seen)]
+    return PanelRun(key, [r for _, r, _ in ordered], [g for _, _, g in ordered])
+
+
+def search_many(config, frame, key=None, client=None, threads=1, backtest=True, retries=3):
     """Searches every series of a long panel on the workers of a dask.distributed Client.
 
-    One task per series (threads per search: `threads`, 1 by default since the cluster runs
-    series side by side); results come back in key order, equal to search_panel's. A task lost
-    with its worker is run again up to `retries` times."""
+    `frame`: a pandas DataFrame (one task per series) or a Dask DataFrame partitioned by the
+    series key (one task per partition; each series must lie in one partition, as
+    set_index(key) leaves it). key=None: the config's data.series_key. Threads per search:
+    `threads`, 1 by default since the cluster runs series side by side. Results come back in
+    key order, equal to search_panel's. A task lost with its worker is run again up to
+    `retries` times; finished series are kept."""
+    if client is None:
+        from distributed import get_client
+        client = get_client()
     text, name = config_source(config)  # read here: the workers need not see the config file
+    key = _key_of(text, name, key)
+    if _is_dask_frame(frame):
+        import dask
+        tasks = [dask.delayed(search_partition, pure=False)(text, name, key, part, threads,
+                                                            backtest)
+                 for part in frame.to_delayed()]
+        futures = client.compute(tasks, retries=retries)
+        return _gather_partitions(client.gather(futures), key)
     groups = _split(frame, key)
     futures = [client.submit(search_one, text, name, value, key, part, threads, backtest,
                              key="lagsieve-%s-%d" % (str(value), i), retries=retries, pure=False)

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <yaml-cpp/yaml.h>
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <memory>
@@ -26,6 +27,7 @@
 #include "forecast/forecast.h"
 #include "forecast/model_file.h"
 #include "io/config.h"
+#include "model/past.h"
 #include "model/spec_from_config.h"
 #include "outliers/json.h"
 #include "report/report.h"
@@ -34,6 +36,10 @@
 #include "search/leaderboard.h"
 #include "search/run_dir.h"
 #include "search/run_folder.h"
+#include "search/search_outliers.h"
+#include "interrupt.h"
+#include "objects.h"
+#include "panel.h"
 #include "table.h"
 
 namespace py = pybind11;
@@ -66,11 +72,6 @@ std::string with_data_file(const std::string& text) {
   return std::string(out.c_str()) + "\n";
 }
 
-// A config with the data it describes, loaded as `lagsieve` commands load them.
-struct Run {
-  cli::LoadedRun loaded;
-};
-using RunPtr = std::shared_ptr<const Run>;
 
 RunConfig read_config(const std::string& text, const std::string& name, bool data_in_memory) {
   return parse_config(data_in_memory ? with_data_file(text) : text, name);
@@ -86,9 +87,17 @@ RunPtr load_from_file(const std::string& text, const std::string& name) {
 
 RunPtr load_from_table(const std::string& text, const std::string& name,
                        const std::optional<std::string>& time_column,
-                       const std::vector<std::string>& header, const py::list& columns) {
+                       const std::vector<std::string>& header, const py::list& columns,
+                       bool one_series) {
   auto run = std::make_shared<Run>();
   RunConfig config = read_config(text, name, true);
+  if (one_series) config.data.series_key.clear();  // one series' rows of a panel, key dropped
+  if (!config.data.series_key.empty())
+    throw InputError(fmt::format(
+        "{}: data.series_key: a long-format panel is searched by lagsieve.search (a PanelRun); "
+        "to fit, screen or backtest one series, pass its rows (frame[frame['{}'] == key]) with "
+        "a config without data.series_key",
+        config.config_file.string(), config.data.series_key));
   if (time_column && config.data.time.empty()) config.data.time = *time_column;
   const CsvTable table = table_from_columns(kFrameSource, header, columns);
   for (const auto& column : config.target.columns)
@@ -98,12 +107,6 @@ RunPtr load_from_table(const std::string& text, const std::string& name,
   return run;
 }
 
-// A model with the config it came from (parsed from the config text the model file holds).
-struct Model {
-  FittedModel fitted;
-  RunConfig config;
-};
-using ModelPtr = std::shared_ptr<const Model>;
 
 ModelPtr model_with_config(FittedModel fitted) {
   if (fitted.training.config_text.empty())
@@ -154,54 +157,29 @@ std::string forecast_json(const Model& m, const SeriesData& history, int horizon
   return j.dump();
 }
 
-// One fit (of `fit`, or a search's leader) on its series.
-struct Fit {
-  RunPtr run;
-  size_t series = 0;
-  cli::FitRun result;
-  std::optional<FittedModel> fitted;  // when usable
-
-  const SeriesData& data() const {
-    return result.detected ? result.detected->data : run->loaded.series[series];
-  }
-};
-
-std::string fit_json(const Fit& f) {
-  const SeriesData& data = f.run->loaded.series[f.series];
-  auto j = fit_to_json(f.result.fit);
-  j["series"] = data.target_name;
-  j["frequency"] = data.frequency;
-  j["missing"] = describe_missing(data);
-  const auto& note = f.run->loaded.config.seasonal_note;
-  if (!note.empty()) j["seasonal_note"] = note;
-  if (f.result.detected) j["outliers"] = outliers_to_json(*f.result.detected);
-  return j.dump();
-}
-
-// Residuals on the rows they belong to, and the fitted values y_t - e_t on the target's scale
-// (through the inverse transform when there is one). The residuals are the standardised
-// innovations, so in the first rows of the sample, where the filter has not settled, the fitted
-// value differs slightly from the exact one-step prediction.
+// The fitted values and residuals of the fit on the rows of its likelihood sample, as past.csv
+// has them: the one-step predictions on the model's scale (after the target's transform), NaN
+// where the target is missing; and the standardised innovations on the rows that have one.
 py::tuple residual_rows(const Fit& f) {
   const FitResult& fit = f.result.fit;
-  if (!fit.usable())
-    return py::make_tuple(std::vector<std::string>{}, std::vector<double>{}, std::vector<double>{});
-  const SeriesData& data = f.data();
-  const auto problem = make_problem(data, fit.spec, fit.start);
-  const int lost = data.rows() - static_cast<int>(problem.w.size());
-  std::vector<std::string> times;
+  std::vector<std::string> times, resid_times;
   std::vector<double> fitted;
-  size_t k = 0;
-  for (int i = problem.start; i < static_cast<int>(problem.w.size()); ++i) {
-    if (problem.is_missing(i)) continue;
-    if (k >= fit.residuals.size()) break;
-    const int row = i + lost;
-    times.push_back(data.time.empty() ? std::to_string(row + 1) : data.time[row]);
-    const double z = apply_transform(data.target[row], fit.spec.transform) - fit.residuals[k];
-    fitted.push_back(invert_transform(z, fit.spec.transform));
-    ++k;
+  std::string scale;
+  if (fit.usable()) {
+    const PastFit past = explain_past(f.data(), fit.spec, fit.params, fit.start);
+    scale = past.scale;
+    for (size_t t = 0; t < past.rows.size(); ++t) {
+      const std::string time =
+          past.time.empty() || past.time[t].empty() ? std::to_string(past.rows[t] + 1) : past.time[t];
+      times.push_back(time);
+      fitted.push_back(past.fitted[t]);
+      if (std::isfinite(past.actual[t])) resid_times.push_back(time);
+    }
+    resid_times.resize(std::min(resid_times.size(), fit.residuals.size()));
   }
-  return py::make_tuple(times, fit.residuals, fitted);
+  std::vector<double> resid(fit.residuals.begin(),
+                            fit.residuals.begin() + static_cast<long>(resid_times.size()));
+  return py::make_tuple(resid_times, resid, times, fitted, scale);
 }
 
 std::shared_ptr<Fit> fit_loaded(const RunPtr& run, const std::string& series) {
@@ -226,25 +204,6 @@ std::shared_ptr<Fit> fit_loaded(const RunPtr& run, const std::string& series) {
   return f;
 }
 
-// A finished search: its computation, and the journal its candidates were written to (kept in a
-// private temporary folder until the object goes, copied into every run folder written).
-struct Search {
-  RunPtr run;
-  cli::SearchComputation computed;
-  fs::path scratch;
-  ~Search() {
-    std::error_code ec;
-    if (!scratch.empty()) fs::remove_all(scratch, ec);
-  }
-};
-
-fs::path make_scratch() {
-  std::string pattern = (fs::temp_directory_path() / "lagsieve-py-XXXXXX").string();
-  if (!::mkdtemp(pattern.data()))
-    throw std::runtime_error("cannot create a temporary folder for the search journal");
-  return pattern;
-}
-
 std::shared_ptr<Search> search_loaded(const RunPtr& run, std::optional<int> threads,
                                       bool backtest) {
   auto s = std::make_shared<Search>();
@@ -252,14 +211,14 @@ std::shared_ptr<Search> search_loaded(const RunPtr& run, std::optional<int> thre
   const RunConfig& config = run->loaded.config;
   SearchOptions options;
   options.threads = cli::checked_threads(threads, config.search.threads);
-  s->scratch = make_scratch();
-  {
-    py::gil_scoped_release unlocked;
-    Journal journal(s->scratch / run_files::kJournal, run_fingerprint(config, run->loaded.series),
-                    false);
+  s->scratch = std::make_unique<Scratch>();
+  s->computed = run_interruptible([&](const std::atomic<bool>* cancel) {
+    Journal journal(s->scratch->path() / run_files::kJournal,
+                    run_fingerprint(config, run->loaded.series), false);
     options.journal = &journal;
-    s->computed = cli::compute_search(run->loaded, options, backtest, true);
-  }
+    options.cancel = cancel;
+    return cli::compute_search(run->loaded, options, backtest, true);
+  });
   return s;
 }
 
@@ -268,7 +227,7 @@ std::string write_search(const Search& s, const std::string& out) {
   const RunConfig& config = s.run->loaded.config;
   py::gil_scoped_release unlocked;
   RunDir dir(out, {"search", run_fingerprint(config, s.run->loaded.series), false, "write(dir)"});
-  fs::copy_file(s.scratch / run_files::kJournal, dir.staging() / run_files::kJournal,
+  fs::copy_file(s.scratch->path() / run_files::kJournal, dir.staging() / run_files::kJournal,
                 fs::copy_options::overwrite_existing);
   const auto without_model = cli::write_search_files(dir.staging(), s.run->loaded, s.computed);
   ReportOptions report_options;
@@ -305,6 +264,7 @@ std::shared_ptr<Fit> search_leader(const std::shared_ptr<Search>& s, size_t k) {
   f->run = s->run;
   f->series = k;
   f->result.fit = r.leader;
+  f->fitted_on = search_data(s->run->loaded.series[k], r);
   f->fitted = cli::leader_model(s->run->loaded, s->computed, k);
   return f;
 }
@@ -377,6 +337,8 @@ PYBIND11_MODULE(_core, m) {
       input_error(e.what());
     } catch (const NumericalError& e) {
       numerical_error(e.what());
+    } catch (const Cancelled&) {
+      PyErr_SetNone(PyExc_KeyboardInterrupt);
     }
   });
 
@@ -405,7 +367,7 @@ PYBIND11_MODULE(_core, m) {
   });
   m.def("load_file", &load_from_file, py::arg("text"), py::arg("name"));
   m.def("load_table", &load_from_table, py::arg("text"), py::arg("name"), py::arg("time_column"),
-        py::arg("header"), py::arg("columns"));
+        py::arg("header"), py::arg("columns"), py::arg("one_series") = false);
 
   py::class_<Model, std::shared_ptr<Model>>(m, "Model")
       .def("json", [](const Model& mo) { return to_json(mo.fitted).dump(); })
@@ -446,8 +408,13 @@ PYBIND11_MODULE(_core, m) {
   m.def("load_model", [](const std::string& path) { return model_with_config(load_model(path)); });
 
   py::class_<Fit, std::shared_ptr<Fit>>(m, "Fit")
-      .def("json", &fit_json)
+      .def("json", &fit_json, py::arg("with_past") = false)
       .def("residual_rows", &residual_rows)
+      .def("chart_dir",
+           [](Fit& f) {
+             py::gil_scoped_release unlocked;
+             return fit_charts(f).string();
+           })
       .def_property_readonly("usable", [](const Fit& f) { return f.result.fit.usable(); })
       .def("model",
            [](const Fit& f) -> ModelPtr {
@@ -475,7 +442,56 @@ PYBIND11_MODULE(_core, m) {
       .def("summary_json", &search_summary)
       .def("backtest_csv", &backtest_table)
       .def("leader", &search_leader)
-      .def("write", &write_search);
+      .def("write", &write_search)
+      .def("chart_dir", [](Search& s) {
+        if (!s.folder) {
+          auto scratch = std::make_unique<Scratch>();
+          write_search(s, (scratch->path() / "run").string());
+          s.folder = std::move(scratch);
+        }
+        return (s.folder->path() / "run" / run_files::kCharts).string();
+      });
   m.def("backtest", &backtest_models, py::arg("run"), py::arg("models"), py::arg("threads"));
+  py::class_<PanelSearch, std::shared_ptr<PanelSearch>>(m, "PanelSearch")
+      .def_property_readonly("keys",
+                             [](const PanelSearch& p) {
+                               std::vector<std::string> out;
+                               for (const auto& s : p.series) out.push_back(s.series);
+                               return out;
+                             })
+      .def_property_readonly("folders",
+                             [](const PanelSearch& p) {
+                               std::vector<std::string> out;
+                               for (const auto& s : p.series) out.push_back(s.folder);
+                               return out;
+                             })
+      .def_property_readonly("status", &panel_status)
+      .def("file", &panel_file)
+      .def("write", [](const PanelSearch& p, const std::string& out) {
+        py::gil_scoped_release unlocked;
+        return write_panel(p, out);
+      });
+  m.def("config_series_key", [](const std::string& text, const std::string& name) {
+    return read_config(text, name, true).data.series_key;
+  });
+  m.def(
+      "search_panel_file",
+      [](const std::string& text, const std::string& name, std::optional<int> threads,
+         bool backtest) {
+        return search_panel_file(read_config(text, name, false), threads, backtest);
+      },
+      py::arg("text"), py::arg("name"), py::arg("threads"), py::arg("backtest"));
+  m.def(
+      "search_panel_table",
+      [](const std::string& text, const std::string& name,
+         const std::optional<std::string>& time_column, const std::vector<std::string>& header,
+         const py::list& columns, std::optional<int> threads, bool backtest) {
+        RunConfig config = read_config(text, name, true);
+        if (time_column && config.data.time.empty()) config.data.time = *time_column;
+        const CsvTable table = table_from_columns(kFrameSource, header, columns);
+        return search_panel_table(std::move(config), table, threads, backtest);
+      },
+      py::arg("text"), py::arg("name"), py::arg("time_column"), py::arg("header"),
+      py::arg("columns"), py::arg("threads"), py::arg("backtest"));
   m.def("search", &search_loaded, py::arg("run"), py::arg("threads"), py::arg("backtest") = true);
 }

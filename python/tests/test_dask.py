@@ -114,3 +114,41 @@ def test_a_killed_worker_loses_no_series(client, panel, in_process):
     pd.testing.assert_frame_equal(
         pd.DataFrame(rows, columns=lagsieve.dask.SUMMARY_COLUMNS).rename(columns={"key": "store"}),
         in_process.summary, check_exact=True)
+
+
+def test_a_dask_dataframe_partitioned_by_series_equals_the_in_process_run(client, panel,
+                                                                         in_process):
+    dd = pytest.importorskip("dask.dataframe", reason="dask.dataframe is not installed")
+    by_key = dd.from_pandas(panel.set_index("store"), npartitions=4)
+    assert by_key.npartitions > 1
+    keyed = {**CONFIG, "data": {"time": "t", "series_key": "store"}}
+    on_cluster = lagsieve.dask.search_many(keyed, by_key, client=client)
+    pd.testing.assert_frame_equal(on_cluster.summary, in_process.summary, check_exact=True)
+    pd.testing.assert_frame_equal(without_timing(on_cluster.ranking),
+                                  without_timing(in_process.ranking), check_exact=True)
+    # A pandas long frame with the key from the config: the same.
+    from_pandas = lagsieve.dask.search_many(keyed, panel, client=client)
+    pd.testing.assert_frame_equal(from_pandas.summary, in_process.summary, check_exact=True)
+
+
+def test_a_series_split_over_partitions_is_refused(client, panel):
+    dd = pytest.importorskip("dask.dataframe", reason="dask.dataframe is not installed")
+    by_rows = dd.from_pandas(panel, npartitions=5, sort=False)  # 552 rows each: series cut
+    with pytest.raises(lagsieve.InputError, match="has rows in partitions .* partition by the key"):
+        lagsieve.dask.search_many(CONFIG, by_rows, "store", client)
+
+
+def test_the_cluster_ranking_equals_the_core_panel_search(panel, in_process):
+    # The same panel through the core's batch (lagsieve.search with data.series_key): the
+    # candidates of every series are the same rows, only the series column is named by the key.
+    keyed = {**CONFIG, "data": {"time": "t", "series_key": "store"}}
+    batch = lagsieve.search(keyed, panel)
+    assert isinstance(batch, lagsieve.PanelRun)
+    ranking = without_timing(batch.ranking)
+    ranking.insert(0, "store", ranking["series"])
+    expected = without_timing(in_process.ranking)
+    pd.testing.assert_frame_equal(ranking[expected.columns], expected, check_exact=True)
+    summary = batch.summary.set_index("series")
+    assert summary.loc["bad", "status"] == "bad_data"
+    ok = in_process.summary[in_process.summary["status"] == "ok"]
+    assert list(summary.loc[ok["store"], "leader"]) == list(ok["leader"])

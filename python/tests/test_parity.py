@@ -81,9 +81,13 @@ def test_seatbelts_fit_from_a_frame_equals_the_cli(cli_json, source_dir, tmp_pat
     assert by_index.residuals.index[0] >= pd.Timestamp("1970-01-01")
     assert list(fit.residuals.index.strftime("%Y-%m")) == list(
         by_index.residuals.index.strftime("%Y-%m"))
-    # y_t - e_t on the original scale: close to the data where the filter has settled.
-    observed = pd.Series(np.asarray(frame["drivers"], dtype=float)[-len(fit.fitted):])
-    assert np.allclose(fit.fitted.to_numpy()[-60:], observed.to_numpy()[-60:], rtol=0.3)
+    # One-step predictions on the model's (log) scale, as past.csv has them: within a few
+    # residual standard deviations of log(drivers).
+    assert fit.fitted.attrs["scale"] == "log(target)"
+    observed = np.log(np.asarray(frame["drivers"], dtype=float)[-len(fit.fitted):])
+    gap = fit.fitted.to_numpy() - observed
+    assert np.all(np.abs(gap) < 5 * np.sqrt(fit.sigma2))
+    np.testing.assert_allclose(gap, -fit.past["residual"].to_numpy(), rtol=1e-9, atol=1e-12)
 
 
 def test_search_and_run_folder_equal_the_cli(cli, source_dir, tmp_path):

@@ -96,6 +96,7 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
     options.progress(progress);
   };
   const auto one = [&](size_t i) {
+    if (options.cancel && options.cancel->load()) return;
     PanelPart& part = parts[i];
     const std::string folder = series_folder(part.key);
     RunConfig own = config;  // seasonal defaults are resolved per series
@@ -107,6 +108,7 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
       job.threads = kInCallerArena;
       job.backtest = options.backtest;
       job.journal = options.journal;
+      job.cancel = options.cancel;
       if (!options.folder.empty()) job.folder = options.folder / folder;
       if (options.progress) job.progress = [&](int, int) { report(0, 1); };
       summary = run_series_job(data, own, job);
@@ -127,6 +129,7 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
         },
         tbb::simple_partitioner());
   });
+  check_cancel(options.cancel);
   return result;
 }
 

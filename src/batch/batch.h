@@ -35,6 +35,9 @@ struct BatchOptions {
   Journal* journal = nullptr;     // one journal for the run, keyed by series
   // Called after every finished candidate and series (serialised; from worker threads).
   std::function<void(const BatchProgress&)> progress;
+  // Set (from any thread) to stop: series not started are skipped, running searches stop
+  // between candidates, and run_batch throws Cancelled (core/error.h).
+  const std::atomic<bool>* cancel = nullptr;
 };
 
 struct BatchResult {

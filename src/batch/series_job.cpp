@@ -184,7 +184,9 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
     so.threads = options.threads;
     so.journal = options.journal;
     so.progress = options.progress;
+    so.cancel = options.cancel;
     SearchResult r = run_search(data, config, so);
+    check_cancel(options.cancel);
     std::optional<ShortlistBacktest> bt;
     if (config.backtest.enabled && options.backtest && r.has_leader())
       bt = backtest_shortlist(data, config, r, options.threads);
@@ -202,6 +204,8 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
       s.reason = no_candidate_reason(r);
     }
     if (!options.folder.empty()) write_series_files(options.folder, data, config, r, bt, s);
+  } catch (const Cancelled&) {
+    throw;  // not the series' outcome: the whole run stops
   } catch (const InputError& e) {
     // A check that only the search can make (e.g. the grid over the budget for this series).
     s.status = SeriesStatus::bad_data;

@@ -37,6 +37,7 @@ struct SeriesJobOptions {
   Journal* journal = nullptr;    // shared by every series of a run (keyed by series)
   std::filesystem::path folder;  // the series' files go here; "" = none written
   std::function<void(int done, int total)> progress;  // per finished candidate
+  const std::atomic<bool>* cancel = nullptr;  // set: Cancelled is thrown (search.h), no row
 };
 
 // The leader's dynamic structure for one configured input (included = false: left out).

@@ -80,6 +80,7 @@ SearchComputation compute_search(const LoadedRun& run, const SearchOptions& base
     options.progress = base.progress;
     auto& r = c.results.back();
     c.backtests.emplace_back();
+    check_cancel(options.cancel);  // the shortlist backtest itself runs to its end
     if (config.backtest.enabled && backtest && r.has_leader()) {
       if (!quiet && ::isatty(STDERR_FILENO))
         fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);

@@ -19,4 +19,12 @@ class NumericalError : public std::runtime_error {
   explicit NumericalError(const std::string& message) : std::runtime_error(message) {}
 };
 
+// The caller asked the work to stop (a cancellation flag set, e.g. Ctrl-C in Python). Thrown
+// between candidates, never mid-fit, so nothing is left half-computed; callers that write files
+// stage them (run_dir.h) and so leave no half-written run folder.
+class Cancelled : public std::runtime_error {
+ public:
+  Cancelled() : std::runtime_error("cancelled") {}
+};
+
 }  // namespace lagsieve

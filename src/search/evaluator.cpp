@@ -80,6 +80,7 @@ std::vector<CandidateRow> Evaluator::evaluate(const std::vector<ModelSpec>& spec
       });
       tbb::parallel_for(tbb::blocked_range<size_t>(from, to, 1), [&](const auto& range) {
         for (size_t k = range.begin(); k != range.end(); ++k) {
+          if (options_.cancel && options_.cancel->load()) return;  // Cancelled is thrown below
           const size_t i = todo[k];
           const auto& shared = problems[group[k - from]];
           const std::optional<ModelParams>* start = warm ? &(*warm)[i] : nullptr;
@@ -100,6 +101,7 @@ std::vector<CandidateRow> Evaluator::evaluate(const std::vector<ModelSpec>& spec
         }
       });
     });
+    check_cancel(options_.cancel);
   }
   fitted_ += static_cast<int>(todo.size());
   return out;

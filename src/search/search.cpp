@@ -185,8 +185,13 @@ CandidateRow fit_candidate(const SeriesData& data, const LikelihoodProblem& prob
   return row;
 }
 
+void check_cancel(const std::atomic<bool>* cancel) {
+  if (cancel && cancel->load()) throw Cancelled();
+}
+
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options) {
+  check_cancel(options.cancel);
   const auto t0 = std::chrono::steady_clock::now();
   SearchResult result;
   result.series = data.target_name;
@@ -274,6 +279,7 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   result.fitted = evaluator.fitted();
   result.resumed = evaluator.resumed();
   rank_rows(result.rows, config.search.criterion);
+  check_cancel(options.cancel);
   if (config.outliers.enabled) detect_on_shortlist(data, config, result, options.threads);
 
   // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;

@@ -1,6 +1,7 @@
 #pragma once
 // The model search: candidates from the config, fitted in parallel (TBB) on one common sample,
 // ranked by an information criterion, every outcome a row; a journal makes runs resumable.
+#include <atomic>
 #include <filesystem>
 #include <functional>
 #include <limits>
@@ -69,7 +70,13 @@ struct SearchOptions {
   // guided: true fits in stages (search/guided.h); false fits the whole guided grid, as the
   // strategy did before (benchmarks and checks compare the two).
   bool staged_guided = true;
+  // Set (from any thread) to stop: checked before every candidate; the search then throws
+  // Cancelled (core/error.h) once the candidates already running have finished.
+  const std::atomic<bool>* cancel = nullptr;
 };
+
+// Throws Cancelled when `cancel` is set (a null flag never cancels).
+void check_cancel(const std::atomic<bool>* cancel);
 
 // Outlier detection in a search (config `outliers`; search_outliers.h): one detection on the
 // criterion leader, its set shared by every shortlisted candidate.

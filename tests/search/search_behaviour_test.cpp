@@ -4,6 +4,7 @@
 // a failure row ranked last, not an exception.
 #include <gtest/gtest.h>
 
+#include <atomic>
 #include <bit>
 #include <cmath>
 #include <cstdint>
@@ -11,6 +12,7 @@
 #include <string>
 #include <vector>
 
+#include "core/error.h"
 #include "io/config.h"
 #include "search/candidates.h"
 #include "search/search.h"
@@ -167,6 +169,36 @@ TEST(CandidateGrid, SizeSaturatesInsteadOfOverflowing) {
   EXPECT_EQ(candidate_grid_size(config), std::numeric_limits<long long>::max());
   config.inputs.resize(1);
   EXPECT_EQ(grid_size(full_grid(config)), candidate_grid_size(config));
+}
+
+// Cancellation (SearchOptions::cancel, set by Ctrl-C in Python): a flag set before the search
+// stops it before any fit; set after three candidates, the search stops at the next candidate
+// instead of fitting the grid, and throws Cancelled rather than returning a partial result.
+TEST(SearchCancel, AFlagSetBeforeOrDuringTheSearchStopsItBetweenCandidates) {
+  const SearchCase c = small_case(200, 203);
+  const SeriesData data = simulate(testing::simulation_of(c));
+  const RunConfig config = testing::config_of(c, 1);
+  const long long grid = grid_size(full_grid(config));
+  ASSERT_GT(grid, 20);
+  std::atomic<bool> cancel{true};
+  SearchOptions options = options_of(config);
+  options.cancel = &cancel;
+  int fitted = 0;
+  options.progress = [&](int, int) { ++fitted; };
+  EXPECT_THROW(run_search(data, config, options), Cancelled);
+  EXPECT_EQ(fitted, 0);
+
+  cancel = false;
+  options.progress = [&](int done, int) {
+    fitted = done;
+    if (done == 3) cancel = true;
+  };
+  EXPECT_THROW(run_search(data, config, options), Cancelled);
+  EXPECT_EQ(fitted, 3);  // one thread: the candidate after the third is never started
+
+  cancel = false;
+  const SearchResult whole = run_search(data, config, options_of(config));
+  EXPECT_EQ(static_cast<long long>(whole.rows.size()), grid);
 }
 
 }  // namespace
