@@ -19,6 +19,7 @@
 #include "model/likelihood.h"
 #include "model/spec_from_config.h"
 #include "search/candidates.h"
+#include "search/journal_rows.h"
 #include "search/search_outliers.h"
 
 namespace lagsieve {
@@ -74,6 +75,18 @@ json to_json(const CandidateRow& r) {
   }
   if (!r.selection.empty()) j["selection"] = r.selection;
   if (!r.effects.empty()) j["effects"] = r.effects;
+  return j;
+}
+
+json journal_row(const CandidateRow& r) {
+  // The spec is the key's (the journal is read back against the specs of the config), the rank is
+  // not known yet: only what the fit found.
+  json j = {{"series", r.series}, {"key", r.key},           {"status", to_string(r.status)},
+            {"loglik", num(r.loglik)}, {"aic", num(r.aic)}, {"aicc", num(r.aicc)},
+            {"bic", num(r.bic)},     {"n_obs", r.n_obs},   {"n_params", r.n_params},
+            {"ljung_box_p", num(r.ljung_box_p)}, {"seconds", r.seconds},
+            {"evaluations", r.evaluations}};
+  if (!r.message.empty()) j["message"] = r.message;
   return j;
 }
 
@@ -177,7 +190,7 @@ class Evaluator {
         for (size_t k = range.begin(); k != range.end(); ++k) {
           const size_t i = todo[k];
           out[i] = fit_candidate(data_, specs[i], start_);
-          if (options_.journal) options_.journal->append(to_json(out[i]));
+          if (options_.journal) options_.journal->append(journal_row(out[i]));
           report(total_hint);
         }
       });
