@@ -221,6 +221,23 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
                                      worst_by(rows, options.worst, by_residuals)));
   page.sections.push_back(worst);
 
+  // The other series with a page (the sample spread over the keys), so every page is linked.
+  std::set<size_t> listed;
+  for (size_t i : worst_by(rows, options.worst, by_score)) listed.insert(i);
+  for (size_t i : worst_by(rows, options.worst, by_residuals)) listed.insert(i);
+  HtmlTable others = worst_table("A sample of the other series", {});
+  for (size_t i : with_pages) {
+    if (listed.contains(i)) continue;
+    const auto& s = rows[i];
+    others.rows.push_back({s.series, s.leader, s.backtest_score, s.benchmark_score, s.benchmark_p,
+                           s.ljung_box_p, page_of(s, pages, i)});
+  }
+  if (!others.rows.empty()) {
+    HtmlSection sampled{"Sample", "", {}};
+    sampled.blocks.push_back(others);
+    page.sections.push_back(sampled);
+  }
+
   write_file_atomic(folder / "report.html", render_html(page));
   std::vector<std::string> written;
   for (size_t i : with_pages) {

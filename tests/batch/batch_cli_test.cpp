@@ -132,8 +132,13 @@ TEST(BatchCli, RunFolderOfAPanelIsAFewLongTablesAndTheModels) {
   }
   EXPECT_EQ(models, 12);
   int pages = 0;
+  const std::string report = slurp(dir / "run" / "report.html");
   for (const auto& e : fs::directory_iterator(dir / "run" / "series")) {
     EXPECT_TRUE(fs::exists(e.path() / "report.html")) << e.path();
+    // Every page is linked from the panel report (the worst tables, or the sample).
+    EXPECT_NE(report.find("series/" + e.path().filename().string() + "/report.html"),
+              std::string::npos)
+        << e.path();
     ++pages;
   }
   EXPECT_GE(pages, 1);
