@@ -8,6 +8,13 @@ r and s in 0..1 varying by series; x2 with b in 0..1), AR(1) or ARMA(2,1) noise 
 with a fixed seed.
 
     benchmarks/many_series.py BUILD/lagsieve [--series 100 300] [--rows 730]
+    benchmarks/many_series.py BUILD/lagsieve --baseline OLD/lagsieve --grid small \
+        --series 100 1000 --rows 730
+
+--grid small searches 8 candidates per series (x1 b 0..3, x2 b 0..1 or left out, AR(1) noise)
+instead of 32. --baseline runs another build on the same panels, side by side: series per second
+and per CPU-second, peak memory and the run folder, with the ratios of this build to the
+baseline. --memory N ... adds peak memory at those panel sizes (one run each, no backtest).
 """
 import argparse
 import json
@@ -62,17 +69,17 @@ CONFIG = """data:
 target:
   column: y
 inputs:
-  - column: x1
-    delay: [0, 3]
-    numerator: [0, 1]
-    denominator: [0, 1]
-  - column: x2
-    delay: [0, 1]
-noise:
-  ar: [1, 2]
-  ma: [0, 1]
+{inputs}noise:
+{noise}
   constant: true
 {backtest}"""
+
+GRIDS = {
+    "full": ("  - column: x1\n    delay: [0, 3]\n    numerator: [0, 1]\n    denominator: [0, 1]\n"
+             "  - column: x2\n    delay: [0, 1]\n", "  ar: [1, 2]\n  ma: [0, 1]", 32),
+    "small": ("  - column: x1\n    delay: [0, 3]\n  - column: x2\n    delay: [0, 1]\n",
+              "  ar: [1, 1]", 8),
+}
 
 BACKTEST = """backtest:
   first_origin: 640
@@ -83,8 +90,10 @@ BACKTEST = """backtest:
 """
 
 
-def run(binary, folder, threads, backtest, out):
-    (folder / "panel.yaml").write_text(CONFIG.format(backtest=BACKTEST if backtest else ""))
+def run(binary, folder, threads, backtest, out, grid="full"):
+    inputs, noise, _ = GRIDS[grid]
+    (folder / "panel.yaml").write_text(
+        CONFIG.format(inputs=inputs, noise=noise, backtest=BACKTEST if backtest else ""))
     cmd = ["/usr/bin/time", "-f", "%e %U %S %M", binary, "search", "panel.yaml", "--out", out,
            "--threads", str(threads), "--quiet"]
     p = subprocess.run(cmd, cwd=folder, capture_output=True, text=True)
@@ -95,21 +104,61 @@ def run(binary, folder, threads, backtest, out):
             "rss_mb": int(rss) / 1024, "folder_mb": size / 1e6, "files": files}
 
 
+def side_by_side(title, count, new, old):
+    print(title)
+    rows = [("exit code", "code", "{:.0f}", None),
+            ("wall (s)", "wall", "{:.2f}", None),
+            ("CPU (s)", "cpu", "{:.2f}", None),
+            ("series per second (wall)", None, "{:.2f}", lambda r: count / r["wall"]),
+            ("series per CPU-second", None, "{:.2f}", lambda r: count / r["cpu"]),
+            ("peak memory (MB)", "rss_mb", "{:.1f}", None),
+            ("run folder (MB)", "folder_mb", "{:.1f}", None),
+            ("run folder (files)", "files", "{:.0f}", None)]
+    print(f"  {'':28s} {'this build':>12s} {'baseline':>12s} {'ratio':>8s}")
+    for name, key, fmt, f in rows:
+        a = f(new) if f else new[key]
+        b = f(old) if f else old[key]
+        ratio = f"{a / b:8.2f}" if b else "       -"
+        print(f"  {name:28s} {fmt.format(a):>12s} {fmt.format(b):>12s} {ratio}")
+
+
 def main():
     ap = argparse.ArgumentParser()
     ap.add_argument("binary")
     ap.add_argument("--series", type=int, nargs=2, default=[100, 300])
     ap.add_argument("--rows", type=int, default=730)
+    ap.add_argument("--grid", choices=sorted(GRIDS), default="full")
+    ap.add_argument("--baseline", help="another build of lagsieve, run side by side")
+    ap.add_argument("--memory", type=int, nargs="*", default=[],
+                    help="panel sizes at which to measure peak memory (no backtest)")
+    ap.add_argument("--threads", type=int, default=2)
     args = ap.parse_args()
     binary = os.path.abspath(args.binary)
+    baseline = os.path.abspath(args.baseline) if args.baseline else None
+    per_series = GRIDS[args.grid][2]
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
         small, large = args.series
+        if baseline:
+            for count in (small, large):
+                panel(folder / "panel.csv", count, args.rows)
+                new = run(binary, folder, args.threads, False, "new", args.grid)
+                old = run(baseline, folder, args.threads, False, "old", args.grid)
+                side_by_side(f"{count} series x {args.rows} rows, {per_series} candidates per "
+                             f"series, {args.threads} threads, no backtest", count, new, old)
+            for count in args.memory:
+                panel(folder / "panel.csv", count, args.rows)
+                new = run(binary, folder, args.threads, False, "new", args.grid)
+                old = run(baseline, folder, args.threads, False, "old", args.grid)
+                print(f"peak memory at {count} series: this build {new['rss_mb']:.1f} MB, "
+                      f"baseline {old['rss_mb']:.1f} MB (ratio {new['rss_mb'] / old['rss_mb']:.2f}); "
+                      f"csv {os.path.getsize(folder / 'panel.csv') / 1e6:.1f} MB")
+            return 0
         panel(folder / "panel.csv", small, args.rows)
-        r1 = run(binary, folder, 1, False, "t1")
-        r2 = run(binary, folder, 2, False, "t2")
-        rb = run(binary, folder, 2, True, "bt")
-        print(f"{small} series x {args.rows} rows, 32 candidates per series")
+        r1 = run(binary, folder, 1, False, "t1", args.grid)
+        r2 = run(binary, folder, 2, False, "t2", args.grid)
+        rb = run(binary, folder, 2, True, "bt", args.grid)
+        print(f"{small} series x {args.rows} rows, {per_series} candidates per series")
         for name, r in (("1 thread, no backtest", r1), ("2 threads, no backtest", r2),
                         ("2 threads, backtest", rb)):
             print(f"  {name:24s} exit {r['code']}  wall {r['wall']:7.2f} s  cpu {r['cpu']:7.2f} s  "
@@ -117,10 +166,16 @@ def main():
                   f"folder {r['folder_mb']:6.1f} MB in {r['files']} files")
         print(f"  speed-up 1 -> 2 threads (wall): {r1['wall'] / r2['wall']:.2f}x")
         panel(folder / "panel.csv", large, args.rows)
-        rl = run(binary, folder, 2, False, "large")
+        rl = run(binary, folder, 2, False, "large", args.grid)
         print(f"{large} series: wall {rl['wall']:.2f} s, peak {rl['rss_mb']:.1f} MB; peak ratio "
               f"{large} / {small} series: {rl['rss_mb'] / r2['rss_mb']:.2f}; "
-              f"csv {os.path.getsize(folder / 'panel.csv') / 1e6:.1f} MB")
+              f"csv {os.path.getsize(folder / 'panel.csv') / 1e6:.1f} MB; folder "
+              f"{rl['folder_mb']:.1f} MB in {rl['files']} files")
+        for count in args.memory:
+            panel(folder / "panel.csv", count, args.rows)
+            r = run(binary, folder, 2, False, "mem", args.grid)
+            print(f"peak memory at {count} series: {r['rss_mb']:.1f} MB")
+    return 0
 
 
 if __name__ == "__main__":

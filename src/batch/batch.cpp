@@ -6,13 +6,13 @@
 
 #include <algorithm>
 #include <atomic>
-#include <fstream>
 #include <mutex>
 #include <optional>
 #include <set>
-#include <sstream>
 
 #include "backtest/backtest.h"
+#include "batch/spool.h"
+#include "batch/tables.h"
 #include "core/error.h"
 #include "core/names.h"
 #include "data/load.h"
@@ -30,13 +30,17 @@ int BatchResult::count(SeriesStatus s) const {
   return n;
 }
 
-std::string series_folder(const std::string& key) {
-  return std::string(kSeriesFolder) + "/" + safe_series_name(key);
+std::string series_folder(const std::string& name) {
+  return std::string(kSeriesFolder) + "/" + name;
+}
+
+std::string series_model_file(const std::string& name) {
+  return std::string(kModelsFolder) + "/" + name + ".json";
 }
 
 std::vector<PanelPart> load_panel(const RunConfig& config, const std::vector<std::string>& only) {
-  auto parts = split_by_key(read_csv(config.data.file), config.data.series_key,
-                            "data.series_key in " + config.config_file.string());
+  auto parts = index_panel(config.data.file, config.data.series_key,
+                           "data.series_key in " + config.config_file.string());
   if (only.empty()) return parts;
   std::vector<std::string> keys;
   for (const auto& p : parts) keys.push_back(p.key);
@@ -54,7 +58,7 @@ std::vector<PanelPart> load_panel(const RunConfig& config, const std::vector<std
 }
 
 SeriesData load_panel_series(RunConfig& config, const PanelPart& part) {
-  SeriesData data = series_from_table(config, part.table, config.target.columns.front());
+  SeriesData data = series_from_table(config, part_table(part), config.target.columns.front());
   data.target_name = part.key;
   apply_seasonal_default(config, data);
   return data;
@@ -69,23 +73,55 @@ std::vector<SeriesSummary> check_panel(const RunConfig& config,
       const SeriesData data = load_panel_series(own, part);
       SeriesSummary s;
       s.series = part.key;
-      s.folder = series_folder(part.key);
       s.status = SeriesStatus::ok;
       s.rows = data.rows();
       if (!data.time.empty()) s.first_time = data.time.front(), s.last_time = data.time.back();
       s.warnings = describe_missing(data);
       out.push_back(std::move(s));
     } catch (const InputError& e) {
-      out.push_back(bad_series_summary(part.key, series_folder(part.key), e.what()));
+      out.push_back(bad_series_summary(part.key, "", e.what()));
     }
   }
   return out;
 }
 
+namespace {
+
+// The scratch files and the page keeper of a run with a folder.
+struct BatchOutputs {
+  BatchOutputs(const std::filesystem::path& folder, size_t count,
+               const PanelReportOptions& options, const std::vector<std::string>& sample)
+      : ranking(folder / ".ranking.spool", count),
+        forecasts(folder / ".forecasts.spool", count),
+        accuracy(folder / ".accuracy.spool", count),
+        pages(options, sample) {}
+  TableSpool ranking, forecasts, accuracy;
+  PageKeeper pages;
+};
+
+std::vector<std::string> sample_of(const BatchOptions& options,
+                                   const std::vector<PanelPart>& parts) {
+  if (!options.sample.empty()) return options.sample;
+  std::vector<std::string> keys;
+  for (const auto& p : parts) keys.push_back(p.key);
+  return sample_keys(keys, options.pages.sample);
+}
+
+}  // namespace
+
 BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
                       const BatchOptions& options) {
   BatchResult result;
   result.series.resize(parts.size());
+  std::vector<std::string> names(parts.size());
+  for (size_t i = 0; i < parts.size(); ++i)
+    names[i] = parts[i].name.empty() ? safe_series_name(parts[i].key) : parts[i].name;
+  const std::vector<std::string> sample = sample_of(options, parts);
+  std::optional<BatchOutputs> out;
+  if (!options.folder.empty()) {
+    std::filesystem::create_directories(options.folder / kModelsFolder);
+    out.emplace(options.folder, parts.size(), options.pages, sample);
+  }
   std::mutex progress_mutex;
   BatchProgress progress{0, static_cast<int>(parts.size()), 0};
   const auto report = [&](int series_done, long long candidates_done) {
@@ -97,26 +133,37 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
   };
   const auto one = [&](size_t i) {
     if (options.cancel && options.cancel->load()) return;
-    PanelPart& part = parts[i];
-    const std::string folder = series_folder(part.key);
+    const std::string key = parts[i].key;
     RunConfig own = config;  // seasonal defaults are resolved per series
     SeriesSummary summary;
     try {
-      const SeriesData data = load_panel_series(own, part);
-      CsvTable().rows.swap(part.table.rows);  // the text rows are no longer needed
+      std::optional<SeriesData> data(load_panel_series(own, parts[i]));
+      parts[i] = PanelPart{};  // the index of its rows is no longer needed
       SeriesJobOptions job;
       job.threads = kInCallerArena;
       job.backtest = options.backtest;
       job.journal = options.journal;
       job.cancel = options.cancel;
-      if (!options.folder.empty()) job.folder = options.folder / folder;
+      SeriesTables tables;
+      if (out) {
+        job.folder = options.folder / series_folder(names[i]);
+        job.keep_folder = [&](const SeriesSummary& s) { return out->pages.keep(s); };
+        job.model_file = options.folder / series_model_file(names[i]);
+        job.tables = &tables;
+      }
       if (options.progress) job.progress = [&](int, int) { report(0, 1); };
-      summary = run_series_job(data, own, job);
-      summary.folder = folder;
+      summary = run_series_job(*data, own, job);
+      data.reset();
+      if (out) {
+        out->ranking.put(i, tables.ranking, ranking_header(config));
+        out->forecasts.put(i, tables.forecasts);
+        out->accuracy.put(i, tables.accuracy, tables.accuracy_header);
+      }
     } catch (const InputError& e) {
-      summary = bad_series_summary(part.key, folder, e.what());
+      summary = bad_series_summary(key, "", e.what());
     }
-    part = PanelPart{};
+    if (summary.status == SeriesStatus::ok && out) summary.model = series_model_file(names[i]);
+    parts[i] = PanelPart{};
     result.series[i] = std::move(summary);
     report(1, 0);
   };
@@ -130,47 +177,39 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
         tbb::simple_partitioner());
   });
   check_cancel(options.cancel);
+  if (!out) return result;
+  out->ranking.write(options.folder / run_files::kLeaderboardCsv, ranking_header(config));
+  out->forecasts.write(options.folder / kForecastsCsv, forecasts_header(config.forecast.levels));
+  if (config.backtest.enabled && options.backtest)
+    out->accuracy.write(options.folder / run_files::kAccuracy);
+  // The series with a page keep their folder; the others' folders (written while they could
+  // still be among the worst) go.
+  const auto paged = series_with_pages(result.series, options.pages, &sample);
+  const std::set<size_t> keep(paged.begin(), paged.end());
+  for (size_t i = 0; i < result.series.size(); ++i) {
+    const auto dir = options.folder / series_folder(names[i]);
+    if (keep.contains(i) && std::filesystem::is_directory(dir))
+      result.series[i].folder = series_folder(names[i]);
+    else
+      std::filesystem::remove_all(dir);
+  }
+  std::error_code ec;
+  std::filesystem::remove(options.folder / kSeriesFolder, ec);  // only when empty
   return result;
 }
-
-namespace {
-
-std::optional<std::string> read_file(const std::filesystem::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return std::nullopt;
-  std::ostringstream buffer;
-  buffer << in.rdbuf();
-  return buffer.str();
-}
-
-}  // namespace
 
 void write_batch_tables(const std::filesystem::path& folder, const BatchResult& result) {
   write_file_atomic(folder / kSummaryCsv, summary_csv(result.series));
   write_file_atomic(folder / kSummaryJson, summary_json(result.series).dump(1) + "\n");
-  // The leaderboard of every series in one table: the header once, then each series' rows.
-  size_t next = 0;
-  bool header_written = false;
-  write_file_atomic_chunks(
-      folder / run_files::kLeaderboardCsv, [&]() -> std::optional<std::string> {
-        while (next < result.series.size()) {
-          const auto& s = result.series[next++];
-          auto text = read_file(folder / s.folder / run_files::kLeaderboardCsv);
-          if (!text) continue;
-          const auto eol = text->find('\n');
-          if (header_written)
-            return eol == std::string::npos ? std::string() : text->substr(eol + 1);
-          header_written = true;
-          return *text;
-        }
-        return std::nullopt;
-      });
 }
 
-std::string batch_fingerprint(const RunConfig& config, const std::vector<std::string>& only) {
-  const auto text = read_file(config.data.file);
+std::string batch_fingerprint(const RunConfig& config, const std::vector<PanelPart>& parts,
+                              const std::vector<std::string>& only) {
+  const std::string data = parts.empty() || !parts.front().file
+                               ? text_fingerprint("")
+                               : parts.front().file->scan.fingerprint;
   std::string all = run_fingerprint(config, {}) + "|key=" + config.data.series_key +
-                    "|data=" + text_fingerprint(text ? *text : "") + "|only=";
+                    "|data=" + data + "|only=";
   std::set<std::string> sorted(only.begin(), only.end());
   for (const auto& s : sorted) all += s + ";";
   return text_fingerprint(all);

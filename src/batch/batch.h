@@ -1,15 +1,24 @@
 #pragma once
 // A run of many series from one long-format file (`data.series_key`): every series is loaded,
-// checked, searched, backtested and forecast on its own (series_job.h), in parallel with TBB, and
-// its files go to `series/<safe name>/` of the run folder. A bad series is a summary row with its
-// status and reason; the others go on. Series and candidates share one pool of `threads`
-// workers; results do not depend on the thread count. Memory: the file's cells are split by
-// series once, and each series' rows, fits and backtest are released when its job ends.
+// checked, searched, backtested and forecast on its own (series_job.h), in parallel with TBB. A
+// bad series is a summary row with its status and reason; the others go on. Series and
+// candidates share one pool of `threads` workers; results do not depend on the thread count.
+//
+// The run folder stays a few files however many series there are (docs/run-folder.md): one
+// ranking table, forecasts.csv and accuracy.csv across series (series column first), the chosen
+// models in models/<name>.json, summary.csv/json, the journal, the panel report; a folder
+// series/<name>/ (the single-series files and a report page) only for the series that get a page
+// (panel_report.h: the worst and a sample).
+//
+// Memory: the file is indexed by series (byte spans, data/panel.h), a series' rows are read and
+// parsed when it runs, and its rows, fits and backtest are released when its job ends; its table
+// rows go to scratch files at once (spool.h). What stays per series is its summary row.
 #include <filesystem>
 #include <functional>
 #include <string>
 #include <vector>
 
+#include "batch/panel_report.h"
 #include "batch/series_job.h"
 #include "core/config.h"
 #include "data/panel.h"
@@ -30,9 +39,12 @@ struct BatchProgress {
 struct BatchOptions {
   int threads = 0;                // workers for series and candidates together; 0 all cores
   bool backtest = true;           // run the config's backtest when it has one
-  std::vector<std::string> only;  // run only these series keys (`--series`); empty = all
   std::filesystem::path folder;   // the run folder (or its staging); "" = no files written
   Journal* journal = nullptr;     // one journal for the run, keyed by series
+  PanelReportOptions pages;       // which series get a folder and report page
+  // The sample of series given a page: sample_keys over the keys of the whole panel (a shard
+  // takes the panel's, so a merge finds the pages it needs). Empty: those of the parts run.
+  std::vector<std::string> sample;
   // Called after every finished candidate and series (serialised; from worker threads).
   std::function<void(const BatchProgress&)> progress;
   // Set (from any thread) to stop: series not started are skipped, running searches stop
@@ -50,8 +62,9 @@ struct BatchResult {
 // it must be a key of the file: InputError naming the unknown one, with a suggestion).
 std::vector<PanelPart> load_panel(const RunConfig& config, const std::vector<std::string>& only);
 
-// Folder of a series relative to the run folder: series/<safe name>.
-std::string series_folder(const std::string& key);
+// Folder of a series relative to the run folder: series/<name>; its model file: models/<name>.json.
+std::string series_folder(const std::string& name);
+std::string series_model_file(const std::string& name);
 
 // Loads and checks one series' rows (InputError for a bad series, its message without the key);
 // the series is named by its key and the config's seasonal defaults are resolved for it in
@@ -63,16 +76,18 @@ SeriesData load_panel_series(RunConfig& config, const PanelPart& part);
 std::vector<SeriesSummary> check_panel(const RunConfig& config,
                                        const std::vector<PanelPart>& parts);
 
-// Runs every series of `parts` (consumed: each part's rows are released when its series is done).
+// Runs every series of `parts` (consumed: each part is released when its series is done). With a
+// folder: the models, the ranking, forecasts and accuracy tables, and the folders of the series
+// with a page (the summary rows say which: `folder`; the others' folders are removed).
 BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
                       const BatchOptions& options);
 
-// Writes the run-level tables of a batch into `folder`: summary.csv, summary.json and the
-// leaderboard.csv of all series (concatenated from the series' folders, streamed).
+// Writes summary.csv and summary.json of `rows` into `folder`.
 void write_batch_tables(const std::filesystem::path& folder, const BatchResult& result);
 
 // What identifies a batch run for its journal and marker: the config's fingerprint over the
-// data file's text, the key column and the series selected.
-std::string batch_fingerprint(const RunConfig& config, const std::vector<std::string>& only);
+// data file's bytes (from the parts' index), the key column and the series selected.
+std::string batch_fingerprint(const RunConfig& config, const std::vector<PanelPart>& parts,
+                              const std::vector<std::string>& only);
 
 }  // namespace lagsieve

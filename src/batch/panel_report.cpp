@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <iterator>
 #include <map>
 #include <numeric>
 #include <set>
@@ -51,29 +52,66 @@ double by_score(const SeriesSummary& s) { return s.backtest_score; }
 double by_residuals(const SeriesSummary& s) { return -s.ljung_box_p; }  // smallest p worst
 
 std::string page_of(const SeriesSummary& s, const std::set<size_t>& pages, size_t i) {
-  return pages.contains(i) ? s.folder + "/report.html" : "";
+  return pages.contains(i) && !s.folder.empty() ? s.folder + "/report.html" : "";
 }
 
 }  // namespace
 
+std::vector<std::string> sample_keys(const std::vector<std::string>& keys, int count) {
+  std::vector<std::string> out;
+  const size_t n = std::min(keys.size(), static_cast<size_t>(std::max(count, 0)));
+  for (size_t k = 0; k < n; ++k) out.push_back(keys[k * keys.size() / n]);
+  return out;
+}
+
 std::vector<size_t> series_with_pages(const std::vector<SeriesSummary>& rows,
-                                      const PanelReportOptions& options) {
+                                      const PanelReportOptions& options,
+                                      const std::vector<std::string>* sample) {
   std::set<size_t> pages;
   for (size_t i : worst_by(rows, options.worst, by_score)) pages.insert(i);
   for (size_t i : worst_by(rows, options.worst, by_residuals)) pages.insert(i);
-  std::vector<size_t> others;
+  std::vector<std::string> keys;
+  if (!sample) {
+    for (const auto& r : rows) keys.push_back(r.series);
+    keys = sample_keys(keys, options.sample);
+  }
+  const std::set<std::string> chosen(sample ? sample->begin() : keys.begin(),
+                                     sample ? sample->end() : keys.end());
   for (size_t i = 0; i < rows.size(); ++i)
-    if (rows[i].status == SeriesStatus::ok && !pages.contains(i)) others.push_back(i);
-  const size_t sample = std::min<size_t>(others.size(), static_cast<size_t>(options.sample));
-  for (size_t k = 0; k < sample; ++k) pages.insert(others[k * others.size() / sample]);
+    if (rows[i].status == SeriesStatus::ok && chosen.contains(rows[i].series)) pages.insert(i);
   return {pages.begin(), pages.end()};
+}
+
+PageKeeper::PageKeeper(PanelReportOptions options, std::vector<std::string> sample)
+    : options_(options), sample_(sample.begin(), sample.end()) {}
+
+bool PageKeeper::enter(std::set<Entry, Worse>& worst, double badness, const std::string& key) {
+  if (!std::isfinite(badness) || options_.worst <= 0) return false;
+  const auto [it, added] = worst.insert({badness, key});
+  if (!added) return true;
+  if (static_cast<int>(worst.size()) > options_.worst) {
+    const auto last = std::prev(worst.end());
+    const bool evicted_self = last == it;
+    worst.erase(last);
+    return !evicted_self;
+  }
+  return true;
+}
+
+bool PageKeeper::keep(const SeriesSummary& s) {
+  if (s.status != SeriesStatus::ok) return false;
+  std::lock_guard lock(mutex_);
+  const bool a = enter(by_score_, by_score(s), s.series);
+  const bool b = enter(by_residuals_, by_residuals(s), s.series);
+  return a || b || sample_.contains(s.series);
 }
 
 std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
                                             const std::vector<SeriesSummary>& rows,
                                             const RunConfig& config,
-                                            const PanelReportOptions& options) {
-  const auto with_pages = series_with_pages(rows, options);
+                                            const PanelReportOptions& options,
+                                            const std::vector<std::string>* sample) {
+  const auto with_pages = series_with_pages(rows, options, sample);
   const std::set<size_t> pages(with_pages.begin(), with_pages.end());
   HtmlPage page;
   page.title = fmt::format("Panel report: {} series", rows.size());
@@ -183,9 +221,27 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
                                      worst_by(rows, options.worst, by_residuals)));
   page.sections.push_back(worst);
 
+  // The other series with a page (the sample spread over the keys), so every page is linked.
+  std::set<size_t> listed;
+  for (size_t i : worst_by(rows, options.worst, by_score)) listed.insert(i);
+  for (size_t i : worst_by(rows, options.worst, by_residuals)) listed.insert(i);
+  HtmlTable others = worst_table("A sample of the other series", {});
+  for (size_t i : with_pages) {
+    if (listed.contains(i)) continue;
+    const auto& s = rows[i];
+    others.rows.push_back({s.series, s.leader, s.backtest_score, s.benchmark_score, s.benchmark_p,
+                           s.ljung_box_p, page_of(s, pages, i)});
+  }
+  if (!others.rows.empty()) {
+    HtmlSection sampled{"Sample", "", {}};
+    sampled.blocks.push_back(others);
+    page.sections.push_back(sampled);
+  }
+
   write_file_atomic(folder / "report.html", render_html(page));
   std::vector<std::string> written;
   for (size_t i : with_pages) {
+    if (rows[i].folder.empty() || !std::filesystem::is_directory(folder / rows[i].folder)) continue;
     ReportOptions ro;
     ro.write_charts = false;
     ro.folder_name = rows[i].series;

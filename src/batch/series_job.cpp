@@ -21,6 +21,7 @@
 #include "search/run_folder.h"
 #include "search/search_outliers.h"
 #include "search/shortlist.h"
+#include "batch/tables.h"
 
 namespace lagsieve {
 
@@ -38,24 +39,26 @@ const char* to_string(SeriesStatus s) {
   return "failed";
 }
 
-void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
-                           const SeriesData& data, const RunConfig& config) {
+namespace {
+
+ForecastOptions leader_forecast_options(const RunConfig& config) {
   ForecastOptions options;
   options.horizon = config.forecast.horizon > 0 ? config.forecast.horizon
                     : config.backtest.enabled   ? config.backtest.horizon
                                                 : 12;
   options.levels = config.forecast.levels;
   options.parameter_uncertainty = config.forecast.parameter_uncertainty;
+  return options;
+}
+
+void write_forecast_json(const std::filesystem::path& path, const std::optional<ForecastResult>& f,
+                         const std::string& note, const SeriesData& data,
+                         const ForecastOptions& options) {
   nlohmann::json j;
   j["series"] = data.target_name;
   j["horizon"] = options.horizon;
-  try {
-    j["forecast"] = forecast_to_json(forecast(model, data, {}, options));
-  } catch (const InputError& e) {
-    // Inputs declared known need future values the search does not have.
-    j["forecast"] = nullptr;
-    j["note"] = std::string("no forecast from the end of the data: ") + e.what();
-  }
+  j["forecast"] = f ? forecast_to_json(*f) : nlohmann::json(nullptr);
+  if (!f) j["note"] = note;
   const int tail = std::min(data.rows(), 4 * options.horizon);
   // Observed values only: a missing or interpolated value is written as null (never shown as
   // an observation).
@@ -65,6 +68,26 @@ void write_leader_forecast(const std::filesystem::path& path, const FittedModel&
   j["history"] = {{"time", std::vector<std::string>(data.time.end() - tail, data.time.end())},
                   {"values", values}};
   write_file_atomic(path, j.dump(1) + "\n");
+}
+
+}  // namespace
+
+std::optional<ForecastResult> leader_forecast(const FittedModel& model, const SeriesData& data,
+                                              const RunConfig& config, std::string* note) {
+  try {
+    return forecast(model, data, {}, leader_forecast_options(config));
+  } catch (const InputError& e) {
+    // Inputs declared known need future values the search does not have.
+    if (note) *note = std::string("no forecast from the end of the data: ") + e.what();
+    return std::nullopt;
+  }
+}
+
+void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+                           const SeriesData& data, const RunConfig& config) {
+  std::string note;
+  const auto f = leader_forecast(model, data, config, &note);
+  write_forecast_json(path, f, note, data, leader_forecast_options(config));
 }
 
 std::string no_candidate_reason(const SearchResult& r) {
@@ -123,9 +146,23 @@ void fill_backtest(SeriesSummary& s, const ShortlistBacktest& bt) {
   }
 }
 
+// The leader as a model file (with detected effects: the data with their columns, and the
+// leader's set in its model file), and the data it was fitted on.
+FittedModel leader_model(const SeriesData& fitted, const RunConfig& config, const SearchResult& r,
+                         const std::optional<ShortlistBacktest>& bt) {
+  FittedModel model = make_fitted_model(
+      r.leader, config, fitted,
+      r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
+  if (bt && bt->result.leader >= 0)
+    model.backtest = accuracy_json(bt->result.models[bt->result.leader], bt->options);
+  return model;
+}
+
 void write_series_files(const std::filesystem::path& dir, const SeriesData& data,
                         const RunConfig& config, SearchResult& r,
-                        const std::optional<ShortlistBacktest>& bt, SeriesSummary& s) {
+                        const std::optional<ShortlistBacktest>& bt, const SeriesSummary& s,
+                        const FittedModel* model, const std::optional<ForecastResult>& forecast,
+                        const std::string& forecast_note) {
   if (bt) {
     const auto& res = bt->result;
     write_file_atomic(dir / run_files::kBacktest, backtest_csv(res));
@@ -138,15 +175,9 @@ void write_series_files(const std::filesystem::path& dir, const SeriesData& data
   write_file_atomic(dir / run_files::kLeaderboardCsv, leaderboard_csv(r.rows, config));
   write_file_atomic(dir / run_files::kLeaderboardJson,
                     leaderboard_json(r.rows, config, {r}).dump(1) + "\n");
-  if (s.status != SeriesStatus::ok) return;
-  // With detected effects: the data with their columns, and the leader's set in its model file.
+  if (s.status != SeriesStatus::ok || !model) return;
   const SeriesData fitted = search_data(data, r);
-  FittedModel model = make_fitted_model(
-      r.leader, config, fitted,
-      r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
-  if (bt && bt->result.leader >= 0)
-    model.backtest = accuracy_json(bt->result.models[bt->result.leader], bt->options);
-  save_model(dir / run_files::model_file(r.series, false), model);
+  save_model(dir / run_files::model_file(r.series, false), *model);
   auto fit_json = fit_to_json(r.leader);
   fit_json["series"] = r.series;
   fit_json["frequency"] = data.frequency;
@@ -157,7 +188,25 @@ void write_series_files(const std::filesystem::path& dir, const SeriesData& data
   fit_json["past"] = past_to_json(past);
   write_file_atomic(dir / run_files::kPast, past_csv(past));
   write_file_atomic(dir / run_files::kFit, fit_json.dump(1) + "\n");
-  write_leader_forecast(dir / run_files::kForecast, model, fitted, config);
+  write_forecast_json(dir / run_files::kForecast, forecast, forecast_note, fitted,
+                      leader_forecast_options(config));
+}
+
+// The series' rows of the run-level tables (the headers are written once, by the batch).
+void fill_tables(SeriesTables& t, const std::string& series, const RunConfig& config,
+                 const SearchResult& r, const std::optional<ShortlistBacktest>& bt,
+                 const std::optional<ForecastResult>& forecast) {
+  const auto rows_of = [](const std::string& csv) {
+    const auto eol = csv.find('\n');
+    return eol == std::string::npos ? std::string() : csv.substr(eol + 1);
+  };
+  t.ranking = rows_of(leaderboard_csv(r.rows, config));
+  if (forecast) t.forecasts = forecast_rows(series, *forecast);
+  if (bt) {
+    const std::string csv = accuracy_csv(bt->result);
+    t.accuracy_header = "series," + csv.substr(0, csv.find('\n') + 1);
+    t.accuracy = with_series_column(series, rows_of(csv));
+  }
 }
 
 }  // namespace
@@ -203,7 +252,23 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
       s.status = SeriesStatus::no_usable_candidate;
       s.reason = no_candidate_reason(r);
     }
-    if (!options.folder.empty()) write_series_files(options.folder, data, config, r, bt, s);
+    const bool folder = !options.folder.empty() && (!options.keep_folder || options.keep_folder(s));
+    std::optional<FittedModel> model;
+    std::optional<ForecastResult> forecast;
+    std::string forecast_note;
+    if (s.status == SeriesStatus::ok && (folder || options.tables || !options.model_file.empty())) {
+      const SeriesData fitted = search_data(data, r);
+      model = leader_model(fitted, config, r, bt);
+      if (folder || options.tables) {
+        forecast = leader_forecast(*model, fitted, config, &forecast_note);
+        if (!forecast) s.warnings.push_back(forecast_note);
+      }
+      if (!options.model_file.empty()) save_model(options.model_file, *model);
+    }
+    if (folder)
+      write_series_files(options.folder, data, config, r, bt, s, model ? &*model : nullptr,
+                         forecast, forecast_note);
+    if (options.tables) fill_tables(*options.tables, s.series, config, r, bt, forecast);
   } catch (const Cancelled&) {
     throw;  // not the series' outcome: the whole run stops
   } catch (const InputError& e) {
@@ -240,16 +305,16 @@ std::string summary_csv(const std::vector<SeriesSummary>& rows) {
   std::string out =
       "series,status,reason,rows,first_time,last_time,candidates,usable,leader,inputs,ar,ma,"
       "seasonal_ar,seasonal_ma,constant,criterion,ljung_box_p,backtest_score,benchmark_score,"
-      "benchmark_p,warnings,folder,seconds\n";
+      "benchmark_p,warnings,model_file,folder,seconds\n";
   for (const auto& s : rows)
-    out += fmt::format("{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{:.3f}\n",
+    out += fmt::format("{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{:.3f}\n",
                        csv_field(s.series), to_string(s.status), csv_field(s.reason), s.rows,
                        csv_field(s.first_time), csv_field(s.last_time), s.candidates, s.usable,
                        csv_field(s.leader), csv_field(inputs_text(s)), s.ar, s.ma, s.seasonal_ar,
                        s.seasonal_ma, s.leader.empty() ? "" : (s.constant ? "true" : "false"),
                        fixed(s.criterion), fixed(s.ljung_box_p), fixed(s.backtest_score),
                        fixed(s.benchmark_score), fixed(s.benchmark_p), s.warnings.size(),
-                       csv_field(s.folder), s.seconds);
+                       csv_field(s.model), csv_field(s.folder), s.seconds);
   return out;
 }
 
@@ -273,6 +338,7 @@ nlohmann::json summary_json(const std::vector<SeriesSummary>& rows) {
                     {"status", to_string(s.status)},
                     {"reason", s.reason},
                     {"folder", s.folder},
+                    {"model_file", s.model},
                     {"rows", s.rows},
                     {"first_time", s.first_time},
                     {"last_time", s.last_time},

@@ -10,6 +10,7 @@
 #include <filesystem>
 #include <functional>
 #include <limits>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -18,6 +19,7 @@
 #include "core/config.h"
 #include "core/series.h"
 #include "forecast/fitted_model.h"
+#include "forecast/forecast.h"
 #include "search/journal.h"
 #include "search/search.h"
 
@@ -31,11 +33,27 @@ enum class SeriesStatus {
 };
 const char* to_string(SeriesStatus s);
 
+struct SeriesSummary;
+
+// A series' rows of the run-level tables of a panel (CSV rows without the header; the headers
+// are those of ranking_header, forecasts_header and accuracy_header in batch/tables.h).
+struct SeriesTables {
+  std::string ranking;    // every candidate, ranked, with the series column
+  std::string forecasts;  // the chosen model's forecast from the end of the data
+  std::string accuracy;   // backtest accuracy of the shortlist and benchmarks
+  std::string accuracy_header;  // its header (set with the rows; it depends on the levels)
+};
+
 struct SeriesJobOptions {
   int threads = 0;               // candidate workers: 0 all cores, kInCallerArena in a batch
   bool backtest = true;          // run the config's backtest when it has one
   Journal* journal = nullptr;    // shared by every series of a run (keyed by series)
   std::filesystem::path folder;  // the series' files go here; "" = none written
+  // Asked once the series' outcome is known: false = the folder is not written (a run of many
+  // series writes the folders only of the series that may get a report page). Unset: written.
+  std::function<bool(const SeriesSummary&)> keep_folder;
+  std::filesystem::path model_file;  // the chosen model's file also goes here ("" = not)
+  SeriesTables* tables = nullptr;    // filled with the series' rows of the run-level tables
   std::function<void(int done, int total)> progress;  // per finished candidate
   const std::atomic<bool>* cancel = nullptr;  // set: Cancelled is thrown (search.h), no row
 };
@@ -49,7 +67,8 @@ struct LeaderInput {
 
 struct SeriesSummary {
   std::string series;  // the key (or the target column of a wide panel)
-  std::string folder;  // relative to the run folder, e.g. series/<safe name>
+  std::string folder;  // its page folder relative to the run folder (series/<name>), or ""
+  std::string model;   // its model file relative to the run folder (models/<name>.json), or ""
   SeriesStatus status = SeriesStatus::failed;
   std::string reason;  // empty when ok
   int rows = 0;
@@ -83,6 +102,12 @@ SeriesSummary bad_series_summary(const std::string& series, const std::string& f
 
 // Why a search found no usable candidate: the statuses counted and the most frequent message.
 std::string no_candidate_reason(const SearchResult& r);
+
+// The leader's forecast from the end of the data (horizon: forecast.horizon, else the backtest's,
+// else 12); nullopt with the reason in `note` when it cannot be made (inputs declared known have
+// no future values in a search).
+std::optional<ForecastResult> leader_forecast(const FittedModel& model, const SeriesData& data,
+                                              const RunConfig& config, std::string* note);
 
 // forecast.json: the leader's forecast from the end of the data plus the recent history.
 void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,

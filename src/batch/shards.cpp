@@ -11,6 +11,11 @@
 #include <sstream>
 
 #include "batch/batch.h"
+#include "batch/tables.h"
+#include "forecast/fitted_model.h"
+#include "io/config.h"
+#include "search/journal.h"
+#include "search/journal_rows.h"
 #include "core/error.h"
 #include "io/atomic_file.h"
 #include "io/csv.h"
@@ -41,7 +46,7 @@ std::vector<int> shard_plan(const std::vector<PanelPart>& parts, int shards) {
   std::vector<size_t> order(parts.size());
   std::iota(order.begin(), order.end(), size_t{0});
   std::stable_sort(order.begin(), order.end(), [&](size_t a, size_t b) {
-    const int ra = parts[a].table.row_count(), rb = parts[b].table.row_count();
+    const int ra = parts[a].rows, rb = parts[b].rows;
     return ra != rb ? ra > rb : parts[a].key < parts[b].key;
   });
   std::vector<long long> load(static_cast<size_t>(shards), 0);
@@ -49,7 +54,7 @@ std::vector<int> shard_plan(const std::vector<PanelPart>& parts, int shards) {
   for (const size_t i : order) {
     const auto lightest = std::min_element(load.begin(), load.end()) - load.begin();
     plan[i] = static_cast<int>(lightest);
-    load[lightest] += parts[i].table.row_count();
+    load[lightest] += parts[i].rows;
   }
   return plan;
 }
@@ -62,15 +67,22 @@ std::vector<PanelPart> select_shard(std::vector<PanelPart> parts, const ShardSpe
   return out;
 }
 
+std::string shard_fingerprint(const std::string& panel_fingerprint, const ShardSpec& spec) {
+  return text_fingerprint(fmt::format("{}|shard={}/{}", panel_fingerprint, spec.index, spec.count));
+}
+
 nlohmann::json shard_json(const std::string& panel_fingerprint, const ShardSpec& spec,
-                          const std::vector<PanelPart>& parts) {
+                          const std::vector<PanelPart>& parts, const PanelReportOptions& pages,
+                          const std::vector<std::string>& sample, const RunConfig& config) {
   std::vector<std::string> keys;
   for (const auto& p : parts) keys.push_back(p.key);
   return {{"format", "lagsieve-shard"},
           {"panel_fingerprint", panel_fingerprint},
           {"shard", spec.index},
           {"of", spec.count},
-          {"series", keys}};
+          {"series", keys},
+          {"pages", {{"worst", pages.worst}, {"sample", pages.sample}, {"keys", sample}}},
+          {"config", {{"file", config.config_file.string()}, {"text", config.text}}}};
 }
 
 namespace {
@@ -183,31 +195,67 @@ std::string merge_shards(const fs::path& folder, const std::vector<fs::path>& sh
   std::vector<fs::path> dirs;
   nlohmann::json summaries;
   const std::string fingerprint = check_shards(shards, &dirs, &summaries);
+  const auto head = read_json(dirs.front() / kShardFile, kShardFile);
+  const RunConfig config =
+      parse_config(head.at("config").at("text").get<std::string>(),
+                   head.at("config").at("file").get<std::string>());
+  PanelReportOptions pages;
+  pages.worst = head.at("pages").value("worst", pages.worst);
+  pages.sample = head.at("pages").value("sample", pages.sample);
+  const auto sample = head.at("pages").at("keys").get<std::vector<std::string>>();
+
+  // Where each series' files are: the shard it ran in.
+  std::map<std::string, fs::path> shard_of;
+  for (const auto& dir : dirs) {
+    const auto shard = read_json(dir / kShardFile, kShardFile);
+    for (const auto& key : shard.at("series")) shard_of[key.get<std::string>()] = dir;
+  }
+
+  BatchResult result;
+  for (const auto& row : summaries) result.series.push_back(summary_from_json(row));
+  std::stable_sort(result.series.begin(), result.series.end(),
+                   [](const auto& a, const auto& b) { return a.series < b.series; });
+
+  // Models of every series; the folders of the series with a page in the whole panel (each had
+  // one in its shard: the panel's worst are among their shard's worst, the sample is the panel's).
   for (const auto& dir : dirs)
-    if (fs::exists(dir / kSeriesFolder))
-      fs::copy(dir / kSeriesFolder, folder / kSeriesFolder,
+    if (fs::exists(dir / kModelsFolder))
+      fs::copy(dir / kModelsFolder, folder / kModelsFolder,
                fs::copy_options::recursive | fs::copy_options::overwrite_existing);
+  const auto paged = series_with_pages(result.series, pages, &sample);
+  const std::set<size_t> keep(paged.begin(), paged.end());
+  for (size_t i = 0; i < result.series.size(); ++i) {
+    auto& s = result.series[i];
+    const fs::path from = shard_of[s.series] / s.folder;
+    if (!keep.contains(i) || s.folder.empty() || !fs::is_directory(from)) {
+      s.folder.clear();
+      continue;
+    }
+    fs::create_directories(folder / s.folder);
+    fs::copy(from, folder / s.folder,
+             fs::copy_options::recursive | fs::copy_options::overwrite_existing);
+  }
+
   const auto tables = [&](const char* name) {
     std::vector<fs::path> files;
     for (const auto& dir : dirs) files.push_back(dir / name);
     return merged_table(files);
   };
-  write_file_atomic(folder / kSummaryCsv, tables(kSummaryCsv));
-  write_file_atomic(folder / run_files::kLeaderboardCsv, tables(run_files::kLeaderboardCsv));
-  std::stable_sort(summaries.begin(), summaries.end(), [](const auto& a, const auto& b) {
-    return a.at("series").template get<std::string>() < b.at("series").template get<std::string>();
-  });
-  nlohmann::json counts = nlohmann::json::object();
-  for (const char* s : {"ok", "no_usable_candidate", "bad_data", "failed"}) counts[s] = 0;
-  for (const auto& row : summaries) {
-    const std::string s = row.at("status");
-    counts[s] = counts[s].get<int>() + 1;
+  for (const char* name : {run_files::kLeaderboardCsv, kForecastsCsv, run_files::kAccuracy})
+    if (fs::exists(dirs.front() / name)) write_file_atomic(folder / name, tables(name));
+
+  {
+    Journal journal(folder / run_files::kJournal, fingerprint, false);
+    for (const auto& dir : dirs) {
+      const auto j = read_json(dir / kShardFile, kShardFile);
+      const ShardSpec spec{j.at("shard").get<int>(), j.at("of").get<int>()};
+      for (const auto& row : read_journal_rows(dir / run_files::kJournal,
+                                                shard_fingerprint(fingerprint, spec)))
+        journal.append(row);
+    }
   }
-  write_file_atomic(folder / kSummaryJson, nlohmann::json{{"series_total", summaries.size()},
-                                                          {"by_status", counts},
-                                                          {"series", summaries}}
-                                                   .dump(1) +
-                                               "\n");
+  write_batch_tables(folder, result);
+  write_panel_report(folder, result.series, config, pages, &sample);
   return fingerprint;
 }
 

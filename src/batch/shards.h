@@ -8,6 +8,8 @@
 
 #include <nlohmann/json.hpp>
 
+#include "batch/panel_report.h"
+#include "core/config.h"
 #include "data/panel.h"
 
 namespace lagsieve {
@@ -30,9 +32,15 @@ std::vector<int> shard_plan(const std::vector<PanelPart>& parts, int shards);
 // Keeps the parts of shard `spec` (parts stay sorted by key).
 std::vector<PanelPart> select_shard(std::vector<PanelPart> parts, const ShardSpec& spec);
 
-// shard.json: the run fingerprint of the whole panel, K, N and the series of the shard.
+// The fingerprint of shard `spec` of the run `panel_fingerprint` (its journal and marker).
+std::string shard_fingerprint(const std::string& panel_fingerprint, const ShardSpec& spec);
+
+// shard.json: the run fingerprint of the whole panel, K, N, the series of the shard, the page
+// settings and the panel's sample (so the merge picks the pages a whole run would), and the
+// config (its text and path: the merged panel report needs it).
 nlohmann::json shard_json(const std::string& panel_fingerprint, const ShardSpec& spec,
-                          const std::vector<PanelPart>& parts);
+                          const std::vector<PanelPart>& parts, const PanelReportOptions& pages,
+                          const std::vector<std::string>& sample, const RunConfig& config);
 
 // Checks that `shards` are the completed shards 1..N of one run, each once (InputError naming the
 // folder otherwise: not a completed shard, another config or data, a missing or duplicated
@@ -42,9 +50,10 @@ std::string check_shards(const std::vector<std::filesystem::path>& shards,
                          std::vector<std::filesystem::path>* in_order = nullptr,
                          nlohmann::json* summaries = nullptr);
 
-// Joins shard folders into `folder` (a run folder being staged): series/<name>/ of each shard,
-// summary.csv/json and leaderboard.csv with the rows of every series in key order, as an
-// unsharded run writes them. Throws InputError naming the folder for a folder that is not a
+// Joins shard folders into `folder` (a run folder being staged) as an unsharded run writes it:
+// models/, the ranking, forecasts and accuracy tables with the rows of every series in key order,
+// summary.csv/json, the journal (every shard's rows, checked and signed for the whole run), the
+// panel report, and series/<name>/ of the series that get a page in the whole panel. Throws InputError naming the folder for a folder that is not a
 // completed shard, shards of another config or data, a missing or duplicated shard, or a series
 // in two shards. Returns the panel fingerprint.
 std::string merge_shards(const std::filesystem::path& folder,

@@ -36,14 +36,21 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   if (args.out && args.out->empty()) check_run_dir_path("", "--out");
   const std::filesystem::path out = args.out ? std::filesystem::path(*args.out) : config.output.dir;
   std::vector<PanelPart> parts = load_panel(config, args.series);
-  const std::string panel_fingerprint = batch_fingerprint(config, args.series);
+  const std::string panel_fingerprint = batch_fingerprint(config, parts, args.series);
   std::string fingerprint = panel_fingerprint;
+  PanelReportOptions pages;
+  pages.worst = args.pages_worst;
+  pages.sample = args.pages_sample;
+  // The sample of the whole panel, so that a shard keeps the pages its merge needs.
+  std::vector<std::string> keys;
+  for (const auto& p : parts) keys.push_back(p.key);
+  const std::vector<std::string> sample = sample_keys(keys, pages.sample);
+  keys.clear();
   std::optional<ShardSpec> shard;
   if (args.shard) {
     shard = parse_shard(*args.shard, "--shard");
     parts = select_shard(std::move(parts), *shard);
-    fingerprint = text_fingerprint(
-        fmt::format("{}|shard={}/{}", panel_fingerprint, shard->index, shard->count));
+    fingerprint = shard_fingerprint(panel_fingerprint, *shard);
   }
   RunDir dir(out, {"search", fingerprint, args.resume, args.out ? "--out" : "output.dir"});
   for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
@@ -56,6 +63,8 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   options.backtest = !args.no_backtest;
   options.folder = stage;
   options.journal = &journal;
+  options.pages = pages;
+  options.sample = sample;
   std::optional<ProgressPrinter> printer;
   if (!args.quiet) {
     printer.emplace(ProgressOptions{static_cast<bool>(::isatty(STDERR_FILENO))},
@@ -68,10 +77,11 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   const size_t total = parts.size();
   if (shard)
     write_file_atomic(stage / kShardFile,
-                      shard_json(panel_fingerprint, *shard, parts).dump(1) + "\n");
+                      shard_json(panel_fingerprint, *shard, parts, pages, sample, config).dump(1) +
+                          "\n");
   const BatchResult result = run_batch(config, std::move(parts), options);
   write_batch_tables(stage, result);
-  write_panel_report(stage, result.series, config);
+  write_panel_report(stage, result.series, config, pages, &sample);
 
   const int ok = result.count(SeriesStatus::ok);
   dir.commit(ok == static_cast<int>(total) ? "complete"

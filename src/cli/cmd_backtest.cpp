@@ -36,7 +36,7 @@ struct BacktestArgs {
 };
 
 int run_backtest_command(const BacktestArgs& args) {
-  const LoadedRun run = load_run(args.config);
+  const LoadedRun run = load_run_one(args.config, args.series);
   const RunConfig& config = run.config;
   if (!config.backtest.enabled)
     throw InputError(fmt::format("{}: the config has no `backtest:` section; add one (first_origin, "

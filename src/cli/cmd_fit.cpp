@@ -56,7 +56,7 @@ struct FitArgs {
 };
 
 int run_fit(const FitArgs& args) {
-  const LoadedRun run = load_run(args.config);
+  const LoadedRun run = load_run_one(args.config, args.series);
   const SeriesData& data = pick_series(run, args.series);
   const FitRun fitted = fit_single(run.config, data, args.config);
   const FitResult& fit = fitted.fit;

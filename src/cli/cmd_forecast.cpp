@@ -91,7 +91,11 @@ int run_forecast(const ForecastArgs& args) {
         fmt::format("{}: the model file holds no config text to read data with", args.model));
   const RunConfig config = parse_config(model.training.config_text, model.training.config_file);
   require_file(args.data, "--data");
-  const SeriesData history = load_series_from_csv(config, args.data, model.training.target_column);
+  // A model of one series of a long-format panel reads that series' rows of the --data file.
+  const SeriesData history =
+      config.data.series_key.empty()
+          ? load_series_from_csv(config, args.data, model.training.target_column)
+          : load_panel_history(config, args.data, model.training.target_column);
   std::vector<Scenario> scenarios;
   for (const auto& f : args.futures)
     scenarios.push_back(read_future(f, model, config, history, args.horizon));

@@ -50,7 +50,7 @@ int exit_code(Verdict v) {
 
 int run_revalidate(const RevalidateArgs& args) {
   const FittedModel model = load_model(args.model);
-  const LoadedRun run = load_run(args.config);
+  const LoadedRun run = load_run_one(args.config, model.training.target_column);
   // The series the model was trained on: its target column among the config's targets.
   const SeriesData* data = nullptr;
   std::string targets;

@@ -138,7 +138,7 @@ void print_screen(const ScreenResult& r, bool negative) {
 }
 
 int run_screen(const ScreenArgs& args) {
-  const LoadedRun run = load_run(args.config);
+  const LoadedRun run = load_run_one(args.config, args.series);
   ScreenOptions opt;
   opt.max_lag = args.lags;
   opt.ar_max_order = args.ar_max;

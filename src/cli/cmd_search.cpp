@@ -28,6 +28,12 @@ void register_search(CLI::App& app) {
   cmd->add_option("--shard", args->shard,
                   "Run only shard K of N of the series (K/N, e.g. 2/8) into its own folder; "
                   "join the shards with `lagsieve merge`");
+  cmd->add_option("--pages-worst", args->pages_worst,
+                  "Panels: series per 'worst' table of the report, each given a page (default 10)")
+      ->check(CLI::Range(0, 100000));
+  cmd->add_option("--pages-sample", args->pages_sample,
+                  "Panels: further series, spread over the keys, given a page (default 5)")
+      ->check(CLI::Range(0, 100000));
   cmd->add_flag("--no-backtest", args->no_backtest, "Skip the backtest even if the config has one");
   cmd->callback([args] { finish(run_command([&] { return run_search_command(*args); })); });
 }

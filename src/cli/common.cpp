@@ -8,7 +8,9 @@
 
 #include "core/error.h"
 #include "core/names.h"
+#include "batch/batch.h"
 #include "data/load.h"
+#include "data/panel.h"
 #include "io/config.h"
 
 namespace lagsieve::cli {
@@ -66,13 +68,70 @@ void select_target_columns(RunConfig& config, const std::vector<std::string>& on
   });
 }
 
+namespace {
+
+// One series of a long-format panel, named by --series (fit, backtest, screen, revalidate work on
+// one series; `search` runs them all).
+void load_panel_run(LoadedRun& run, const std::vector<std::string>& only) {
+  const RunConfig& config = run.config;
+  if (only.empty()) {
+    const auto parts = load_panel(config, {});
+    std::string examples;
+    for (size_t i = 0; i < parts.size() && i < 3; ++i)
+      examples += fmt::format("{}'{}'", i ? ", " : "", parts[i].key);
+    throw InputError(fmt::format(
+        "{}: data.series_key '{}' makes {} a panel of {} series{}; this command works on one: "
+        "give --series NAME (a value of column '{}'), or run every series with `lagsieve search`",
+        config.config_file.string(), config.data.series_key, config.data.file.string(),
+        parts.size(), examples.empty() ? "" : " (" + examples + (parts.size() > 3 ? ", ..." : "") + ")",
+        config.data.series_key));
+  }
+  for (const auto& part : load_panel(config, only)) {
+    RunConfig own = config;
+    try {
+      run.series.push_back(load_panel_series(own, part));
+    } catch (const InputError& e) {
+      throw InputError(fmt::format("series '{}' ({} '{}'): {}", part.key, "data.series_key",
+                                   config.data.series_key, e.what()));
+    }
+  }
+}
+
+}  // namespace
+
 LoadedRun load_run(const std::filesystem::path& config_file, const std::vector<std::string>& only) {
   LoadedRun run;
   run.config = load_config(config_file);
+  if (!run.config.data.series_key.empty()) {
+    load_panel_run(run, only);
+    apply_seasonal_default(run.config, run.series.front());
+    return run;
+  }
   select_target_columns(run.config, only);
   run.series = load_series(run.config);
   apply_seasonal_default(run.config, run.series.front());
   return run;
+}
+
+SeriesData load_panel_history(const RunConfig& config, const std::filesystem::path& csv,
+                              const std::string& key) {
+  RunConfig own = config;
+  own.data.file = csv;
+  auto parts = index_panel(csv, config.data.series_key, "data.series_key");
+  const auto it = std::find_if(parts.begin(), parts.end(),
+                               [&](const PanelPart& p) { return p.key == key; });
+  if (it == parts.end())
+    throw InputError(fmt::format(
+        "{}: no rows of series '{}' (column '{}', data.series_key of the model's config); give "
+        "a file with that series' rows",
+        csv.string(), key, config.data.series_key));
+  return load_panel_series(own, *it);
+}
+
+LoadedRun load_run_one(const std::filesystem::path& config_file, const std::string& series) {
+  if (load_config(config_file).data.series_key.empty()) return load_run(config_file);
+  return load_run(config_file, series.empty() ? std::vector<std::string>{}
+                                              : std::vector<std::string>{series});
 }
 
 }  // namespace lagsieve::cli

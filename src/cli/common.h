@@ -42,10 +42,22 @@ void require_file(const std::string& path, const std::string& option);
 
 // Reads and validates the config, then loads and checks the data of every target column (only
 // the columns in `only` when it is not empty: `--series` on a wide panel).
+// With `data.series_key` (a long-format panel) `only` names the series to load (its keys); without
+// it the command is refused, naming the key and what to give (--series NAME).
 LoadedRun load_run(const std::filesystem::path& config_file,
                    const std::vector<std::string>& only = {});
 
 // Keeps only the target columns named in `only` (each must be one: InputError naming it).
 void select_target_columns(RunConfig& config, const std::vector<std::string>& only);
+
+// For the commands that work on one series (fit, backtest, screen, revalidate): on a long-format
+// panel the series `series` (its key; required), otherwise load_run of every target column (the
+// command picks `series` among them).
+LoadedRun load_run_one(const std::filesystem::path& config_file, const std::string& series);
+
+// The rows of series `key` of a long-format file `csv` (the key column of config.data.series_key),
+// checked as the series of a search; InputError naming the file and key when it has no such rows.
+SeriesData load_panel_history(const RunConfig& config, const std::filesystem::path& csv,
+                              const std::string& key);
 
 }  // namespace lagsieve::cli

@@ -22,6 +22,8 @@ struct SearchArgs {
   bool no_backtest = false;
   std::vector<std::string> series;   // --series: run only these (keys, or target columns)
   std::optional<std::string> shard;  // --shard K/N (long-format panels)
+  int pages_worst = 10;   // --pages-worst: series listed per "worst" table and given a page
+  int pages_sample = 5;   // --pages-sample: further series, spread over the keys, given a page
 };
 
 // Progress line on stderr, only when stderr is a terminal and not --quiet.

@@ -417,8 +417,8 @@ std::vector<SeriesData> load_series(const RunConfig& config) {
   if (!config.data.series_key.empty())
     throw InputError(fmt::format(
         "{}: data.series_key: a long-format panel (one row per series and time) is run by "
-        "`lagsieve search` and checked by `lagsieve validate`; for one series, write its rows to "
-        "a file of its own",
+        "`lagsieve search` and checked by `lagsieve validate`; fit, backtest, screen and "
+        "revalidate take one of its series with --series NAME",
         config.config_file.string()));
   const CsvTable table = read_csv(config.data.file);
   std::vector<SeriesData> out;

@@ -1,10 +1,12 @@
 #include "io/csv.h"
+#include "io/csv_scan.h"
 
 #include <algorithm>
 
 #include <fmt/format.h>
 
 #include <cmath>
+#include <cstdint>
 
 #include <fstream>
 #include <sstream>
@@ -24,9 +26,20 @@ std::string_view trim(std::string_view s) {
 // One pass over the text, record by record. A record ends at an unquoted line break.
 class Parser {
  public:
-  Parser(std::string_view text, const std::string& source) : text_(text), source_(source) {
-    if (text_.starts_with("\xEF\xBB\xBF")) text_.remove_prefix(3);
+  Parser(std::string_view text, const std::string& source, int first_line = 1,
+         bool strip_bom = true)
+      : text_(text), source_(source), line_(first_line) {
+    if (strip_bom && text_.starts_with("\xEF\xBB\xBF")) {
+      text_.remove_prefix(3);
+      skipped_ = 3;
+    }
   }
+
+  // Byte offsets in the text given (a byte-order mark included) of the record `next` read last:
+  // where it starts and where the next one may start.
+  size_t record_begin() const { return skipped_ + record_begin_; }
+  size_t record_end() const { return skipped_ + pos_; }
+  int line() const { return line_; }
 
   // Reads the next non-blank record into `fields`; false at end of input. `start_line` receives
   // the line the record starts on.
@@ -34,6 +47,7 @@ class Parser {
     while (pos_ < text_.size()) {
       fields.clear();
       start_line = line_;
+      record_begin_ = pos_;
       bool blank = true;
       for (;;) {
         bool quoted = false;
@@ -123,7 +137,63 @@ class Parser {
   const std::string& source_;
   size_t pos_ = 0;
   int line_ = 1;
+  size_t skipped_ = 0, record_begin_ = 0;
 };
+
+[[noreturn]] void fail_nul(std::string_view text, size_t nul, const std::string& source,
+                           int first_line) {
+  const auto head = text.substr(0, nul);
+  const auto line = first_line + std::count(head.begin(), head.end(), '\n');
+  const auto line_start = head.rfind('\n');
+  const auto column = nul - (line_start == std::string_view::npos ? 0 : line_start + 1) + 1;
+  throw InputError(
+      fmt::format("{}:{}: a NUL byte at character {} of the line; the file is not "
+                  "plain text (saved as UTF-16 or binary?); save it as UTF-8 CSV",
+                  source, line, column));
+}
+
+void check_width(const std::vector<std::string>& fields, size_t width, const std::string& source,
+                 int line) {
+  if (fields.size() != width)
+    throw InputError(fmt::format(
+        "{}:{}: row has {} cell{} but the header has {} columns; every row needs one cell per "
+        "column (leave a cell empty for a missing value)",
+        source, line, fields.size(), fields.size() == 1 ? "" : "s", width));
+}
+
+void check_header(const std::vector<std::string>& header, const std::string& source, int line) {
+  std::unordered_set<std::string> seen;
+  for (size_t c = 0; c < header.size(); ++c) {
+    const auto& name = header[c];
+    if (name.empty())
+      throw InputError(
+          fmt::format("{}:{}: column {} of the header has no name; give every "
+                      "column a name",
+                      source, line, c + 1));
+    if (!seen.insert(name).second)
+      throw InputError(
+          fmt::format("{}:{}: column name '{}' appears twice in the header; column "
+                      "names must be unique",
+                      source, line, name));
+  }
+}
+
+std::ifstream open_data_file(const std::filesystem::path& file) {
+  std::error_code ec;
+  if (!std::filesystem::exists(file, ec))
+    throw InputError(
+        fmt::format("data file '{}' does not exist; check `data.file` (paths are "
+                    "relative to the config file)",
+                    file.string()));
+  if (std::filesystem::is_directory(file, ec))
+    throw InputError(fmt::format("data file '{}' is a folder, not a CSV file; check `data.file`",
+                                 file.string()));
+  std::ifstream in(file, std::ios::binary);
+  if (!in)
+    throw InputError(
+        fmt::format("cannot read data file '{}'; check its permissions", file.string()));
+  return in;
+}
 
 }  // namespace
 
@@ -140,16 +210,8 @@ std::string CsvTable::where(int r) const {
 CsvTable parse_csv(std::string_view text, const std::string& source) {
   // A NUL byte is never text: the file is binary or in a wide encoding (UTF-16). Quoting the
   // cell would cut the message at the NUL, so the spot is named instead.
-  if (const auto nul = text.find('\0'); nul != std::string_view::npos) {
-    const auto head = text.substr(0, nul);
-    const auto line = 1 + std::count(head.begin(), head.end(), '\n');
-    const auto line_start = head.rfind('\n');
-    const auto column = nul - (line_start == std::string_view::npos ? 0 : line_start + 1) + 1;
-    throw InputError(
-        fmt::format("{}:{}: a NUL byte at character {} of the line; the file is not "
-                    "plain text (saved as UTF-16 or binary?); save it as UTF-8 CSV",
-                    source, line, column));
-  }
+  if (const auto nul = text.find('\0'); nul != std::string_view::npos)
+    fail_nul(text, nul, source, 1);
   CsvTable table;
   table.source = source;
   Parser parser(text, table.source);
@@ -159,27 +221,10 @@ CsvTable parse_csv(std::string_view text, const std::string& source) {
         fmt::format("{}: the file is empty; it needs a header row of column names "
                     "and at least one data row",
                     source));
-  std::unordered_set<std::string> seen;
-  for (size_t c = 0; c < table.header.size(); ++c) {
-    const auto& name = table.header[c];
-    if (name.empty())
-      throw InputError(
-          fmt::format("{}:{}: column {} of the header has no name; give every "
-                      "column a name",
-                      source, line, c + 1));
-    if (!seen.insert(name).second)
-      throw InputError(
-          fmt::format("{}:{}: column name '{}' appears twice in the header; column "
-                      "names must be unique",
-                      source, line, name));
-  }
+  check_header(table.header, source, line);
   std::vector<std::string> fields;
   while (parser.next(fields, line)) {
-    if (fields.size() != table.header.size())
-      throw InputError(fmt::format(
-          "{}:{}: row has {} cell{} but the header has {} columns; every row needs one cell per "
-          "column (leave a cell empty for a missing value)",
-          source, line, fields.size(), fields.size() == 1 ? "" : "s", table.header.size()));
+    check_width(fields, table.header.size(), source, line);
     table.rows.push_back(fields);
     table.lines.push_back(line);
   }
@@ -187,22 +232,100 @@ CsvTable parse_csv(std::string_view text, const std::string& source) {
 }
 
 CsvTable read_csv(const std::filesystem::path& file) {
-  std::error_code ec;
-  if (!std::filesystem::exists(file, ec))
-    throw InputError(
-        fmt::format("data file '{}' does not exist; check `data.file` (paths are "
-                    "relative to the config file)",
-                    file.string()));
-  if (std::filesystem::is_directory(file, ec))
-    throw InputError(fmt::format("data file '{}' is a folder, not a CSV file; check `data.file`",
-                                 file.string()));
-  std::ifstream in(file, std::ios::binary);
-  if (!in)
-    throw InputError(
-        fmt::format("cannot read data file '{}'; check its permissions", file.string()));
+  std::ifstream in = open_data_file(file);
   std::ostringstream buffer;
   buffer << in.rdbuf();
   return parse_csv(buffer.str(), file.string());
+}
+
+CsvScan scan_csv(const std::filesystem::path& file, const CsvRowVisitor& on_row,
+                 size_t block_bytes) {
+  std::ifstream in = open_data_file(file);
+  CsvScan scan;
+  scan.source = file.string();
+  std::uint64_t hash = 1469598103934665603ULL;  // FNV-1a over the bytes, as text_fingerprint
+  std::string buffer;       // whole records not yet parsed, starting at a record boundary
+  std::uint64_t base = 0;   // file offset of buffer[0]
+  int line = 1;             // file line of buffer[0]
+  bool first = true, have_header = false, in_quotes = false;
+  size_t scanned = 0;       // bytes of buffer already scanned for the quote state
+  std::vector<std::string> fields;
+  std::vector<char> block(std::max<size_t>(block_bytes, 16));
+  const auto parse = [&](size_t cut) {
+    const std::string_view text(buffer.data(), cut);
+    if (const auto nul = text.find('\0'); nul != std::string_view::npos)
+      fail_nul(text, nul, scan.source, line);
+    Parser parser(text, scan.source, line, first);
+    first = false;
+    int start = 0;
+    while (parser.next(fields, start)) {
+      if (!have_header) {
+        check_header(fields, scan.source, start);
+        scan.header = fields;
+        have_header = true;
+        continue;
+      }
+      check_width(fields, scan.header.size(), scan.source, start);
+      on_row(scan, fields, CsvSpan{base + parser.record_begin(),
+                             static_cast<std::uint64_t>(parser.record_end() -
+                                                        parser.record_begin()),
+                             start});
+    }
+    line = parser.line();
+    base += cut;
+    buffer.erase(0, cut);
+    scanned -= cut;
+  };
+  for (;;) {
+    in.read(block.data(), static_cast<std::streamsize>(block.size()));
+    const auto got = static_cast<size_t>(in.gcount());
+    if (got == 0) break;
+    scan.bytes += got;
+    for (size_t i = 0; i < got; ++i) hash = (hash ^ static_cast<unsigned char>(block[i])) * 1099511628211ULL;
+    buffer.append(block.data(), got);
+    // The last line break outside quotes ends the whole records of the buffer. Quotes toggle the
+    // state exactly ("" inside a quoted cell toggles twice; an unquoted cell has none).
+    size_t cut = 0;
+    for (; scanned < buffer.size(); ++scanned) {
+      const char c = buffer[scanned];
+      if (c == '"') in_quotes = !in_quotes;
+      else if (c == '\n' && !in_quotes) cut = scanned + 1;
+    }
+    if (cut > 0) parse(cut);
+  }
+  if (!buffer.empty()) parse(buffer.size());
+  if (!have_header)
+    throw InputError(
+        fmt::format("{}: the file is empty; it needs a header row of column names "
+                    "and at least one data row",
+                    scan.source));
+  scan.fingerprint = fmt::format("fnv1a64:{:016x}", hash);
+  return scan;
+}
+
+void read_csv_spans(const std::filesystem::path& file, const std::vector<CsvSpan>& spans,
+                    CsvTable& into) {
+  std::ifstream in = open_data_file(file);
+  std::string text;
+  std::vector<std::string> fields;
+  for (const auto& span : spans) {
+    text.resize(span.length);
+    in.clear();
+    in.seekg(static_cast<std::streamoff>(span.offset));
+    in.read(text.data(), static_cast<std::streamsize>(span.length));
+    if (static_cast<std::uint64_t>(in.gcount()) != span.length)
+      throw InputError(fmt::format(
+          "{}: the file changed while the run was reading it (line {} is gone); run again on a "
+          "file that stays as it is",
+          file.string(), span.line));
+    Parser parser(text, into.source, span.line, false);
+    int start = 0;
+    while (parser.next(fields, start)) {
+      check_width(fields, into.header.size(), into.source, start);
+      into.rows.push_back(fields);
+      into.lines.push_back(start);
+    }
+  }
 }
 
 std::string csv_field(const std::string& text) {

@@ -10,6 +10,7 @@
 #include "backtest/backtest.h"
 #include "model/likelihood.h"
 #include "search/candidates.h"
+#include "search/journal_rows.h"
 
 namespace lagsieve {
 
@@ -29,7 +30,7 @@ std::string regressor_key(const ModelSpec& spec) {
 }  // namespace
 
 nlohmann::json journal_json(const CandidateRow& row) {
-  nlohmann::json j = to_json(row);
+  nlohmann::json j = journal_row(row);  // the compact line, plus the warm start
   if (!row.nonlinear.empty()) j["nonlinear"] = row.nonlinear;
   return j;
 }

@@ -1,4 +1,5 @@
 #include "search/journal.h"
+#include "search/journal_rows.h"
 
 #include <fcntl.h>
 #include <unistd.h>
@@ -37,51 +38,66 @@ std::string Journal::row_checksum(const std::string& run_fingerprint, const nloh
   return text_fingerprint(run_fingerprint + "\n" + body.dump());
 }
 
+std::vector<nlohmann::json> read_journal_rows(const std::filesystem::path& path,
+                                              const std::string& run_fingerprint,
+                                              std::vector<std::string>* notes,
+                                              bool* has_header) {
+  std::vector<nlohmann::json> rows;
+  std::ifstream in(path);
+  if (!in) return rows;
+  std::string line;
+  bool header = true;
+  int line_no = 0, untrusted = 0;
+  std::string first_untrusted;
+  while (std::getline(in, line)) {
+    ++line_no;
+    nlohmann::json j;
+    try {
+      j = nlohmann::json::parse(line);
+    } catch (const nlohmann::json::parse_error&) {
+      continue;  // a torn line from a killed run
+    }
+    if (header) {
+      header = false;
+      if (!j.is_object() || j.value("format", "") != kJournalFormat ||
+          j.value("run", "") != run_fingerprint)
+        throw InputError(fmt::format(
+            "{}: this journal belongs to another run (different config or data); remove it or "
+            "choose another --out folder to start afresh",
+            path.string()));
+      continue;
+    }
+    if (!j.is_object() || !j.contains("series") || !j["series"].is_string() ||
+        !j.contains("key") || !j["key"].is_string())
+      continue;
+    if (!j.contains("check") || !j["check"].is_string() ||
+        j["check"].get<std::string>() != Journal::row_checksum(run_fingerprint, j)) {
+      if (untrusted++ == 0)
+        first_untrusted = fmt::format("line {} ({})", line_no, j["key"].get<std::string>());
+      continue;
+    }
+    rows.push_back(std::move(j));
+  }
+  if (untrusted > 0 && notes)
+    notes->push_back(fmt::format(
+        "{}: {} row(s) fail their checksum (edited or damaged; the first at {}); those "
+        "candidates are fitted again",
+        path.string(), untrusted, first_untrusted));
+  if (has_header) *has_header = !header;
+  return rows;
+}
+
 Journal::Journal(std::filesystem::path path, const std::string& run_fingerprint, bool resume)
     : path_(std::move(path)), run_(run_fingerprint) {
   std::filesystem::create_directories(path_.parent_path().empty() ? "." : path_.parent_path());
   bool keep = false;
   if (resume && std::filesystem::exists(path_)) {
-    std::ifstream in(path_);
-    std::string line;
-    bool header = true;
-    int line_no = 0, untrusted = 0;
-    std::string first_untrusted;
-    while (std::getline(in, line)) {
-      ++line_no;
-      nlohmann::json j;
-      try {
-        j = nlohmann::json::parse(line);
-      } catch (const nlohmann::json::parse_error&) {
-        continue;  // a torn line from a killed run
-      }
-      if (header) {
-        header = false;
-        if (!j.is_object() || j.value("format", "") != kJournalFormat ||
-            j.value("run", "") != run_fingerprint)
-          throw InputError(fmt::format(
-              "{}: this journal belongs to another run (different config or data); remove it or "
-              "choose another --out folder to start afresh",
-              path_.string()));
-        continue;
-      }
-      if (!j.is_object() || !j.contains("series") || !j["series"].is_string() ||
-          !j.contains("key") || !j["key"].is_string())
-        continue;
-      if (!j.contains("check") || !j["check"].is_string() ||
-          j["check"].get<std::string>() != row_checksum(run_fingerprint, j)) {
-        if (untrusted++ == 0)
-          first_untrusted = fmt::format("line {} ({})", line_no, j["key"].get<std::string>());
-        continue;
-      }
-      rows_[{j["series"].get<std::string>(), j["key"].get<std::string>()}] = j;
+    for (auto& j : read_journal_rows(path_, run_fingerprint, &notes_, &keep)) {
+      // The key first: the right side of an assignment is evaluated (moved from) before the left.
+      std::pair<std::string, std::string> key{j["series"].get<std::string>(),
+                                              j["key"].get<std::string>()};
+      rows_[std::move(key)] = std::move(j);
     }
-    if (untrusted > 0)
-      notes_.push_back(fmt::format(
-          "{}: {} row(s) fail their checksum (edited or damaged; the first at {}); those "
-          "candidates are fitted again",
-          path_.string(), untrusted, first_untrusted));
-    keep = !header;
   }
   fd_ = ::open(path_.c_str(), O_WRONLY | O_CREAT | O_APPEND | (keep ? 0 : O_TRUNC), 0644);
   if (fd_ < 0)

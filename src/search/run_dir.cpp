@@ -207,6 +207,8 @@ bool is_run_entry(const std::string& name) {
                                       "challenger_model.json",
                                       // runs of many series (src/batch/)
                                       "series",
+                                      "models",
+                                      "forecasts.csv",
                                       "summary.csv",
                                       "summary.json",
                                       "shard.json"};

@@ -21,6 +21,7 @@
 #include "search/candidates.h"
 #include "search/evaluator.h"
 #include "search/guided.h"
+#include "search/journal_rows.h"
 #include "search/search_outliers.h"
 
 namespace lagsieve {
@@ -76,6 +77,18 @@ json to_json(const CandidateRow& r) {
   }
   if (!r.selection.empty()) j["selection"] = r.selection;
   if (!r.effects.empty()) j["effects"] = r.effects;
+  return j;
+}
+
+json journal_row(const CandidateRow& r) {
+  // The spec is the key's (the journal is read back against the specs of the config), the rank is
+  // not known yet: only what the fit found.
+  json j = {{"series", r.series}, {"key", r.key},           {"status", to_string(r.status)},
+            {"loglik", num(r.loglik)}, {"aic", num(r.aic)}, {"aicc", num(r.aicc)},
+            {"bic", num(r.bic)},     {"n_obs", r.n_obs},   {"n_params", r.n_params},
+            {"ljung_box_p", num(r.ljung_box_p)}, {"seconds", r.seconds},
+            {"evaluations", r.evaluations}};
+  if (!r.message.empty()) j["message"] = r.message;
   return j;
 }
 

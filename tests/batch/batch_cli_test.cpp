@@ -5,6 +5,7 @@
 
 #include <filesystem>
 #include <fstream>
+#include <set>
 
 #include <nlohmann/json.hpp>
 
@@ -50,7 +51,7 @@ TEST(BatchCli, BadSeriesAreReportedTheOthersFinishAndTheExitCodeSaysSo) {
     const bool bad = row[0] == "dry" || row[0] == "new";
     EXPECT_EQ(row[status], bad ? "bad_data" : "ok") << row[0];
     EXPECT_EQ(row[reason].empty(), !bad) << row[0] << ": " << row[reason];
-    EXPECT_EQ(fs::exists(dir / "run" / "series" / row[0] / "model.json"), !bad) << row[0];
+    EXPECT_EQ(fs::exists(dir / "run" / "models" / (row[0] + ".json")), !bad) << row[0];
   }
   // One ranking table over every series that was searched, with the series column.
   const CsvTable lb = read_csv(dir / "run" / "leaderboard.csv");
@@ -94,6 +95,143 @@ TEST(BatchCli, ValidateReportsEveryBadSeries) {
   EXPECT_NE(r.err.find("2 of 5 series"), std::string::npos) << r.err;
   const auto subset = run_lagsieve(dir, "validate panel.yaml --series zone_001");
   EXPECT_EQ(subset.code, 0) << subset.out << subset.err;
+}
+
+// A panel's run folder stays a few files plus models/: one table each for the ranking, the
+// forecasts and the backtest accuracy (series column first), a compact journal, and a folder only
+// for the series with a report page.
+TEST(BatchCli, RunFolderOfAPanelIsAFewLongTablesAndTheModels) {
+  const fs::path dir = fs::temp_directory_path() / "lagsieve_batch_cli_layout";
+  fs::remove_all(dir);
+  fs::create_directories(dir);
+  std::ofstream(dir / "panel.csv") << testing::panel_csv(12, 150);
+  // The drivers' futures are forecast (with future: known, the default, a search has no future
+  // values and a series gets no forecast rows; its summary warning says why).
+  std::string config = testing::panel_config(
+      "panel.csv",
+      "backtest:\n  first_origin: 120\n  step: 10\n  horizon: 3\n  shortlist: 2\n  refit: 0\n"
+      "forecast:\n  horizon: 4\n");
+  for (const std::string column : {"temp", "rain"}) {
+    const std::string at = "  - column: " + column + "\n";
+    config.insert(config.find(at) + at.size(), "    future: forecast\n");
+  }
+  std::ofstream(dir / "panel.yaml") << config;
+  const auto r =
+      run_lagsieve(dir, "search panel.yaml --out run --quiet --pages-worst 1 --pages-sample 1");
+  ASSERT_EQ(r.code, 0) << r.out << r.err;
+  std::set<std::string> top;
+  for (const auto& e : fs::directory_iterator(dir / "run")) top.insert(e.path().filename().string());
+  top.erase("lagsieve.lock");
+  EXPECT_EQ(top, (std::set<std::string>{"accuracy.csv", "forecasts.csv", "journal.jsonl",
+                                        "leaderboard.csv", "models", "report.html", "run.json",
+                                        "series", "summary.csv", "summary.json"}));
+  int models = 0;
+  for (const auto& e : fs::directory_iterator(dir / "run" / "models")) {
+    (void)e;
+    ++models;
+  }
+  EXPECT_EQ(models, 12);
+  int pages = 0;
+  const std::string report = slurp(dir / "run" / "report.html");
+  for (const auto& e : fs::directory_iterator(dir / "run" / "series")) {
+    EXPECT_TRUE(fs::exists(e.path() / "report.html")) << e.path();
+    // Every page is linked from the panel report (the worst tables, or the sample).
+    EXPECT_NE(report.find("series/" + e.path().filename().string() + "/report.html"),
+              std::string::npos)
+        << e.path();
+    ++pages;
+  }
+  EXPECT_GE(pages, 1);
+  EXPECT_LE(pages, 3);  // worst by score, worst by residuals, one sample
+  const CsvTable summary = read_csv(dir / "run" / "summary.csv");
+  const int folder = summary.column_index("folder"), model = summary.column_index("model_file");
+  int with_folder = 0;
+  for (const auto& row : summary.rows) {
+    EXPECT_EQ(row[model], "models/" + row[0] + ".json");
+    with_folder += row[folder].empty() ? 0 : 1;
+  }
+  EXPECT_EQ(with_folder, pages);
+
+  const CsvTable forecasts = read_csv(dir / "run" / "forecasts.csv");
+  EXPECT_EQ(forecasts.header.front(), "series");
+  for (const char* c : {"time", "horizon", "point", "lower_80", "upper_95", "known_lower_95"})
+    EXPECT_GE(forecasts.column_index(c), 0) << c;
+  EXPECT_EQ(forecasts.row_count(), 12 * 4);
+  EXPECT_EQ(forecasts.rows.front()[0], "zone_000");
+  EXPECT_EQ(forecasts.rows.back()[0], "zone_011");
+  const CsvTable accuracy = read_csv(dir / "run" / "accuracy.csv");
+  EXPECT_EQ(accuracy.header.front(), "series");
+  EXPECT_GE(accuracy.column_index("mase"), 0);
+  EXPECT_GT(accuracy.row_count(), 12);
+  const CsvTable ranking = read_csv(dir / "run" / "leaderboard.csv");
+  EXPECT_EQ(ranking.row_count(), 12 * 64);
+  EXPECT_EQ(ranking.header.front(), "series");
+
+  // The journal: one line per finished candidate, only the fit's outcome.
+  std::ifstream journal(dir / "run" / "journal.jsonl");
+  std::string line;
+  int lines = 0;
+  std::getline(journal, line);  // the header
+  while (std::getline(journal, line)) {
+    if (line.empty()) continue;
+    ++lines;
+    const auto j = nlohmann::json::parse(line);
+    EXPECT_FALSE(j.contains("noise")) << line;
+    EXPECT_FALSE(j.contains("inputs")) << line;
+    EXPECT_LT(line.size(), 600u) << line;  // a fit's message is the longest part
+  }
+  EXPECT_EQ(lines, 12 * 64);
+
+  // Resumed: the same tables, nothing fitted again.
+  const std::string first = slurp(dir / "run" / "forecasts.csv");
+  const auto again = run_lagsieve(
+      dir, "search panel.yaml --out run --quiet --resume --pages-worst 1 --pages-sample 1");
+  ASSERT_EQ(again.code, 0) << again.err;
+  EXPECT_EQ(slurp(dir / "run" / "forecasts.csv"), first);
+  const auto resumed = nlohmann::json::parse(slurp(dir / "run" / "summary.json"));
+  for (const auto& row : resumed.at("series")) EXPECT_EQ(row.at("fitted"), 0) << row.dump();
+}
+
+// fit, backtest and screen work on one series of a panel: --series names it; without it the
+// command says which key makes the file a panel and what to give. forecast reads the model's
+// series from a long-format file.
+TEST(BatchCli, OneSeriesCommandsTakeTheSeriesOfAPanel) {
+  const fs::path dir = panel_folder("one_series");
+  auto r = run_lagsieve(dir, "fit panel.yaml");
+  EXPECT_EQ(r.code, 2) << r.out << r.err;
+  EXPECT_NE(r.err.find("data.series_key 'zone'"), std::string::npos) << r.err;
+  EXPECT_NE(r.err.find("--series NAME"), std::string::npos) << r.err;
+  EXPECT_NE(r.err.find("'dry', 'new', 'zone_000'"), std::string::npos) << r.err;
+  // One model (fit takes no ranges): temp at b = 1, AR(1); the drivers' futures forecast.
+  std::string one = slurp(dir / "panel.yaml");
+  for (const auto& [from, to] : std::vector<std::pair<std::string, std::string>>{
+           {"delay: [0, 3]", "delay: 1"},
+           {"numerator: [0, 1]", "numerator: 0"},
+           {"denominator: [0, 1]", "denominator: 0"},
+           {"ar: [0, 1]", "ar: 1"},
+           {"    optional: true\n", ""},
+           {"  - column: temp\n", "  - column: temp\n    future: forecast\n"},
+           {"  - column: rain\n", "  - column: rain\n    future: forecast\n"}})
+    one.replace(one.find(from), from.size(), to);
+  std::ofstream(dir / "one.yaml") << one;
+  r = run_lagsieve(dir, "fit one.yaml --series zone_001 --save m1.json");
+  EXPECT_EQ(r.code, 0) << r.out << r.err;
+  EXPECT_TRUE(fs::exists(dir / "m1.json"));
+  r = run_lagsieve(dir, "fit panel.yaml --series dry");
+  EXPECT_EQ(r.code, 2) << r.out << r.err;
+  EXPECT_NE(r.err.find("series 'dry'"), std::string::npos) << r.err;
+  EXPECT_NE(r.err.find("constant"), std::string::npos) << r.err;
+  r = run_lagsieve(dir, "screen panel.yaml --series zone_002");
+  EXPECT_EQ(r.code, 0) << r.out << r.err;
+  // A model of the panel run forecasts its own series from the long file.
+  r = run_lagsieve(dir, "forecast m1.json --data panel.csv --horizon 3");
+  EXPECT_EQ(r.code, 0) << r.out << r.err;
+  // The model of a panel run, of its own series: with future: known (panel.yaml) its inputs'
+  // future values are asked for, so the series' rows were read.
+  ASSERT_EQ(run_lagsieve(dir, "search panel.yaml --out run --quiet --series zone_002").code, 0);
+  r = run_lagsieve(dir, "forecast run/models/zone_002.json --data panel.csv --horizon 3");
+  EXPECT_EQ(r.code, 2) << r.out << r.err;
+  EXPECT_NE(r.err.find("input 'temp' is known in the future"), std::string::npos) << r.err;
 }
 
 }  // namespace

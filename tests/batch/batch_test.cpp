@@ -150,8 +150,8 @@ TEST(BatchIsolation, BadSeriesAreRowsWithReasonsAndTheOthersFinish) {
       EXPECT_NE(s.reason.find("too few"), std::string::npos) << s.reason;
     } else {
       EXPECT_EQ(s.status, SeriesStatus::ok) << s.reason;
-      EXPECT_TRUE(fs::exists(options.folder / s.folder / "model.json")) << s.folder;
-      EXPECT_TRUE(fs::exists(options.folder / s.folder / "forecast.json")) << s.folder;
+      EXPECT_EQ(s.model, "models/" + s.series + ".json");
+      EXPECT_TRUE(fs::exists(options.folder / s.model)) << s.model;
     }
   }
   // check_panel (validate) reports both bad series, not only the first.
@@ -199,8 +199,8 @@ TEST(BatchThreads, OneAndTwoThreadsGiveIdenticalOutputs) {
     ASSERT_GE(timing, 0);
     for (const auto& row : lb.rows)
       for (int c = 0; c < lb.columns(); ++c) leaderboard[k] += (c == timing ? "" : row[c]) + ",";
-    for (const auto& s : r.series)
-      backtest[k] += testing::slurp(options.folder / s.folder / "backtest.csv");
+    backtest[k] = testing::slurp(options.folder / "accuracy.csv") +
+                  testing::slurp(options.folder / "forecasts.csv");
   }
   EXPECT_EQ(summary[0], summary[1]);
   EXPECT_EQ(leaderboard[0], leaderboard[1]);

@@ -3,6 +3,8 @@
 // merge refuses a missing or duplicated shard and shards of other data.
 #include <gtest/gtest.h>
 
+#include <set>
+
 #include <filesystem>
 #include <fstream>
 
@@ -21,7 +23,7 @@ using testing::run_lagsieve;
 PanelPart part(const std::string& key, int rows) {
   PanelPart p;
   p.key = key;
-  p.table.rows.resize(static_cast<size_t>(rows));
+  p.rows = rows;
   return p;
 }
 
@@ -31,7 +33,7 @@ TEST(ShardPlan, BalancedByRowsAndAPureFunctionOfKeysAndRows) {
   const auto plan = shard_plan(parts, 3);
   EXPECT_EQ(plan, shard_plan(parts, 3));
   std::vector<long long> rows(3, 0);
-  for (size_t i = 0; i < parts.size(); ++i) rows[plan[i]] += parts[i].table.row_count();
+  for (size_t i = 0; i < parts.size(); ++i) rows[plan[i]] += parts[i].rows;
   // 1450 rows in all. Most rows first, each to the lightest shard: 190 A, 180 B, 170 C, 160 C,
   // 150 B, 140 A, 130 A, 120 B, 110 C, 100 C; no shard exceeds another by more than the largest
   // series.
@@ -65,14 +67,35 @@ TEST(ShardMerge, ShardedOneThreeAndSevenWaysMergesToTheUnshardedTables) {
   fs::create_directories(dir);
   std::ofstream(dir / "panel.csv") << testing::panel_csv(9, 120);
   std::ofstream(dir / "panel.yaml") << testing::panel_config("panel.csv");
-  ASSERT_EQ(run_lagsieve(dir, "search panel.yaml --out whole --quiet").code, 0);
+  // Pages for the 2 worst by each measure and a sample of 1: fewer than the 9 series.
+  const std::string pages = " --pages-worst 2 --pages-sample 1";
+  ASSERT_EQ(run_lagsieve(dir, "search panel.yaml --out whole --quiet" + pages).code, 0);
   const std::string summary = table_without(dir / "whole" / "summary.csv", "seconds");
   const std::string leaderboard = table_without(dir / "whole" / "leaderboard.csv", "fit_seconds");
+  const std::string forecasts = testing::slurp(dir / "whole" / "forecasts.csv");
+  const auto page_folders = [](const fs::path& run) {
+    std::set<std::string> names;
+    if (fs::exists(run / "series"))
+      for (const auto& e : fs::directory_iterator(run / "series"))
+        names.insert(e.path().filename().string());
+    return names;
+  };
+  const auto whole_pages = page_folders(dir / "whole");
+  EXPECT_GE(whole_pages.size(), 2u);
+  EXPECT_LT(whole_pages.size(), 9u);
+  const auto journal_lines = [](const fs::path& file) {
+    std::ifstream in(file);
+    std::string line;
+    int n = 0;
+    while (std::getline(in, line)) n += line.empty() ? 0 : 1;
+    return n;
+  };
   for (const int n : {1, 3, 7}) {
     std::string folders;
     for (int k = 1; k <= n; ++k) {
       const auto r = run_lagsieve(
-          dir, fmt::format("search panel.yaml --shard {}/{} --out s{}_{} --quiet", k, n, n, k));
+          dir, fmt::format("search panel.yaml --shard {}/{} --out s{}_{} --quiet{}", k, n, n, k,
+                           pages));
       ASSERT_EQ(r.code, 0) << r.err;
       folders += fmt::format(" s{}_{}", n, n + 1 - k);  // any order
     }
@@ -83,8 +106,18 @@ TEST(ShardMerge, ShardedOneThreeAndSevenWaysMergesToTheUnshardedTables) {
     EXPECT_EQ(table_without(dir / fmt::format("merged{}", n) / "leaderboard.csv", "fit_seconds"),
               leaderboard)
         << n;
-    EXPECT_TRUE(
-        fs::exists(dir / fmt::format("merged{}", n) / "series" / "zone_008" / "model.json"));
+    const fs::path merged = dir / fmt::format("merged{}", n);
+    EXPECT_EQ(testing::slurp(merged / "forecasts.csv"), forecasts) << n;
+    for (int i = 0; i < 9; ++i)
+      EXPECT_TRUE(fs::exists(merged / "models" / fmt::format("zone_{:03d}.json", i))) << n << i;
+    // The pages of the whole run, each with its report page, and the journal of every candidate
+    // (checked for the whole run: a resume of the merged folder fits nothing again).
+    EXPECT_EQ(page_folders(merged), whole_pages) << n;
+    for (const auto& name : whole_pages)
+      EXPECT_TRUE(fs::exists(merged / "series" / name / "report.html")) << name;
+    EXPECT_TRUE(fs::exists(merged / "report.html"));
+    EXPECT_EQ(journal_lines(merged / "journal.jsonl"), journal_lines(dir / "whole" / "journal.jsonl"))
+        << n;
   }
   // A missing shard, a shard given twice, a shard of other data: refused, naming it.
   auto r = run_lagsieve(dir, "merge bad s3_1 s3_2");
