@@ -159,8 +159,8 @@ struct Run {
   std::uint64_t sum = 0;
   int failed = 0;
   std::size_t records = 0;
-  std::string leader;
-  double leader_score = 0.0;
+  std::string chosen;
+  double chosen_score = 0.0;
   bool repeat_mismatch = false;
 };
 
@@ -198,9 +198,9 @@ Run time_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& 
     run.failed += m.failed_origins;
     run.records += m.production.records.size() + m.oracle.records.size();
   }
-  if (r.leader >= 0) {
-    run.leader = r.models[static_cast<std::size_t>(r.leader)].name;
-    run.leader_score = r.models[static_cast<std::size_t>(r.leader)].score;
+  if (r.chosen >= 0) {
+    run.chosen = r.models[static_cast<std::size_t>(r.chosen)].name;
+    run.chosen_score = r.models[static_cast<std::size_t>(r.chosen)].score;
   }
   fmt::print(
       "  {:<31} wall {:6.2f} s  CPU {:6.2f} s  ({:.2f} cores busy; {} failed origins; checksum "
@@ -215,7 +215,7 @@ json to_json(const Run& r) {
           {"refit", r.refit},           {"wall_seconds", r.wall},
           {"cpu_seconds", r.cpu},       {"checksum", fmt::format("{:016x}", r.sum)},
           {"failed_origins", r.failed}, {"records", r.records},
-          {"leader", r.leader},         {"leader_score", r.leader_score}};
+          {"chosen", r.chosen},         {"chosen_score", r.chosen_score}};
 }
 
 std::string load_average() {
@@ -304,7 +304,7 @@ int main_impl(int argc, char** argv) {
   const int own_fits = forecast_inputs * origins;  // own AR models of forecast inputs
   const std::string load_before = load_average();
 
-  fmt::print("data: n = {}, seed {}; search: {} candidates in {:.2f} s (2 threads), leader {}\n",
+  fmt::print("data: n = {}, seed {}; search: {} candidates in {:.2f} s (2 threads), chosen model {}\n",
              data.rows(), kSeed, search.rows.size(), search_seconds, search.rows.front().key);
   fmt::print(
       "backtest: {} shortlisted + benchmarks '{}' and '{}'; origins {}..{} (step {}): {} origins, "
@@ -339,8 +339,8 @@ int main_impl(int argc, char** argv) {
   const double scaled_wall = refit2.wall * full / origins;
 
   fmt::print("\nload average after: {}\n", load_after);
-  fmt::print("backtest leader (refit every origin): {}, MASE {:.4f} over horizons 1..{}\n",
-             refit2.leader, refit2.leader_score, horizon);
+  fmt::print("chosen by the backtest (refit every origin): {}, MASE {:.4f} over horizons 1..{}\n",
+             refit2.chosen, refit2.chosen_score, horizon);
   fmt::print("\n{:<34} {:>9} {:>9} {:>10} {:>10}\n", "job", "wall s", "CPU s", "vs target",
              "vs never");
   auto row = [&](const Run& r, const Run* never) {

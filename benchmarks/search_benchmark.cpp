@@ -125,7 +125,7 @@ struct Timing {
   int failed = 0;
   double seconds = 0.0;      // wall
   double cpu = 0.0;          // CPU, all threads
-  std::string leader;
+  std::string chosen;
   double rate() const { return seconds > 0 ? candidates / seconds : 0.0; }
   double cpu_rate() const { return cpu > 0 ? candidates / cpu : 0.0; }
 };
@@ -140,7 +140,7 @@ Timing time_search(const RunConfig& config, const std::vector<SeriesData>& serie
     const SearchResult r = run_search(data, config, options);
     t.candidates += static_cast<int>(r.rows.size());
     for (const auto& row : r.rows) t.failed += row.rankable() ? 0 : 1;
-    if (t.leader.empty() && !r.rows.empty()) t.leader = r.rows.front().key;
+    if (t.chosen.empty() && !r.rows.empty()) t.chosen = r.rows.front().key;
   }
   t.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   t.cpu = cpu_seconds() - c0;
@@ -157,12 +157,12 @@ json workload(const std::string& name, const fs::path& config_file, bool skip_si
   if (!skip_single) {
     one = time_search(config, series, 1);
     fmt::print("  1 thread : {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s; {:.1f} per CPU second; "
-               "{:.2f} cores busy ({} not usable; leader {})\n",
+               "{:.2f} cores busy ({} not usable; chosen model {})\n",
                one.candidates, one.seconds, one.rate(), one.cpu_rate(), one.cpu / one.seconds, one.failed,
-               one.leader);
+               one.chosen);
     j["threads1"] = {{"candidates", one.candidates}, {"seconds", one.seconds}, {"rate", one.rate()},
                      {"cpu_seconds", one.cpu}, {"cpu_rate", one.cpu_rate()}, {"failed", one.failed},
-                     {"leader", one.leader}};
+                     {"chosen", one.chosen}};
   }
   const Timing two = time_search(config, series, 2);
   fmt::print("  2 threads: {:6d} candidates in {:7.2f} s = {:7.1f} candidates/s = {:.1f} per core; "
@@ -170,7 +170,7 @@ json workload(const std::string& name, const fs::path& config_file, bool skip_si
              two.candidates, two.seconds, two.rate(), two.rate() / 2, two.cpu_rate(), two.cpu / two.seconds);
   j["threads2"] = {{"candidates", two.candidates}, {"seconds", two.seconds}, {"rate", two.rate()},
                    {"cpu_seconds", two.cpu}, {"cpu_rate", two.cpu_rate()}, {"failed", two.failed},
-                   {"leader", two.leader}};
+                   {"chosen", two.chosen}};
   if (!skip_single) {
     // On a machine shared with other jobs the wall-clock speed-up says more about the neighbours
     // than about the search; the CPU-time ratio shows what parallel overhead the search adds.
@@ -178,7 +178,7 @@ json workload(const std::string& name, const fs::path& config_file, bool skip_si
                one.seconds / two.seconds, two.cpu / one.cpu);
     j["cpu_ratio"] = two.cpu / one.cpu;
     j["speedup"] = one.seconds / two.seconds;
-    if (one.leader != two.leader) fmt::print("  WARNING: leaders differ between thread counts\n");
+    if (one.chosen != two.chosen) fmt::print("  WARNING: chosen models differ between thread counts\n");
   }
   return j;
 }

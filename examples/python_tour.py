@@ -44,17 +44,17 @@ search_config = {
 }
 run = lagsieve.search(search_config, bjsales)
 print(run.ranking[["rank", "model", "status", "aicc", "backtest_score"]].head(8))
-print(run.leader.params)
+print(run.chosen.params)
 print(run.backtest.head())
 print("run folder:", run.write("runs/bjsales_from_python"))
 
 # %% In a notebook the fit and the run display as tables; the report's charts come as SVG
 # (IPython.display.SVG(fit.chart("forecast")) shows one). Here they are written to files.
-print("charts of the leader:", run.leader.charts())
-with open("runs/bjsales_leader_forecast.svg", "w", encoding="utf-8") as f:
-    f.write(run.leader.chart("forecast"))
+print("charts of the chosen model:", run.chosen.charts())
+with open("runs/bjsales_chosen_forecast.svg", "w", encoding="utf-8") as f:
+    f.write(run.chosen.chart("forecast"))
 # One-step predictions (past.csv's `fitted`) and what each input contributed to them.
-print(run.leader.past.tail())
+print(run.chosen.past.tail())
 
 # %% Many series from one long-format frame: data.series_key makes the search a panel run, the
 # run folder `lagsieve search` writes for it (Ctrl-C stops it cleanly, as any search).

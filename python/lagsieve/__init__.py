@@ -9,7 +9,7 @@ place of data.file. The numbers are the CLI's: the DataFrame goes through the sa
     fit = lagsieve.fit("configs/demo_single.yaml")
     fit.params, fit.aic, fit.forecast(12)
     run = lagsieve.search(config_dict, frame)
-    run.ranking, run.leader.params, run.write("runs/from_python")
+    run.ranking, run.chosen.params, run.write("runs/from_python")
 """
 
 import difflib
@@ -255,7 +255,7 @@ class Fit:
 
 
 class SearchRun:
-    """A finished search: ranking, leaders, shortlist backtest; write() gives the run folder."""
+    """A finished search: ranking, chosen models, shortlist backtest; write() gives the run folder."""
 
     def __init__(self, core):
         self._core = core
@@ -267,25 +267,29 @@ class SearchRun:
 
     @property
     def summary(self):
-        """Per series: candidates, fitted, seconds, leader, why it leads, warnings."""
+        """Per series: candidates, fitted, seconds, chosen model, why it leads, warnings."""
         return [dict(s) for s in self._summary]
 
     @property
     def ranking(self):
-        """The run folder's leaderboard table (every candidate of every series)."""
-        return pd.read_csv(io.StringIO(self._core.leaderboard_csv()), keep_default_na=False,
+        """The run folder's ranking table (every candidate of every series)."""
+        return pd.read_csv(io.StringIO(self._core.ranking_csv()), keep_default_na=False,
                            na_values=[""])
 
-    def leader_of(self, series):
+    def chosen_of(self, series):
         k = self.series.index(series)
-        core = self._core.leader(k)
+        core = self._core.chosen(k)
         return None if core is None else Fit(core)
 
     @property
-    def leader(self):
-        """The leader's fit (the first series'; leader_of(name) for the others); None when no
+    def chosen(self):
+        """The chosen model's fit (the first series'; chosen_of(name) for the others); None when no
         candidate was usable."""
-        return self.leader_of(self.series[0])
+        return self.chosen_of(self.series[0])
+
+    # The names of chosen and chosen_of before this release (legacy), kept for one release.
+    leader = chosen  # legacy
+    leader_of = chosen_of  # legacy
 
     def backtest_table(self, which="accuracy"):
         """The shortlist backtest's table: accuracy, backtest, comparisons or input_value
@@ -307,7 +311,7 @@ class SearchRun:
         return self.backtest_table("accuracy")
 
     def write(self, path):
-        """Writes the run folder `lagsieve search --out path` writes (leaderboard, model files,
+        """Writes the run folder `lagsieve search --out path` writes (ranking, model files,
         backtest tables, report). Returns the folder's status: complete or no_usable_candidate."""
         return self._core.write(str(path))
 
@@ -323,7 +327,7 @@ class SearchRun:
 
     def __repr__(self):
         return "<lagsieve.SearchRun %s>" % ", ".join(
-            "%s: %s" % (s["series"], s["leader"] or "no leader") for s in self._summary)
+            "%s: %s" % (s["series"], s["chosen"] or "no chosen model") for s in self._summary)
 
     def _repr_html_(self):
         cols = [c for c in ["series", "rank", "model", "status", "aicc", "aic", "bic", "loglik",

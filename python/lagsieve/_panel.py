@@ -49,7 +49,7 @@ class PanelRun:
     def ranking(self):
         """The run folder's table of every candidate of every series."""
         if self._ranking is None:
-            self._ranking = _table(self._core.file("leaderboard.csv"))
+            self._ranking = _table(self._core.file("ranking.csv"))
         return self._ranking.copy()
 
     @property
@@ -98,7 +98,7 @@ class PanelRun:
 
     def _repr_html_(self):
         s = self.summary
-        cols = [c for c in ["series", "status", "leader", "chosen", "criterion", "ljung_box_p",
+        cols = [c for c in ["series", "status", "chosen", "chosen", "criterion", "ljung_box_p",
                             "backtest_score", "benchmark_score", "reason"] if c in s.columns]
         head = "<p><b>%d series</b> &middot; %s</p>" % (len(s), self.status)
         return head + s[cols].head(20).to_html(index=False, float_format=lambda v: "%.6g" % v)

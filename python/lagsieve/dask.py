@@ -12,8 +12,8 @@ mid-run has its series retried elsewhere (`retries`), finished series are kept.
     with LocalCluster(n_workers=2, threads_per_worker=1, processes=True) as cluster, \\
          Client(cluster) as client:
         panel = lagsieve.dask.search_many(config, frame, "store", client)  # or a Dask DataFrame
-    panel.summary     # one row per series: status, reason, leader, criteria
-    panel.ranking     # every candidate of every series (the leaderboard with a key column)
+    panel.summary     # one row per series: status, reason, chosen model, criteria
+    panel.ranking     # every candidate of every series (the ranking with a key column)
 """
 
 import pandas as pd
@@ -22,9 +22,9 @@ import lagsieve
 from ._inputs import config_source, load_text
 
 # Columns of the summary, in order.
-SUMMARY_COLUMNS = ["key", "status", "reason", "rows", "candidates", "leader", "loglik", "aic",
+SUMMARY_COLUMNS = ["key", "status", "reason", "rows", "candidates", "chosen", "loglik", "aic",
                    "aicc", "bic", "n_obs", "backtest_score"]
-# Leaderboard columns that measure time, not results (they differ between any two runs).
+# Ranking columns that measure time, not results (they differ between any two runs).
 TIMING_COLUMNS = ["fit_seconds"]
 
 
@@ -40,7 +40,7 @@ class PanelRun:
 
     @property
     def failed(self):
-        """Series without a leader (bad input, no usable candidate, an error)."""
+        """Series without a chosen model (bad input, no usable candidate, an error)."""
         return self.summary[self.summary["status"] != "ok"]
 
     def __repr__(self):
@@ -72,20 +72,20 @@ def search_one(config_text, config_name, key_value, key, rows, threads=1, backte
                                     backtest)
         result = lagsieve.SearchRun(run)
         ranking = result.ranking
-        # The key replaces a leaderboard column of the same name (`series`, the target column,
+        # The key replaces a ranking column of the same name (`series`, the target column,
         # is the same for every series of a panel).
         ranking = ranking.drop(columns=[key], errors="ignore")
         ranking.insert(0, key, key_value)
         if "series" in ranking.columns and key != "series":
             ranking["series"] = str(key_value)  # as the core's panel names a series: its key
         row["candidates"] = len(ranking)
-        leader = result.leader
-        if leader is None:
+        chosen = result.chosen
+        if chosen is None:
             row.update(status="no_usable_candidate", reason=_no_candidate_reason(ranking))
             return row, ranking
         top = ranking.iloc[0]
-        row.update(status="ok", reason="", leader=leader.label, loglik=leader.loglik,
-                   aic=leader.aic, aicc=leader.aicc, bic=leader.bic, n_obs=leader.n_obs,
+        row.update(status="ok", reason="", chosen=chosen.label, loglik=chosen.loglik,
+                   aic=chosen.aic, aicc=chosen.aicc, bic=chosen.bic, n_obs=chosen.n_obs,
                    backtest_score=float(top["backtest_score"]) if "backtest_score" in
                    ranking.columns else float("nan"))
         return row, ranking

@@ -1,5 +1,5 @@
 // A fit's run-folder files and the charts the report draws from them. The charts are not redrawn
-// here: the files a search writes for its leader are written for the fit into a private folder,
+// here: the files a search writes for its chosen model are written for the fit into a private folder,
 // and the report (src/report) draws them exactly as it draws a run folder's.
 #include <stdlib.h>
 
@@ -60,7 +60,7 @@ void write_fit_files(const fs::path& folder, const Fit& f) {
   save_model(folder / run_files::model_file(data.target_name, false), *f.fitted);
   write_file_atomic(folder / run_files::kPast,
                     past_csv(explain_past(f.data(), fit.spec, fit.params, fit.start)));
-  write_leader_forecast(folder / run_files::kForecast, *f.fitted, f.data(), config);
+  write_chosen_forecast(folder / run_files::kForecast, *f.fitted, f.data(), config);
 }
 
 fs::path fit_charts(Fit& f) {

@@ -33,7 +33,7 @@
 #include "report/report.h"
 #include "revalidate/revalidate.h"
 #include "screen/screen.h"
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 #include "search/run_dir.h"
 #include "search/run_folder.h"
 #include "search/search_outliers.h"
@@ -246,26 +246,26 @@ std::string search_summary(const Search& s) {
                  {"candidates", r.rows.size()},
                  {"fitted", r.fitted},
                  {"seconds", r.seconds},
-                 {"has_leader", r.has_leader()},
-                 {"leader", r.has_leader() ? r.rows.front().key : ""},
+                 {"has_chosen", r.has_chosen()},
+                 {"chosen", r.has_chosen() ? r.rows.front().key : ""},
                  {"sorted_by", r.sorted_by},
-                 {"leader_reason", r.leader_reason},
+                 {"chosen_reason", r.chosen_reason},
                  {"warnings", r.warnings},
                  {"backtest", s.computed.backtests[k].has_value()}});
   }
   return j.dump();
 }
 
-std::shared_ptr<Fit> search_leader(const std::shared_ptr<Search>& s, size_t k) {
+std::shared_ptr<Fit> search_chosen(const std::shared_ptr<Search>& s, size_t k) {
   if (k >= s->computed.results.size()) throw py::index_error("no such series");
   const auto& r = s->computed.results[k];
-  if (!r.has_leader()) return nullptr;
+  if (!r.has_chosen()) return nullptr;
   auto f = std::make_shared<Fit>();
   f->run = s->run;
   f->series = k;
-  f->result.fit = r.leader;
+  f->result.fit = r.chosen;
   f->fitted_on = search_data(s->run->loaded.series[k], r);
-  f->fitted = cli::leader_model(s->run->loaded, s->computed, k);
+  f->fitted = cli::chosen_model(s->run->loaded, s->computed, k);
   return f;
 }
 
@@ -307,9 +307,9 @@ py::dict backtest_models(const RunPtr& run,
   {
     py::gil_scoped_release unlocked;
     result = run_backtest(data, candidates, options);
-    if (result.leader >= 0)
+    if (result.chosen >= 0)
       result.input_value =
-          input_value(data, candidates[result.leader], result.models[result.leader], options);
+          input_value(data, candidates[result.chosen], result.models[result.chosen], options);
   }
   py::dict out;
   out["accuracy"] = accuracy_csv(result);
@@ -435,13 +435,13 @@ PYBIND11_MODULE(_core, m) {
   m.def("fit", &fit_loaded, py::arg("run"), py::arg("series") = "");
 
   py::class_<Search, std::shared_ptr<Search>>(m, "Search")
-      .def("leaderboard_csv",
+      .def("ranking_csv",
            [](const Search& s) {
-             return leaderboard_csv(s.computed.all_rows, s.run->loaded.config);
+             return ranking_csv(s.computed.all_rows, s.run->loaded.config);
            })
       .def("summary_json", &search_summary)
       .def("backtest_csv", &backtest_table)
-      .def("leader", &search_leader)
+      .def("chosen", &search_chosen)
       .def("write", &write_search)
       .def("chart_dir", [](Search& s) {
         if (!s.folder) {

@@ -39,13 +39,13 @@ struct Model {
 };
 using ModelPtr = std::shared_ptr<const Model>;
 
-// One fit (of `fit`, or a search's leader) on its series.
+// One fit (of `fit`, or a search's chosen model) on its series.
 struct Fit {
   RunPtr run;
   size_t series = 0;
   cli::FitRun result;
   std::optional<FittedModel> fitted;     // when usable
-  std::optional<SeriesData> fitted_on;   // a leader's data with its detected effects' columns
+  std::optional<SeriesData> fitted_on;   // a chosen model's data with its detected effects' columns
   std::shared_ptr<Scratch> charts;       // the report's charts of this fit, once drawn
 
   const SeriesData& data() const {

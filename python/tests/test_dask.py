@@ -80,10 +80,10 @@ def test_each_series_equals_its_own_search(panel, in_process):
     alone = lagsieve.search(CONFIG, rows)
     row = in_process.summary.set_index("store").loc["s07"]
     assert row["status"] == "ok"
-    assert row["leader"] == alone.leader.label
-    assert row["aicc"] == alone.leader.aicc
+    assert row["chosen"] == alone.chosen.label
+    assert row["aicc"] == alone.chosen.aicc
     # The simulated structure is found: x enters at delay 1.
-    assert "b1" in row["leader"] or "1" in row["leader"]
+    assert "b1" in row["chosen"] or "1" in row["chosen"]
 
 
 def test_a_bad_series_is_a_row_with_its_reason(in_process):
@@ -151,4 +151,4 @@ def test_the_cluster_ranking_equals_the_core_panel_search(panel, in_process):
     summary = batch.summary.set_index("series")
     assert summary.loc["bad", "status"] == "bad_data"
     ok = in_process.summary[in_process.summary["status"] == "ok"]
-    assert list(summary.loc[ok["store"], "leader"]) == list(ok["leader"])
+    assert list(summary.loc[ok["store"], "chosen"]) == list(ok["chosen"])

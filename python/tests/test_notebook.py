@@ -54,12 +54,12 @@ def test_fitted_values_are_past_csv_one_step_predictions(cli_run, fit):
     assert len(fit.residuals) == fit.n_obs
 
 
-def test_a_search_leader_agrees_with_its_run_folder_exactly(cli_run, tmp_path):
+def test_a_search_chosen_agrees_with_its_run_folder_exactly(cli_run, tmp_path):
     frame = pd.read_csv(cli_run / "bjsales.csv")
     run = lagsieve.search({**SINGLE, "data": {"time": "t"}}, frame)
     run.write(tmp_path / "run")
     past = pd.read_csv(tmp_path / "run" / "past.csv", float_precision="round_trip")
-    np.testing.assert_array_equal(run.leader.fitted.to_numpy(), past["fitted"].to_numpy())
+    np.testing.assert_array_equal(run.chosen.fitted.to_numpy(), past["fitted"].to_numpy())
     # The run's report charts are the CLI's.
     names = run.charts()
     assert "forecast_fan" in names

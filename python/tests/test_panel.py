@@ -68,7 +68,7 @@ def test_the_panel_run_equals_the_cli(runs):
     assert ours["reason"].isna().tolist() == theirs["reason"].isna().tolist()
     assert "is constant (every value is 0) in <DataFrame>" in ours["reason"].iloc[3]
     pd.testing.assert_frame_equal(without_timing(run.ranking),
-                                  without_timing(pd.read_csv(by_cli / "leaderboard.csv",
+                                  without_timing(pd.read_csv(by_cli / "ranking.csv",
                                                              keep_default_na=False,
                                                              na_values=[""])),
                                   check_exact=True)
@@ -80,8 +80,8 @@ def test_the_panel_run_equals_the_cli(runs):
             a = by_python / "series" / series / name
             assert a.read_text() == (by_cli / "series" / series / name).read_text(), a
         pd.testing.assert_frame_equal(
-            without_timing(pd.read_csv(by_python / "series" / series / "leaderboard.csv")),
-            without_timing(pd.read_csv(by_cli / "series" / series / "leaderboard.csv")),
+            without_timing(pd.read_csv(by_python / "series" / series / "ranking.csv")),
+            without_timing(pd.read_csv(by_cli / "series" / series / "ranking.csv")),
             check_exact=True)
         fit_a = json.loads((by_python / "series" / series / "fit.json").read_text())
         fit_b = json.loads((by_cli / "series" / series / "fit.json").read_text())

@@ -413,18 +413,18 @@ BacktestResult run_backtest(const SeriesData& data,
     if (!result.models[i].benchmark && std::isfinite(result.models[i].score) &&
         result.models[i].score < best) {
       best = result.models[i].score;
-      result.leader = static_cast<int>(i);
+      result.chosen = static_cast<int>(i);
     }
-  result.comparisons = compare_to_leader(result);
+  result.comparisons = compare_to_chosen(result);
   return result;
 }
 
-std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
+std::vector<ComparisonRow> compare_to_chosen(const BacktestResult& result) {
   std::vector<ComparisonRow> rows;
-  if (result.leader < 0) return rows;
-  const auto& lead = result.models[result.leader];
+  if (result.chosen < 0) return rows;
+  const auto& lead = result.models[result.chosen];
   for (size_t i = 0; i < result.models.size(); ++i) {
-    if (static_cast<int>(i) == result.leader) continue;
+    if (static_cast<int>(i) == result.chosen) continue;
     const auto& other = result.models[i];
     if (other.production.records.empty()) continue;
     int max_h = 0;
@@ -432,7 +432,7 @@ std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result) {
     for (int h = 1; h <= max_h; ++h) {
       const auto losses = paired_losses(lead.production, other.production, h, LossKind::squared);
       ComparisonRow row;
-      row.leader = lead.name;
+      row.chosen = lead.name;
       row.challenger = other.name;
       row.horizon = h;
       const int n = static_cast<int>(losses.loss_a.size());
@@ -480,31 +480,31 @@ std::vector<double> scaled_error_by_origin(const ForecastRecords& records,
 
 }  // namespace
 
-std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& leader,
-                                       const ModelBacktest& leader_result,
+std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& chosen,
+                                       const ModelBacktest& chosen_result,
                                        const BacktestOptions& options) {
   std::vector<BacktestCandidate> without;
   std::vector<size_t> left_out;  // the index of the input each run leaves out
-  for (size_t i = 0; i < leader.spec.inputs.size(); ++i) {
+  for (size_t i = 0; i < chosen.spec.inputs.size(); ++i) {
     // Detected effects are not inputs whose value is asked about (they mark events in the
     // history, which every model of the search shares).
-    if (i < leader.inputs.size() && leader.inputs[i].effect) continue;
+    if (i < chosen.inputs.size() && chosen.inputs[i].effect) continue;
     left_out.push_back(i);
-    BacktestCandidate c = leader;
+    BacktestCandidate c = chosen;
     c.fixed.reset();
     c.spec.inputs.erase(c.spec.inputs.begin() + i);
     c.inputs.erase(c.inputs.begin() + i);
     if (i < c.input_orders.size()) c.input_orders.erase(c.input_orders.begin() + i);
-    c.name = fmt::format("{} without {}", leader.name, leader.spec.inputs[i].name);
+    c.name = fmt::format("{} without {}", chosen.name, chosen.spec.inputs[i].name);
     without.push_back(std::move(c));
   }
   const auto result = run_backtest(data, without, options);
   std::vector<InputValueRow> rows;
-  const auto with = scaled_error_by_origin(leader_result.production, result.origins);
+  const auto with = scaled_error_by_origin(chosen_result.production, result.origins);
   for (size_t i = 0; i < without.size(); ++i) {
     InputValueRow row;
-    row.input = leader.spec.inputs[left_out[i]].name;
-    row.score_with = leader_result.score;
+    row.input = chosen.spec.inputs[left_out[i]].name;
+    row.score_with = chosen_result.score;
     row.score_without = result.models[i].score;
     const auto alt = scaled_error_by_origin(result.models[i].production, result.origins);
     std::vector<double> a, b;
@@ -621,10 +621,10 @@ std::string accuracy_csv(const BacktestResult& r) {
 
 std::string comparisons_csv(const BacktestResult& r) {
   std::string out =
-      "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status,note\n";
+      "chosen,challenger,horizon,loss,n,mean_difference,statistic,p_value,status,note\n";
   for (const auto& c : r.comparisons)
     out +=
-        fmt::format("{},{},{},{},{},{},{},{},{},{}\n", csv_field(c.leader), csv_field(c.challenger),
+        fmt::format("{},{},{},{},{},{},{},{},{},{}\n", csv_field(c.chosen), csv_field(c.challenger),
                     c.horizon, c.loss, c.test.n, csv_number(c.test.mean_difference),
                     csv_number(c.test.statistic), csv_number(c.test.p_value),
                     !c.tested                                                  ? "not_tested"

@@ -91,7 +91,7 @@ struct ModelBacktest {
 };
 
 struct ComparisonRow {
-  std::string leader, challenger;
+  std::string chosen, challenger;
   int horizon = 0;
   std::string loss = "squared";
   bool tested = true;  // false: too few pairs at this horizon (see note)
@@ -103,7 +103,7 @@ struct InputValueRow {
   std::string input;
   double score_with = 0.0;
   double score_without = 0.0;
-  DieboldMarianoResult test;            // per-origin mean scaled absolute error, leader vs without
+  DieboldMarianoResult test;            // per-origin mean scaled absolute error, chosen model vs without
 };
 
 struct BacktestResult {
@@ -117,7 +117,7 @@ struct BacktestResult {
   std::vector<std::string> warnings;
   std::vector<std::string> row_times;  // the data's time stamps (backtest.csv `time` column)
   std::vector<ModelBacktest> models;  // candidate order
-  int leader = -1;                    // best score among non-benchmark models
+  int chosen = -1;                    // best score among non-benchmark models
   std::vector<ComparisonRow> comparisons;
   std::vector<InputValueRow> input_value;
   std::vector<double> levels;
@@ -136,12 +136,12 @@ BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCa
 BacktestCandidate known_at_origin(const BacktestCandidate& c, const SeriesData& window, int from,
                                   int origin);
 
-// Diebold-Mariano tests of the leader against every other model, per horizon (squared loss).
-std::vector<ComparisonRow> compare_to_leader(const BacktestResult& result);
+// Diebold-Mariano tests of the chosen model against every other model, per horizon (squared loss).
+std::vector<ComparisonRow> compare_to_chosen(const BacktestResult& result);
 
-// For the leader: the backtest with each of its inputs left out (the rest re-fitted).
-std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& leader,
-                                       const ModelBacktest& leader_result,
+// For the chosen model: the backtest with each of its inputs left out (the rest re-fitted).
+std::vector<InputValueRow> input_value(const SeriesData& data, const BacktestCandidate& chosen,
+                                       const ModelBacktest& chosen_result,
                                        const BacktestOptions& options);
 
 // A candidate from a spec and the config's input settings.

@@ -178,7 +178,7 @@ BatchResult run_batch(const RunConfig& config, std::vector<PanelPart> parts,
   });
   check_cancel(options.cancel);
   if (!out) return result;
-  out->ranking.write(options.folder / run_files::kLeaderboardCsv, ranking_header(config));
+  out->ranking.write(options.folder / run_files::kRankingCsv, ranking_header(config));
   out->forecasts.write(options.folder / kForecastsCsv, forecasts_header(config.forecast.levels));
   if (config.backtest.enabled && options.backtest)
     out->accuracy.write(options.folder / run_files::kAccuracy);

@@ -139,7 +139,7 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
 
   // How many series use each input, and at which delay and orders.
   HtmlSection inputs{"Inputs chosen across series",
-                     "Per input: the series whose leader includes it, and the distribution of "
+                     "Per input: the series whose chosen model includes it, and the distribution of "
                      "its delay b and orders r, s over those series.",
                      {}};
   HtmlTable use =
@@ -202,13 +202,13 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
   const auto worst_table = [&](const std::string& caption, const std::vector<size_t>& idx) {
     HtmlTable t = table(
         caption,
-        {column("series"), column("leader"), column("backtest " + config.backtest.score),
+        {column("series"), column("chosen"), column("backtest " + config.backtest.score),
          column("no-input benchmark"), column("DM p", NumberFormat::p_value),
          column("Ljung-Box p", NumberFormat::p_value), column("page")},
         true, "Pages are in the run folder; only the series listed here and a sample have one.");
     for (size_t i : idx) {
       const auto& s = rows[i];
-      t.rows.push_back({s.series, s.leader, s.backtest_score, s.benchmark_score, s.benchmark_p,
+      t.rows.push_back({s.series, s.chosen, s.backtest_score, s.benchmark_score, s.benchmark_p,
                         s.ljung_box_p, page_of(s, pages, i)});
     }
     return t;
@@ -229,7 +229,7 @@ std::vector<std::string> write_panel_report(const std::filesystem::path& folder,
   for (size_t i : with_pages) {
     if (listed.contains(i)) continue;
     const auto& s = rows[i];
-    others.rows.push_back({s.series, s.leader, s.backtest_score, s.benchmark_score, s.benchmark_p,
+    others.rows.push_back({s.series, s.chosen, s.backtest_score, s.benchmark_score, s.benchmark_p,
                            s.ljung_box_p, page_of(s, pages, i)});
   }
   if (!others.rows.empty()) {

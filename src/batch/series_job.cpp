@@ -17,7 +17,7 @@
 #include "io/csv.h"
 #include "model/past.h"
 #include "screen/screen.h"
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 #include "search/run_folder.h"
 #include "search/search_outliers.h"
 #include "search/shortlist.h"
@@ -41,7 +41,7 @@ const char* to_string(SeriesStatus s) {
 
 namespace {
 
-ForecastOptions leader_forecast_options(const RunConfig& config) {
+ForecastOptions chosen_forecast_options(const RunConfig& config) {
   ForecastOptions options;
   options.horizon = config.forecast.horizon > 0 ? config.forecast.horizon
                     : config.backtest.enabled   ? config.backtest.horizon
@@ -72,10 +72,10 @@ void write_forecast_json(const std::filesystem::path& path, const std::optional<
 
 }  // namespace
 
-std::optional<ForecastResult> leader_forecast(const FittedModel& model, const SeriesData& data,
+std::optional<ForecastResult> chosen_forecast(const FittedModel& model, const SeriesData& data,
                                               const RunConfig& config, std::string* note) {
   try {
-    return forecast(model, data, {}, leader_forecast_options(config));
+    return forecast(model, data, {}, chosen_forecast_options(config));
   } catch (const InputError& e) {
     // Inputs declared known need future values the search does not have.
     if (note) *note = std::string("no forecast from the end of the data: ") + e.what();
@@ -83,11 +83,11 @@ std::optional<ForecastResult> leader_forecast(const FittedModel& model, const Se
   }
 }
 
-void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+void write_chosen_forecast(const std::filesystem::path& path, const FittedModel& model,
                            const SeriesData& data, const RunConfig& config) {
   std::string note;
-  const auto f = leader_forecast(model, data, config, &note);
-  write_forecast_json(path, f, note, data, leader_forecast_options(config));
+  const auto f = chosen_forecast(model, data, config, &note);
+  write_forecast_json(path, f, note, data, chosen_forecast_options(config));
 }
 
 std::string no_candidate_reason(const SearchResult& r) {
@@ -110,13 +110,13 @@ std::string no_candidate_reason(const SearchResult& r) {
 
 namespace {
 
-void fill_leader(SeriesSummary& s, const SearchResult& r, const RunConfig& config) {
+void fill_chosen(SeriesSummary& s, const SearchResult& r, const RunConfig& config) {
   const CandidateRow& top = r.rows.front();
-  s.leader = top.key;
+  s.chosen = top.key;
   s.criterion = top.criterion(config.search.criterion);
   s.ljung_box_p = top.ljung_box_p;
   for (const auto& ic : config.inputs) {
-    LeaderInput in{ic.name};
+    ChosenInput in{ic.name};
     for (const auto& term : top.spec.inputs)
       if (term.name == ic.name)
         in = {ic.name, true, term.order.delay, term.order.numerator, term.order.denominator};
@@ -131,9 +131,9 @@ void fill_leader(SeriesSummary& s, const SearchResult& r, const RunConfig& confi
 
 void fill_backtest(SeriesSummary& s, const ShortlistBacktest& bt) {
   const auto& res = bt.result;
-  if (res.leader < 0) return;
-  const auto& leader = res.models[res.leader];
-  s.backtest_score = leader.score;
+  if (res.chosen < 0) return;
+  const auto& chosen = res.models[res.chosen];
+  s.backtest_score = chosen.score;
   for (size_t i = 0; i < res.models.size(); ++i) {
     // The first benchmark of the shortlist plan is the best model without inputs.
     if (!res.models[i].benchmark || bt.candidates[i].kind != BacktestCandidate::Kind::model)
@@ -146,15 +146,15 @@ void fill_backtest(SeriesSummary& s, const ShortlistBacktest& bt) {
   }
 }
 
-// The leader as a model file (with detected effects: the data with their columns, and the
-// leader's set in its model file), and the data it was fitted on.
-FittedModel leader_model(const SeriesData& fitted, const RunConfig& config, const SearchResult& r,
+// The chosen model as a model file (with detected effects: the data with their columns, and the
+// chosen model's set in its model file), and the data it was fitted on.
+FittedModel chosen_model(const SeriesData& fitted, const RunConfig& config, const SearchResult& r,
                          const std::optional<ShortlistBacktest>& bt) {
   FittedModel model = make_fitted_model(
-      r.leader, config, fitted,
+      r.chosen, config, fitted,
       r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
-  if (bt && bt->result.leader >= 0)
-    model.backtest = accuracy_json(bt->result.models[bt->result.leader], bt->options);
+  if (bt && bt->result.chosen >= 0)
+    model.backtest = accuracy_json(bt->result.models[bt->result.chosen], bt->options);
   return model;
 }
 
@@ -172,24 +172,24 @@ void write_series_files(const std::filesystem::path& dir, const SeriesData& data
   }
   const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
   write_file_atomic(dir / run_files::kScreen, to_json(screen).dump(1) + "\n");
-  write_file_atomic(dir / run_files::kLeaderboardCsv, leaderboard_csv(r.rows, config));
-  write_file_atomic(dir / run_files::kLeaderboardJson,
-                    leaderboard_json(r.rows, config, {r}).dump(1) + "\n");
+  write_file_atomic(dir / run_files::kRankingCsv, ranking_csv(r.rows, config));
+  write_file_atomic(dir / run_files::kRankingJson,
+                    ranking_json(r.rows, config, {r}).dump(1) + "\n");
   if (s.status != SeriesStatus::ok || !model) return;
   const SeriesData fitted = search_data(data, r);
   save_model(dir / run_files::model_file(r.series, false), *model);
-  auto fit_json = fit_to_json(r.leader);
+  auto fit_json = fit_to_json(r.chosen);
   fit_json["series"] = r.series;
   fit_json["frequency"] = data.frequency;
   fit_json["missing"] = describe_missing(data);
   if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
   if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
-  const PastFit past = explain_past(fitted, r.leader.spec, r.leader.params, r.leader.start);
+  const PastFit past = explain_past(fitted, r.chosen.spec, r.chosen.params, r.chosen.start);
   fit_json["past"] = past_to_json(past);
   write_file_atomic(dir / run_files::kPast, past_csv(past));
   write_file_atomic(dir / run_files::kFit, fit_json.dump(1) + "\n");
   write_forecast_json(dir / run_files::kForecast, forecast, forecast_note, fitted,
-                      leader_forecast_options(config));
+                      chosen_forecast_options(config));
 }
 
 // The series' rows of the run-level tables (the headers are written once, by the batch).
@@ -200,7 +200,7 @@ void fill_tables(SeriesTables& t, const std::string& series, const RunConfig& co
     const auto eol = csv.find('\n');
     return eol == std::string::npos ? std::string() : csv.substr(eol + 1);
   };
-  t.ranking = rows_of(leaderboard_csv(r.rows, config));
+  t.ranking = rows_of(ranking_csv(r.rows, config));
   if (forecast) t.forecasts = forecast_rows(series, *forecast);
   if (bt) {
     const std::string csv = accuracy_csv(bt->result);
@@ -237,16 +237,16 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
     SearchResult r = run_search(data, config, so);
     check_cancel(options.cancel);
     std::optional<ShortlistBacktest> bt;
-    if (config.backtest.enabled && options.backtest && r.has_leader())
+    if (config.backtest.enabled && options.backtest && r.has_chosen())
       bt = backtest_shortlist(data, config, r, options.threads);
     s.candidates = static_cast<int>(r.rows.size());
     s.fitted = r.fitted;
     s.resumed = r.resumed;
     for (const auto& row : r.rows) s.usable += row.rankable() ? 1 : 0;
     s.warnings = r.warnings;
-    if (r.has_leader()) {
+    if (r.has_chosen()) {
       s.status = SeriesStatus::ok;
-      fill_leader(s, r, config);
+      fill_chosen(s, r, config);
       if (bt) fill_backtest(s, *bt);
     } else {
       s.status = SeriesStatus::no_usable_candidate;
@@ -258,9 +258,9 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
     std::string forecast_note;
     if (s.status == SeriesStatus::ok && (folder || options.tables || !options.model_file.empty())) {
       const SeriesData fitted = search_data(data, r);
-      model = leader_model(fitted, config, r, bt);
+      model = chosen_model(fitted, config, r, bt);
       if (folder || options.tables) {
-        forecast = leader_forecast(*model, fitted, config, &forecast_note);
+        forecast = chosen_forecast(*model, fitted, config, &forecast_note);
         if (!forecast) s.warnings.push_back(forecast_note);
       }
       if (!options.model_file.empty()) save_model(options.model_file, *model);
@@ -303,15 +303,15 @@ nlohmann::json number_or_null(double v) { return std::isfinite(v) ? nlohmann::js
 
 std::string summary_csv(const std::vector<SeriesSummary>& rows) {
   std::string out =
-      "series,status,reason,rows,first_time,last_time,candidates,usable,leader,inputs,ar,ma,"
+      "series,status,reason,rows,first_time,last_time,candidates,usable,chosen,inputs,ar,ma,"
       "seasonal_ar,seasonal_ma,constant,criterion,ljung_box_p,backtest_score,benchmark_score,"
       "benchmark_p,warnings,model_file,folder,seconds\n";
   for (const auto& s : rows)
     out += fmt::format("{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{:.3f}\n",
                        csv_field(s.series), to_string(s.status), csv_field(s.reason), s.rows,
                        csv_field(s.first_time), csv_field(s.last_time), s.candidates, s.usable,
-                       csv_field(s.leader), csv_field(inputs_text(s)), s.ar, s.ma, s.seasonal_ar,
-                       s.seasonal_ma, s.leader.empty() ? "" : (s.constant ? "true" : "false"),
+                       csv_field(s.chosen), csv_field(inputs_text(s)), s.ar, s.ma, s.seasonal_ar,
+                       s.seasonal_ma, s.chosen.empty() ? "" : (s.constant ? "true" : "false"),
                        fixed(s.criterion), fixed(s.ljung_box_p), fixed(s.backtest_score),
                        fixed(s.benchmark_score), fixed(s.benchmark_p), s.warnings.size(),
                        csv_field(s.model), csv_field(s.folder), s.seconds);
@@ -346,7 +346,7 @@ nlohmann::json summary_json(const std::vector<SeriesSummary>& rows) {
                     {"fitted", s.fitted},
                     {"resumed", s.resumed},
                     {"usable", s.usable},
-                    {"leader", s.leader},
+                    {"chosen", s.chosen},
                     {"inputs", inputs},
                     {"noise",
                      {{"ar", s.ar},

@@ -1,5 +1,5 @@
 #pragma once
-// The work of one series in a run of many: search, shortlist backtest, the leader's model file,
+// The work of one series in a run of many: search, shortlist backtest, the chosen model's model file,
 // fit, screen and forecast, written into the series' own folder; the outcome is one summary row.
 // Nothing a series holds outlives its job except that row, so a run's memory does not grow with
 // the number of series. A series that fails (bad data, no usable candidate, a numerical failure)
@@ -26,7 +26,7 @@
 namespace lagsieve {
 
 enum class SeriesStatus {
-  ok,                   // a leader, its model file and forecast
+  ok,                   // a chosen model, its model file and forecast
   no_usable_candidate,  // every candidate failed or was rejected: no model file
   bad_data,             // the series failed a data check (too short, constant, all missing, ...)
   failed,               // a numerical or internal failure while working on it
@@ -58,8 +58,8 @@ struct SeriesJobOptions {
   const std::atomic<bool>* cancel = nullptr;  // set: Cancelled is thrown (search.h), no row
 };
 
-// The leader's dynamic structure for one configured input (included = false: left out).
-struct LeaderInput {
+// The chosen model's dynamic structure for one configured input (included = false: left out).
+struct ChosenInput {
   std::string name;
   bool included = false;
   int delay = 0, numerator = 0, denominator = 0;  // b, s, r
@@ -74,16 +74,16 @@ struct SeriesSummary {
   int rows = 0;
   std::string first_time, last_time;
   int candidates = 0, fitted = 0, resumed = 0, usable = 0;
-  std::string leader;               // model label ("" without a leader)
-  std::vector<LeaderInput> inputs;  // config order
+  std::string chosen;               // model label ("" without a chosen model)
+  std::vector<ChosenInput> inputs;  // config order
   int ar = 0, ma = 0, seasonal_ar = 0, seasonal_ma = 0;
   bool constant = false;
   static constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-  double criterion = kNaN;        // the leader's search criterion (config.search.criterion)
-  double ljung_box_p = kNaN;      // the leader's Ljung-Box p at the largest lag tested
-  double backtest_score = kNaN;   // the leader's backtest score (config.backtest.score)
+  double criterion = kNaN;        // the chosen model's search criterion (config.search.criterion)
+  double ljung_box_p = kNaN;      // the chosen model's Ljung-Box p at the largest lag tested
+  double backtest_score = kNaN;   // the chosen model's backtest score (config.backtest.score)
   double benchmark_score = kNaN;  // the best model without inputs, same origins
-  double benchmark_p = kNaN;      // Diebold-Mariano p (two-sided, horizon 1), leader vs it
+  double benchmark_p = kNaN;      // Diebold-Mariano p (two-sided, horizon 1), chosen model vs it
   std::vector<std::string> warnings;
   double seconds = 0.0;  // timing: differs between runs
 
@@ -103,14 +103,14 @@ SeriesSummary bad_series_summary(const std::string& series, const std::string& f
 // Why a search found no usable candidate: the statuses counted and the most frequent message.
 std::string no_candidate_reason(const SearchResult& r);
 
-// The leader's forecast from the end of the data (horizon: forecast.horizon, else the backtest's,
+// The chosen model's forecast from the end of the data (horizon: forecast.horizon, else the backtest's,
 // else 12); nullopt with the reason in `note` when it cannot be made (inputs declared known have
 // no future values in a search).
-std::optional<ForecastResult> leader_forecast(const FittedModel& model, const SeriesData& data,
+std::optional<ForecastResult> chosen_forecast(const FittedModel& model, const SeriesData& data,
                                               const RunConfig& config, std::string* note);
 
-// forecast.json: the leader's forecast from the end of the data plus the recent history.
-void write_leader_forecast(const std::filesystem::path& path, const FittedModel& model,
+// forecast.json: the chosen model's forecast from the end of the data plus the recent history.
+void write_chosen_forecast(const std::filesystem::path& path, const FittedModel& model,
                            const SeriesData& data, const RunConfig& config);
 
 // The summary table: CSV (one row per series; `seconds` is the only timing column) and JSON.

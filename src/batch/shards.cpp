@@ -241,7 +241,7 @@ std::string merge_shards(const fs::path& folder, const std::vector<fs::path>& sh
     for (const auto& dir : dirs) files.push_back(dir / name);
     return merged_table(files);
   };
-  for (const char* name : {run_files::kLeaderboardCsv, kForecastsCsv, run_files::kAccuracy})
+  for (const char* name : {run_files::kRankingCsv, kForecastsCsv, run_files::kAccuracy})
     if (fs::exists(dirs.front() / name)) write_file_atomic(folder / name, tables(name));
 
   {

@@ -6,7 +6,7 @@
 #include <limits>
 
 #include "io/csv.h"
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 
 namespace lagsieve {
 namespace {
@@ -58,7 +58,7 @@ std::string with_series_column(const std::string& series, const std::string& row
   return out;
 }
 
-std::string ranking_header(const RunConfig& config) { return leaderboard_csv({}, config); }
+std::string ranking_header(const RunConfig& config) { return ranking_csv({}, config); }
 
 SeriesSummary summary_from_json(const nlohmann::json& j) {
   SeriesSummary s;
@@ -77,10 +77,10 @@ SeriesSummary summary_from_json(const nlohmann::json& j) {
   s.fitted = j.value("fitted", 0);
   s.resumed = j.value("resumed", 0);
   s.usable = j.value("usable", 0);
-  s.leader = j.value("leader", "");
+  s.chosen = j.value("chosen", "");
   if (j.contains("inputs"))
     for (const auto& in : j["inputs"]) {
-      LeaderInput li;
+      ChosenInput li;
       li.name = in.value("name", "");
       li.included = in.value("included", false);
       li.delay = in.value("b", 0);

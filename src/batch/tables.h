@@ -24,7 +24,7 @@ std::string forecast_rows(const std::string& series, const ForecastResult& f);
 // `rows` (CSV rows, one a line) with the series as a first column.
 std::string with_series_column(const std::string& series, const std::string& rows);
 
-// The header of the ranking table of every series (the leaderboard's; it has the series column).
+// The header of the ranking table of every series (the ranking's; it has the series column).
 std::string ranking_header(const RunConfig& config);
 
 // A summary row as summary_json writes it, read back.

@@ -72,8 +72,8 @@ int run_backtest_command(const BacktestArgs& args) {
   for (const auto& note : dir.notes()) fmt::print(stderr, "lagsieve: note: {}\n", note);
   const std::filesystem::path& stage = dir.staging();
   BacktestResult result = run_backtest(data, candidates, options);
-  if (result.leader >= 0)
-    result.input_value = input_value(data, candidates[result.leader], result.models[result.leader], options);
+  if (result.chosen >= 0)
+    result.input_value = input_value(data, candidates[result.chosen], result.models[result.chosen], options);
 
   write_file_atomic(stage / run_files::kBacktest, backtest_csv(result));
   write_file_atomic(stage / run_files::kAccuracy, accuracy_csv(result));
@@ -92,7 +92,7 @@ int run_backtest_command(const BacktestArgs& args) {
   for (size_t i = 0; i < result.models.size(); ++i) {
     const auto& m = result.models[i];
     fmt::print("{} {:<50} {:>9.4f} {:>9.4g} {:>9.4g} {:>10.4g}  {}\n",
-               static_cast<int>(i) == result.leader ? "*" : " ", m.name, m.score,
+               static_cast<int>(i) == result.chosen ? "*" : " ", m.name, m.score,
                m.production_accuracy.overall.mae, m.production_accuracy.overall.rmse,
                m.oracle_accuracy.overall.mae, m.failed_origins);
   }

@@ -35,7 +35,7 @@ void register_report(CLI::App& app) {
   auto args = std::make_shared<ReportArgs>();
   cmd->add_option("DIR", args->dir, "Run folder written by search, backtest or revalidate")
       ->required();
-  cmd->add_option("--rows", args->options.leaderboard_rows, "Leaderboard rows shown per series")
+  cmd->add_option("--rows", args->options.ranking_rows, "Ranking rows shown per series")
       ->capture_default_str()
       ->check(CLI::PositiveNumber);
   cmd->add_option("--models", args->options.backtest_models,

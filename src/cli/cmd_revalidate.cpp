@@ -1,6 +1,6 @@
 // `lagsieve revalidate MODEL CONFIG`: is the deployed model still good on the rows that arrived
 // after its training data, and is there a better one? Writes revalidation.json, the re-fitted and
-// the challenger's model files, the challenger leaderboard and the new-period backtest tables,
+// the challenger's model files, the challenger ranking and the new-period backtest tables,
 // then the report. Exit codes: 0 keep, 10 refit advised, 11 replace advised, 2 bad input.
 #include <fmt/format.h>
 
@@ -17,7 +17,7 @@
 #include "io/atomic_file.h"
 #include "report/report.h"
 #include "revalidate/revalidate.h"
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 #include "search/run_folder.h"
 
 namespace lagsieve::cli {
@@ -83,9 +83,9 @@ int run_revalidate(const RevalidateArgs& args) {
   write_file_atomic(out / run_files::kRevalidation, doc.dump(2) + "\n");
   if (r.refit_model) save_model(out / kRefitModelFile, *r.refit_model);
   if (r.challenger_model) save_model(out / kChallengerModelFile, *r.challenger_model);
-  write_file_atomic(out / run_files::kLeaderboardCsv, leaderboard_csv(r.search.rows, run.config));
-  write_file_atomic(out / run_files::kLeaderboardJson,
-                    leaderboard_json(r.search.rows, run.config).dump(2) + "\n");
+  write_file_atomic(out / run_files::kRankingCsv, ranking_csv(r.search.rows, run.config));
+  write_file_atomic(out / run_files::kRankingJson,
+                    ranking_json(r.search.rows, run.config).dump(2) + "\n");
   write_file_atomic(out / run_files::kBacktest, backtest_csv(r.comparison));
   write_file_atomic(out / run_files::kAccuracy, accuracy_csv(r.comparison));
   write_file_atomic(out / run_files::kComparisons, comparisons_csv(r.comparison));

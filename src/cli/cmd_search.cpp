@@ -1,5 +1,5 @@
 // `lagsieve search CONFIG`: the main job. Fits every candidate the config allows on one common
-// sample, ranks them, writes the leaderboard and the leader's model file.
+// sample, ranks them, writes the ranking and the chosen model's model file.
 #include <memory>
 
 #include "cli/commands.h"

@@ -24,7 +24,7 @@
 #include "outliers/detect.h"
 #include "report/report.h"
 #include "screen/screen.h"
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 #include "search/run_dir.h"
 #include "search/run_folder.h"
 #include "search/search_outliers.h"
@@ -62,7 +62,7 @@ void print_search_outliers(const SearchOutliers& o) {
   }
   fmt::print(
       "  detected effects (on {}, critical |t| {:.2f}; shared by the {} shortlisted candidates, "
-      "{:.3f} s; sizes from the leader's fit):\n",
+      "{:.3f} s; sizes from the chosen model's fit):\n",
       o.detected_on, o.critical, o.shortlisted, o.seconds);
   for (const auto& e : o.effects) fmt::print("    {}\n", describe_effect(e));
 }
@@ -81,7 +81,7 @@ SearchComputation compute_search(const LoadedRun& run, const SearchOptions& base
     auto& r = c.results.back();
     c.backtests.emplace_back();
     check_cancel(options.cancel);  // the shortlist backtest itself runs to its end
-    if (config.backtest.enabled && backtest && r.has_leader()) {
+    if (config.backtest.enabled && backtest && r.has_chosen()) {
       if (!quiet && ::isatty(STDERR_FILENO))
         fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
       c.backtests.back() = backtest_shortlist(data, config, r, options.threads);
@@ -109,7 +109,7 @@ std::vector<std::string> write_search_files(const std::filesystem::path& stage,
     write_file_atomic(stage / run_files::per_series(run_files::kInputValue, r.series, several),
                       input_value_csv(bt));
   }
-  // Per series: the leader's model file, fit, screen and forecast; then the leaderboard.
+  // Per series: the chosen model's model file, fit, screen and forecast; then the ranking.
   std::vector<std::string> without_model;
   for (size_t k = 0; k < results.size(); ++k) {
     const auto& r = results[k];
@@ -117,42 +117,42 @@ std::vector<std::string> write_search_files(const std::filesystem::path& stage,
     const ScreenResult screen = r.screen ? *r.screen : screen_series(data, config);
     write_file_atomic(stage / run_files::per_series(run_files::kScreen, r.series, several),
                       to_json(screen).dump(1) + "\n");
-    if (!r.has_leader()) {
+    if (!r.has_chosen()) {
       without_model.push_back(fmt::format("series '{}': {}", r.series, no_candidate_reason(r)));
       continue;
     }
-    const FittedModel model = leader_model(run, c, k);
+    const FittedModel model = chosen_model(run, c, k);
     const SeriesData fitted = search_data(data, r);  // with the detected effects' columns
     save_model(stage / run_files::model_file(r.series, several), model);
-    auto fit_json = fit_to_json(r.leader);
+    auto fit_json = fit_to_json(r.chosen);
     fit_json["series"] = r.series;
     fit_json["frequency"] = data.frequency;
     fit_json["missing"] = describe_missing(data);  // what was missing, filled or inserted
     if (!config.seasonal_note.empty()) fit_json["seasonal_note"] = config.seasonal_note;
     if (r.outliers) fit_json["outliers"] = search_outliers_json(*r.outliers, data);
-    const PastFit past = explain_past(fitted, r.leader.spec, r.leader.params, r.leader.start);
+    const PastFit past = explain_past(fitted, r.chosen.spec, r.chosen.params, r.chosen.start);
     fit_json["past"] = past_to_json(past);
     write_file_atomic(stage / run_files::per_series(run_files::kPast, r.series, several),
                       past_csv(past));
     write_file_atomic(stage / run_files::per_series(run_files::kFit, r.series, several),
                       fit_json.dump(1) + "\n");
-    write_leader_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
+    write_chosen_forecast(stage / run_files::per_series(run_files::kForecast, r.series, several),
                           model, fitted, config);
   }
-  write_file_atomic(stage / run_files::kLeaderboardCsv, leaderboard_csv(c.all_rows, config));
-  write_file_atomic(stage / run_files::kLeaderboardJson,
-                    leaderboard_json(c.all_rows, config, results).dump(2) + "\n");
+  write_file_atomic(stage / run_files::kRankingCsv, ranking_csv(c.all_rows, config));
+  write_file_atomic(stage / run_files::kRankingJson,
+                    ranking_json(c.all_rows, config, results).dump(2) + "\n");
   return without_model;
 }
 
-FittedModel leader_model(const LoadedRun& run, const SearchComputation& c, size_t k) {
-  // With detected effects: the data with their columns, and the leader's set in its model file.
+FittedModel chosen_model(const LoadedRun& run, const SearchComputation& c, size_t k) {
+  // With detected effects: the data with their columns, and the chosen model's set in its model file.
   const SearchResult& r = c.results[k];
   FittedModel model = make_fitted_model(
-      r.leader, run.config, search_data(run.series[k], r),
+      r.chosen, run.config, search_data(run.series[k], r),
       r.rows.empty() ? std::vector<OutlierEffect>{} : row_effects(r.rows.front(), r));
-  if (c.backtests[k] && c.backtests[k]->result.leader >= 0)
-    model.backtest = accuracy_json(c.backtests[k]->result.models[c.backtests[k]->result.leader],
+  if (c.backtests[k] && c.backtests[k]->result.chosen >= 0)
+    model.backtest = accuracy_json(c.backtests[k]->result.models[c.backtests[k]->result.chosen],
                                    c.backtests[k]->options);
   return model;
 }
@@ -217,7 +217,7 @@ int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
                  to_string(row.status), effects_column ? effects : "");
     }
     if (r.outliers) print_search_outliers(*r.outliers);
-    if (!r.leader_reason.empty()) fmt::print("  leader: {}\n", r.leader_reason);
+    if (!r.chosen_reason.empty()) fmt::print("  chosen model: {}\n", r.chosen_reason);
     for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
   }
   ReportOptions report_options;
@@ -228,7 +228,7 @@ int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
   if (!without_model.empty()) {
     for (const auto& why : without_model)
       fmt::print(stderr,
-                 "lagsieve: error: {}; no model file written (the leaderboard in {} lists "
+                 "lagsieve: error: {}; no model file written (the ranking in {} lists "
                  "every candidate's status and message)\n",
                  why, out.string());
     fmt::print("run folder: {} (report: {})\n", out.string(), report_path.string());

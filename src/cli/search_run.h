@@ -35,7 +35,7 @@ int run_search_command(const SearchArgs& args);
 int run_search_in_folder(const LoadedRun& run, const SearchArgs& args);
 
 // What a search computes before anything is written: per series the ranked result and the
-// shortlist backtest (absent when off or without a leader), and every row in series order.
+// shortlist backtest (absent when off or without a chosen model), and every row in series order.
 struct SearchComputation {
   std::vector<SearchResult> results;
   std::vector<std::optional<ShortlistBacktest>> backtests;
@@ -52,7 +52,7 @@ SearchComputation compute_search(const LoadedRun& run, const SearchOptions& opti
 std::vector<std::string> write_search_files(const std::filesystem::path& stage,
                                             const LoadedRun& run, const SearchComputation& c);
 
-// The model file of series k's leader (with its backtest accuracy when there was one).
-FittedModel leader_model(const LoadedRun& run, const SearchComputation& c, size_t k);
+// The model file of series k's chosen model (with its backtest accuracy when there was one).
+FittedModel chosen_model(const LoadedRun& run, const SearchComputation& c, size_t k);
 
 }  // namespace lagsieve::cli

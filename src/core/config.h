@@ -108,12 +108,12 @@ struct BacktestConfig {
   int shortlist = 10;
   std::vector<double> levels{0.8, 0.95};
   std::string score = "mase";               // mase | rmse | mae | interval_score
-  // How the leader is chosen from the backtested shortlist (src/search/selection.h):
+  // How the model is chosen from the backtested shortlist (src/search/selection.h):
   // simplest_within_noise (default) | best_score; the one-sided Diebold-Mariano level of
   // "significantly worse than the best"; the fit statuses that may lead.
   std::string selection = "simplest_within_noise";
   double selection_level = 0.05;
-  std::vector<std::string> leader_statuses{"ok", "no_convergence"};
+  std::vector<std::string> chosen_statuses{"ok", "no_convergence"};
 };
 
 // `fit:` at the top level: how every fit of the run estimates (src/model/fit.h).

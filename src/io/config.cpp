@@ -371,7 +371,8 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
   if (node.IsNull()) return;  // `backtest:` alone switches it on with the defaults
   rd.check_map(node, "backtest",
                {"first_origin", "step", "horizon", "window", "window_length", "refit", "shortlist",
-                "levels", "score", "selection", "selection_level", "leader_statuses"});
+                "levels", "score", "selection", "selection_level", "chosen_statuses",
+                 "leader_statuses"});
   if (const auto n = node["first_origin"]) bt.first_origin = rd.get_int(n, "backtest.first_origin");
   if (const auto n = node["step"]) bt.step = rd.get_int(n, "backtest.step", 1);
   if (const auto n = node["horizon"])
@@ -409,15 +410,20 @@ void read_backtest(const Reader& rd, const YAML::Node& node, BacktestConfig& bt)
     if (!(bt.selection_level > 0.0 && bt.selection_level < 0.5))
       rd.fail(n, "backtest.selection_level", "must lie strictly between 0 and 0.5 (default 0.05)");
   }
-  if (const auto n = node["leader_statuses"]) {
+  // `leader_statuses` is the legacy spelling, read for one release.
+  if (node["chosen_statuses"] && node["leader_statuses"])
+    rd.fail(node["leader_statuses"], "backtest.leader_statuses",
+            "is the legacy name of backtest.chosen_statuses; give only chosen_statuses");
+  const std::string statuses_key = node["chosen_statuses"] ? "chosen_statuses" : "leader_statuses";  // legacy
+  if (const auto n = node[statuses_key]) {
     const std::vector<std::string> allowed{"ok", "no_convergence", "boundary"};
-    bt.leader_statuses.clear();
+    bt.chosen_statuses.clear();
     for (size_t i = 0; i < n.size(); ++i) {
-      const std::string v = rd.get_string(n[i], fmt::format("backtest.leader_statuses[{}]", i));
+      const std::string v = rd.get_string(n[i], fmt::format("backtest.{}[{}]", statuses_key, i));
       if (std::find(allowed.begin(), allowed.end(), v) == allowed.end())
-        rd.fail(n[i], "backtest.leader_statuses",
+        rd.fail(n[i], "backtest." + statuses_key,
                 fmt::format("'{}' cannot lead; choose among: {}", v, join_comma(allowed)));
-      bt.leader_statuses.push_back(v);
+      bt.chosen_statuses.push_back(v);
     }
   }
 }

@@ -33,7 +33,7 @@ struct FitOptions {
   bool standard_errors = true;        // profile-likelihood curvature (about d^2/2 evaluations)
   bool diagnostics = true;            // residuals, Ljung-Box, roots, gains, residual-input ccf
   // With diagnostics: the residual-input cross-correlation of every input. A search's candidate
-  // fits turn it off (they read only Ljung-Box and warnings; the leader is refitted with it).
+  // fits turn it off (they read only Ljung-Box and warnings; the chosen model is refitted with it).
   bool residual_input_check = true;
   std::optional<ModelParams> warm_start;  // start here instead of the regression start values
   // With two or more ARMA coefficients, also start from the neutral point and from the start

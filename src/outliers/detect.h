@@ -113,7 +113,7 @@ OutlierFit fit_with_outliers(const SeriesData& data, const ModelSpec& spec,
                              const OutlierOptions& options, int start = -1);
 
 // The joint fit with a given set of effects, none detected or dropped (a search's shortlist
-// shares the leader's set). Effects keep their definitions; sizes come from this fit.
+// shares the chosen model's set). Effects keep their definitions; sizes come from this fit.
 OutlierFit fit_with_effects(const SeriesData& data, const ModelSpec& spec,
                             const std::vector<OutlierEffect>& effects, const FitOptions& options,
                             int start = -1);

@@ -52,8 +52,8 @@ std::optional<EffectsSection> effects_section(const json& fit, const std::string
   s.intro = fmt::format(
       "Events the data did not announce, found by outlier detection on {} at a critical |t| of "
       "{:.2f} and fitted with every shortlisted candidate as event inputs; sizes, standard errors "
-      "and statistics are from the leader's fit, on the modelled scale of the target.",
-      text(o, "detected_on").empty() ? "the criterion leader" : text(o, "detected_on"), critical);
+      "and statistics are from the chosen model's fit, on the modelled scale of the target.",
+      text(o, "detected_on").empty() ? "the best candidate by the criterion" : text(o, "detected_on"), critical);
   if (effects.empty()) {
     s.blocks.push_back(HtmlParagraph{
         text(o, "note").empty()

@@ -36,7 +36,7 @@ struct HtmlTable {
   std::vector<TableColumn> columns;
   std::vector<std::vector<TableValue>> rows;  // short rows are padded with empty cells
   bool sortable = false;                      // header click sorts (numbers numerically)
-  std::vector<int> highlighted_rows;          // e.g. the leader
+  std::vector<int> highlighted_rows;          // e.g. the chosen model
   std::string note;                           // small print under the table
 };
 

@@ -301,7 +301,7 @@ std::optional<HtmlSection> past_section(const json& fit, const std::string& fit_
   HtmlSection s;
   s.heading = "The past, explained" + heading_suffix;
   s.intro = fmt::format(
-      "How the leader explains the history it was fitted on: its one-step predictions, what they "
+      "How the chosen model explains the history it was fitted on: its one-step predictions, what they "
       "missed, and which inputs moved the target when. Values are on the scale of the {}.",
       p.scale == "target" ? std::string("target") : p.scale);
   // Events given as 1-based rows (no time column) are matched on the row number.

@@ -35,7 +35,7 @@ void ReportOptions::validate() const {
     if (v <= 0)
       throw InputError(fmt::format("report option {} = {}: must be at least 1", name, v));
   };
-  positive(leaderboard_rows, "leaderboard_rows");
+  positive(ranking_rows, "ranking_rows");
   positive(backtest_models, "backtest_models");
   positive(forecast_table_rows, "forecast_table_rows");
 }
@@ -184,7 +184,7 @@ class CsvFile {
 // ---------------------------------------------------------------------------------------------
 // The run folder: which series it holds and where each file is.
 
-struct LeaderboardRow {
+struct RankingRow {
   std::string series, key, status, message;
   int rank = 0;
   double criterion = kNaN, loglik = kNaN, ljung_box_p = kNaN, backtest_score = kNaN;
@@ -194,23 +194,23 @@ struct LeaderboardRow {
   std::string effects;  // detected effects fitted with the row, "" when none
 };
 
-// Per series: what the rows are sorted by, why the leader was chosen, the run's warnings.
+// Per series: what the rows are sorted by, why the model was chosen, the run's warnings.
 struct SeriesNote {
-  std::string sorted_by, leader_reason;
+  std::string sorted_by, chosen_reason;
   std::vector<std::string> warnings;
   std::vector<std::string> stages;  // what each search stage fitted and skipped, in words
 };
 
-struct Leaderboard {
+struct Ranking {
   std::string criterion;  // "aic", "aicc" or "bic"
-  std::vector<LeaderboardRow> rows;
-  std::map<std::string, SeriesNote> notes;  // by series (leaderboards without notes: empty)
+  std::vector<RankingRow> rows;
+  std::map<std::string, SeriesNote> notes;  // by series (rankings without notes: empty)
 };
 
-Leaderboard read_leaderboard(const fs::path& file) {
+Ranking read_ranking(const fs::path& file) {
   const JsonFile f(file.string());
   const json doc = read_json(file);
-  Leaderboard lb;
+  Ranking lb;
   lb.criterion = f.text(doc, "criterion", "");
   if (lb.criterion != "aic" && lb.criterion != "aicc" && lb.criterion != "bic")
     f.fail("criterion", "is not one of aic, aicc, bic");
@@ -218,7 +218,7 @@ Leaderboard read_leaderboard(const fs::path& file) {
   for (size_t i = 0; i < rows.size(); ++i) {
     const json& r = rows[i];
     const std::string path = fmt::format("rows[{}].", i);
-    LeaderboardRow row;
+    RankingRow row;
     row.series = f.text(r, "series", path);
     f.at(r, "key", path);
     row.key = f.text(r, "key", path);
@@ -249,7 +249,8 @@ Leaderboard read_leaderboard(const fs::path& file) {
       const std::string path = fmt::format("series_notes[{}].", i);
       SeriesNote note;
       note.sorted_by = f.text(n, "sorted_by", path);
-      note.leader_reason = f.text(n, "leader_reason", path);
+      const bool legacy_key = !n.contains("chosen_reason") && n.contains("leader_reason");
+      note.chosen_reason = f.text(n, legacy_key ? "leader_reason" : "chosen_reason", path);
       if (n.contains("warnings"))
         for (const auto& w : f.array(n, "warnings", path))
           note.warnings.push_back(w.is_string() ? w.get<std::string>() : w.dump());
@@ -281,14 +282,14 @@ struct SeriesFiles {
   std::optional<FittedModel> model;
   std::optional<json> fit, screen, forecast;
   std::string fit_file, screen_file, forecast_file, model_file;
-  std::vector<LeaderboardRow> rows;  // this series' leaderboard rows, by rank
+  std::vector<RankingRow> rows;  // this series' ranking rows, by rank
 };
 
 struct RunFolder {
   fs::path dir;
   std::string name;  // the folder's name as shown (a staged run shows its final name)
   bool several = false;
-  std::optional<Leaderboard> leaderboard;
+  std::optional<Ranking> ranking;
   std::vector<SeriesFiles> series;
   std::optional<nlohmann::ordered_json> revalidation;
   std::vector<std::string> files_read;
@@ -319,9 +320,12 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
   run.dir = dir;
   const auto exists = [&](const std::string& name) { return fs::is_regular_file(dir / name); };
 
-  if (exists(run_files::kLeaderboardJson)) {
-    run.leaderboard = read_leaderboard(dir / run_files::kLeaderboardJson);
-    run.files_read.push_back(run_files::kLeaderboardJson);
+  // A folder written before the ranking had its name holds the legacy leaderboard.json.
+  const char* ranking_file =
+      exists(run_files::kRankingJson) ? run_files::kRankingJson : run_files::kLegacyRankingJson;
+  if (exists(ranking_file)) {
+    run.ranking = read_ranking(dir / ranking_file);
+    run.files_read.push_back(ranking_file);
   }
   if (exists(run_files::kRevalidation)) {
     run.revalidation = read_json<nlohmann::ordered_json>(dir / run_files::kRevalidation);
@@ -332,8 +336,8 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
   }
 
   std::vector<std::string> names;
-  if (run.leaderboard)
-    for (const auto& row : run.leaderboard->rows)
+  if (run.ranking)
+    for (const auto& row : run.ranking->rows)
       if (std::find(names.begin(), names.end(), row.series) == names.end()) names.push_back(row.series);
   const std::vector<std::string> suffixed = suffixed_series(dir);
   if (names.size() > 1 || (names.empty() && !suffixed.empty())) {
@@ -341,18 +345,18 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
     if (names.empty()) names = suffixed;
   }
   if (!run.several) {
-    // One series: its name from the leaderboard, else from whichever file names it.
+    // One series: its name from the ranking, else from whichever file names it.
     // A backtest folder holds only the backtest tables.
     const bool any = exists(run_files::kFit) || exists(run_files::kScreen) ||
                      exists(run_files::kForecast) || exists(run_files::model_file("", false)) ||
                      exists(run_files::kAccuracy);
     if (names.empty() && any) names.push_back("");
   }
-  if (names.empty() && !run.revalidation && !run.leaderboard)
+  if (names.empty() && !run.revalidation && !run.ranking)
     throw InputError(fmt::format(
         "{}: not a run folder: none of {}, {}, {}, {}, {} found; pass the folder a search, "
         "backtest or revalidate wrote (output.dir in the config)",
-        dir.string(), run_files::kLeaderboardJson, run_files::model_file("", false), run_files::kFit,
+        dir.string(), run_files::kRankingJson, run_files::model_file("", false), run_files::kFit,
         run_files::kScreen, run_files::kRevalidation));
 
   for (const std::string& name : names) {
@@ -386,16 +390,16 @@ RunFolder read_run_folder(const fs::path& dir, std::vector<std::string>& warning
       else if (s.forecast && (*s.forecast).contains("series") && (*s.forecast)["series"].is_string())
         s.name = (*s.forecast)["series"].get<std::string>();
     }
-    if (run.leaderboard) {
-      for (const auto& row : run.leaderboard->rows)
+    if (run.ranking) {
+      for (const auto& row : run.ranking->rows)
         if (row.series == name) s.rows.push_back(row);
       std::stable_sort(s.rows.begin(), s.rows.end(),
-                       [](const LeaderboardRow& a, const LeaderboardRow& b) { return a.rank < b.rank; });
-      const bool has_leader = std::any_of(s.rows.begin(), s.rows.end(), [](const LeaderboardRow& r) {
+                       [](const RankingRow& a, const RankingRow& b) { return a.rank < b.rank; });
+      const bool has_chosen = std::any_of(s.rows.begin(), s.rows.end(), [](const RankingRow& r) {
         return r.status == "ok" || r.status == "boundary" || r.status == "no_convergence";
       });
-      if (has_leader && !s.model && !s.fit)
-        warnings.push_back(fmt::format("{}: neither {} nor {} found; the leader's diagnostics and "
+      if (has_chosen && !s.model && !s.fit)
+        warnings.push_back(fmt::format("{}: neither {} nor {} found; the chosen model's diagnostics and "
                                        "impulse responses are not shown",
                                        name, s.model_file, s.fit_file));
     }
@@ -545,10 +549,10 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
     kv.items.emplace_back("Target transform", transform_text(first_with_model->model->spec.transform));
     kv.items.emplace_back("Differencing", differencing_text(first_with_model->model->spec.differencing));
   }
-  if (run.leaderboard) {
-    const bool backtested = std::any_of(run.leaderboard->rows.begin(), run.leaderboard->rows.end(),
-                                        [](const LeaderboardRow& r) { return std::isfinite(r.backtest_score); });
-    const std::string crit = criterion_label(run.leaderboard->criterion);
+  if (run.ranking) {
+    const bool backtested = std::any_of(run.ranking->rows.begin(), run.ranking->rows.end(),
+                                        [](const RankingRow& r) { return std::isfinite(r.backtest_score); });
+    const std::string crit = criterion_label(run.ranking->criterion);
     kv.items.emplace_back("Ranked by", backtested ? fmt::format("backtest score for the shortlist, then {} (lower is "
                                                                 "better for both)", crit)
                                                   : crit + " (lower is better)");
@@ -570,18 +574,18 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
                                     tr.frequency.empty() ? "" : " (" + tr.frequency + ")"));
     }
     if (!sf.rows.empty()) data.items.emplace_back("Candidates", std::to_string(sf.rows.size()));
-    if (!sf.rows.empty() && sf.rows.front().rank == 1) data.items.emplace_back("Leader", sf.rows.front().key);
-    else if (sf.model) data.items.emplace_back("Leader", model_label(sf.model->spec));
+    if (!sf.rows.empty() && sf.rows.front().rank == 1) data.items.emplace_back("Chosen", sf.rows.front().key);
+    else if (sf.model) data.items.emplace_back("Chosen", model_label(sf.model->spec));
     auto& items = std::get<HtmlKeyValues>(s.blocks.front()).items;
     items.insert(items.begin() + 1, data.items.begin(), data.items.end());
   }
-  // Several series: one row each, with data range and leader.
+  // Several series: one row each, with data range and chosen model.
   HtmlTable t;
   t.caption = "Series";
   t.columns = {{"Series", "", NumberFormat::automatic, 3},     {"Rows", "", NumberFormat::automatic, 0},
                {"First", "", NumberFormat::automatic, 3},      {"Last", "", NumberFormat::automatic, 3},
                {"Frequency", "", NumberFormat::automatic, 3},  {"Candidates", "", NumberFormat::automatic, 0},
-               {"Leader", "", NumberFormat::automatic, 3}};
+               {"Chosen", "", NumberFormat::automatic, 3}};
   for (const auto& sf : run.series) {
     std::vector<TableValue> row{cell(sf.name)};
     if (sf.model) {
@@ -597,10 +601,10 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
       row.insert(row.end(), {TableValue{}, TableValue{}, TableValue{}, TableValue{}});
     }
     row.push_back(sf.rows.empty() ? TableValue{} : cell(static_cast<int>(sf.rows.size())));
-    std::string leader;
-    if (!sf.rows.empty() && sf.rows.front().rank == 1) leader = sf.rows.front().key;
-    else if (sf.model) leader = model_label(sf.model->spec);
-    row.push_back(cell(leader.empty() ? std::string("none usable") : leader));
+    std::string chosen;
+    if (!sf.rows.empty() && sf.rows.front().rank == 1) chosen = sf.rows.front().key;
+    else if (sf.model) chosen = model_label(sf.model->spec);
+    row.push_back(cell(chosen.empty() ? std::string("none usable") : chosen));
     t.rows.push_back(std::move(row));
   }
   if (run.series.size() > 1) s.blocks.push_back(std::move(t));
@@ -610,7 +614,7 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
     s.blocks.push_back(HtmlParagraph{kConfigMarker});
   }
 
-  // Warnings of the screen and of the leader's fit, and forecasts that could not be made.
+  // Warnings of the screen and of the chosen model's fit, and forecasts that could not be made.
   for (const auto& sf : run.series) {
     const std::string who = run.several ? sf.name + ": " : "";
     if (sf.screen && (*sf.screen).contains("warnings") && (*sf.screen)["warnings"].is_array())
@@ -622,7 +626,7 @@ HtmlSection summary_section(const RunFolder& run, std::string& config_text) {
     if (sf.fit && (*sf.fit).contains("diagnostics") && (*sf.fit)["diagnostics"].contains("warnings") &&
         (*sf.fit)["diagnostics"]["warnings"].is_array())
       for (const auto& w : (*sf.fit)["diagnostics"]["warnings"])
-        s.blocks.push_back(HtmlNotice{Tone::warning, who + "Leader's fit", json_text(w)});
+        s.blocks.push_back(HtmlNotice{Tone::warning, who + "Chosen model's fit", json_text(w)});
     if (sf.forecast && (*sf.forecast).contains("note") && (*sf.forecast)["note"].is_string())
       s.blocks.push_back(HtmlNotice{Tone::neutral, who + "Forecast", (*sf.forecast)["note"].get<std::string>()});
   }
@@ -662,7 +666,7 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
       "cross-correlated; events and indicator columns (two-valued steps and pulses) are not "
       "prewhitened, since an AR model fitted to a step whitens away the change itself. Bars beyond the orange band lines at lags 0 and above point to the delay; bars at negative lags "
       "would mean the target leads the input (feedback). Beside it, the impulse response the screen "
-      "estimates from those correlations, its fitted shape, and the leader's estimated response.";
+      "estimates from those correlations, its fitted shape, and the chosen model's estimated response.";
   if (inputs.empty()) s.blocks.push_back(HtmlParagraph{"The run has no inputs."});
   for (size_t i = 0; i < inputs.size(); ++i) {
     const json& in = inputs[i];
@@ -726,7 +730,7 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
     if (relevant && vfit.size() == v.size())
       ir.series.push_back(LineSeries{fmt::format("screen shape b{} s{} r{}", b0, s0, r0), k, vfit, 2,
                                      false, LineStyle::dashed, false});
-    std::string leader_text = "is not in the leader";
+    std::string chosen_text = "is not in the chosen model";
     if (sf.model) {
       const auto& spec = sf.model->spec;
       for (size_t t = 0; t < spec.inputs.size(); ++t) {
@@ -734,9 +738,9 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
         const InputOrder& o = spec.inputs[t].order;
         const std::vector<double> lv =
             impulse_response(o, sf.model->params.inputs[t], static_cast<int>(v.size()));
-        ir.series.push_back(LineSeries{fmt::format("leader b{} s{} r{}", o.delay, o.numerator, o.denominator),
+        ir.series.push_back(LineSeries{fmt::format("chosen model b{} s{} r{}", o.delay, o.numerator, o.denominator),
                                        k, lv, kModelColour, false, LineStyle::solid, true});
-        leader_text = "";
+        chosen_text = "";
       }
     }
     ir.include_zero = true;
@@ -744,9 +748,9 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
       ir.x_min = -0.5;
       ir.x_max = k.back() + 0.5;
     }
-    ir.frame.title = leader_text.empty()
-        ? fmt::format("{}: the leader's response should stay inside the shaded band", name)
-        : fmt::format("{} {}: the screen's estimate alone", name, leader_text);
+    ir.frame.title = chosen_text.empty()
+        ? fmt::format("{}: the chosen model's response should stay inside the shaded band", name)
+        : fmt::format("{} {}: the screen's estimate alone", name, chosen_text);
     ir.frame.subtitle = "response of the (transformed, differenced) target to a unit pulse in the input";
     ir.frame.x_title = "Lag k (steps after the pulse)";
     ir.frame.y_title = "Response v_k (per unit of input)";
@@ -767,15 +771,15 @@ void add_input_sections(Builder& b, const SeriesFiles& sf, HtmlSection& s) {
   }
 }
 
-// ---- Leaderboard ----------------------------------------------------------------------------
+// ---- Ranking ----------------------------------------------------------------------------
 
-HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const Leaderboard& lb,
+HtmlSection ranking_section(const Builder& b, const SeriesFiles& sf, const Ranking& lb,
                                 const ReportOptions& options) {
   HtmlSection s;
   const std::string crit = criterion_label(lb.criterion);
-  s.heading = "Leaderboard" + b.suffix(sf);
+  s.heading = "Ranking" + b.suffix(sf);
   const bool backtested = std::any_of(sf.rows.begin(), sf.rows.end(),
-                                      [](const LeaderboardRow& r) { return std::isfinite(r.backtest_score); });
+                                      [](const RankingRow& r) { return std::isfinite(r.backtest_score); });
   const auto note = lb.notes.find(sf.name);
   const bool has_note = note != lb.notes.end() && !note->second.sorted_by.empty();
   s.intro = fmt::format(
@@ -789,8 +793,8 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
           : fmt::format("Candidates ranked by {} (lower is better). ", crit),
       crit, crit);
   if (note != lb.notes.end()) {
-    if (!note->second.leader_reason.empty())
-      s.blocks.push_back(HtmlNotice{Tone::neutral, "Why this leader", note->second.leader_reason});
+    if (!note->second.chosen_reason.empty())
+      s.blocks.push_back(HtmlNotice{Tone::neutral, "Why this model", note->second.chosen_reason});
     if (!note->second.stages.empty())
       s.blocks.push_back(HtmlNotice{Tone::neutral, "What the search fitted and skipped",
                                     join(note->second.stages, ". ") + "."});
@@ -801,7 +805,7 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
   for (const auto& r : sf.rows)
     if (std::isfinite(r.criterion) && !(best <= r.criterion)) best = r.criterion;
   HtmlTable t;
-  t.caption = fmt::format("Top {} of {} candidates", std::min<size_t>(sf.rows.size(), options.leaderboard_rows),
+  t.caption = fmt::format("Top {} of {} candidates", std::min<size_t>(sf.rows.size(), options.ranking_rows),
                           sf.rows.size());
   t.sortable = true;
   t.columns = {{"Rank", "", NumberFormat::automatic, 0},
@@ -815,11 +819,11 @@ HtmlSection leaderboard_section(const Builder& b, const SeriesFiles& sf, const L
                {"Status", "", NumberFormat::automatic, 3}};
   // With outlier detection, a last column names the detected effects each row was fitted with.
   const bool any_effects = std::any_of(sf.rows.begin(), sf.rows.end(),
-                                       [](const LeaderboardRow& r) { return !r.effects.empty(); });
+                                       [](const RankingRow& r) { return !r.effects.empty(); });
   if (any_effects) t.columns.push_back({"Detected effects", "", NumberFormat::automatic, 3});
   std::map<std::string, int> by_status;
   for (const auto& r : sf.rows) ++by_status[r.status];
-  for (size_t i = 0; i < sf.rows.size() && static_cast<int>(i) < options.leaderboard_rows; ++i) {
+  for (size_t i = 0; i < sf.rows.size() && static_cast<int>(i) < options.ranking_rows; ++i) {
     const auto& r = sf.rows[i];
     if (r.rank == 1) t.highlighted_rows.push_back(static_cast<int>(i));
     // The fit's message only where the status needs explaining.
@@ -968,7 +972,7 @@ std::optional<HtmlSection> forecast_section(Builder& b, const SeriesFiles& sf, c
   if (sf.model)
     for (size_t i = 0; i < sf.model->spec.inputs.size() && i < treatment.size(); ++i)
       treat_text.push_back(sf.model->spec.inputs[i].name + ": " + treatment[i]);
-  s.intro = "The leader's forecast from the end of the data: median (the back-transformed point "
+  s.intro = "The chosen model's forecast from the end of the data: median (the back-transformed point "
             "forecast) with nested prediction intervals.";
   s.blocks.push_back(b.figure(
       fan_chart_svg(fan), b.stem("forecast_fan", sf),
@@ -1055,8 +1059,8 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
             "inputs as in production (known or forecast) and, for comparison, with the realised "
             "inputs (oracle). Lower errors are better; honest intervals cover about their nominal share.";
 
-  // Leader and candidates from the leaderboard; anything else is a benchmark.
-  std::string leader = !sf.rows.empty() && sf.rows.front().rank == 1 ? sf.rows.front().key
+  // Chosen model and candidates from the ranking; anything else is a benchmark.
+  std::string chosen = !sf.rows.empty() && sf.rows.front().rank == 1 ? sf.rows.front().key
                        : sf.model ? model_label(sf.model->spec) : std::string();
   std::set<std::string> candidates;
   for (const auto& r : sf.rows) candidates.insert(r.key);
@@ -1069,7 +1073,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     const int cm = a.column("model"), cmode = a.column("mode"), ch = a.column("horizon"),
               cmae = a.column("mae");
     const int ccount = a.table().column_index("count");
-    // Model order: leader, other candidates by leaderboard rank, then benchmarks (file order).
+    // Model order: chosen model, other candidates by ranking rank, then benchmarks (file order).
     std::vector<std::string> models;
     for (int r = 0; r < a.rows(); ++r) {
       if (!row_in_series(a, r, sf)) continue;
@@ -1080,7 +1084,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     for (const auto& row : sf.rows) order[row.key] = row.backtest_rank > 0 ? row.backtest_rank : 100000 + row.rank;
     std::stable_sort(models.begin(), models.end(), [&](const std::string& x, const std::string& y) {
       const auto key = [&](const std::string& m) {
-        if (m == leader) return -1;
+        if (m == chosen) return -1;
         if (is_benchmark(m)) return 1 << 30;
         const auto it = order.find(m);
         return it == order.end() ? (1 << 29) : it->second;
@@ -1119,7 +1123,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       HorizonChart hc;
       hc.horizons = horizons;
       for (const auto& m : shown) {
-        HorizonSeries hs{m == leader ? m + " (leader)" : m, {}, is_benchmark(m)};
+        HorizonSeries hs{m == chosen ? m + " (chosen model)" : m, {}, is_benchmark(m)};
         for (int h : horizons) hs.values.push_back(value_at(m, "production", h, cmae));
         hc.series.push_back(std::move(hs));
       }
@@ -1130,21 +1134,21 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       hc.frame.width = kWideChart;
       s.blocks.push_back(b.figure(horizon_chart_svg(hc), b.stem("backtest_error_by_horizon", sf), ""));
 
-      // The leader with forecast inputs against the leader with the realised inputs.
+      // The chosen model with forecast inputs against the chosen model with the realised inputs.
       HorizonChart oc;
       oc.horizons = horizons;
       HorizonSeries prod{"inputs as in production", {}, false};
       HorizonSeries oracle{"inputs known (oracle)", {}, true};
       bool any_oracle = false;
       for (int h : horizons) {
-        prod.values.push_back(value_at(leader, "production", h, cmae));
-        oracle.values.push_back(value_at(leader, "oracle", h, cmae));
+        prod.values.push_back(value_at(chosen, "production", h, cmae));
+        oracle.values.push_back(value_at(chosen, "oracle", h, cmae));
         any_oracle = any_oracle || std::isfinite(oracle.values.back());
       }
       if (any_oracle) {
         oc.series = {prod, oracle};
-        oc.frame.title = "Leader: the gap is the error from forecasting the inputs";
-        oc.frame.subtitle = leader;
+        oc.frame.title = "Chosen model: the gap is the error from forecasting the inputs";
+        oc.frame.subtitle = chosen;
         oc.frame.x_title = "Forecast horizon (steps ahead)";
         oc.frame.y_title = fmt::format("MAE ({} units)", sf.name);
         pair.push_back(b.figure(horizon_chart_svg(oc), b.stem("backtest_inputs_known_vs_forecast", sf), ""));
@@ -1161,7 +1165,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       CoverageChart cc;
       for (const auto& [level, col] : cov_cols) cc.nominal.push_back(level);
       for (const auto& m : shown) {
-        CoverageSeries cs{m == leader ? m + " (leader)" : m, {}, 0};
+        CoverageSeries cs{m == chosen ? m + " (chosen model)" : m, {}, 0};
         for (const auto& [level, col] : cov_cols) cs.empirical.push_back(value_at(m, "production", 0, col));
         if (ccount >= 0) {
           const double n = value_at(m, "production", 0, ccount);
@@ -1197,7 +1201,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     t.columns.push_back({"MASE, inputs known", "", NumberFormat::automatic, 3});
     for (const auto& m : models) {
       const double count = ccount >= 0 ? value_at(m, "production", 0, ccount) : kNaN;
-      std::vector<TableValue> row{cell(m == leader ? m + " (leader)" : m),
+      std::vector<TableValue> row{cell(m == chosen ? m + " (chosen model)" : m),
                                   std::isfinite(count) ? cell(static_cast<int>(count)) : TableValue{},
                                   cell(value_at(m, "production", 0, cmae)),
                                   cell(crmse >= 0 ? value_at(m, "production", 0, crmse) : kNaN),
@@ -1205,7 +1209,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       for (const auto& [level, col] : cov_cols) row.push_back(cell(value_at(m, "production", 0, col)));
       if (!score_cols.empty()) row.push_back(cell(value_at(m, "production", 0, score_cols.back().second)));
       row.push_back(cell(cmase >= 0 ? value_at(m, "oracle", 0, cmase) : kNaN));
-      if (m == leader) t.highlighted_rows.push_back(static_cast<int>(t.rows.size()));
+      if (m == chosen) t.highlighted_rows.push_back(static_cast<int>(t.rows.size()));
       t.rows.push_back(std::move(row));
     }
     t.note = "MASE below 1: better than the in-sample one-step naive forecast. The interval score "
@@ -1214,7 +1218,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     if (!t.rows.empty()) s.blocks.push_back(std::move(t));
   }
 
-  // The leader's one-step production forecasts against the actuals, origin by origin.
+  // The chosen model's one-step production forecasts against the actuals, origin by origin.
   if (bf.backtest) {
     const CsvFile& c = *bf.backtest;
     const int cm = c.column("model"), cmode = c.column("mode"), ch = c.column("horizon"),
@@ -1228,7 +1232,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     std::vector<std::string> stamps;
     std::vector<std::vector<double>> lo(lowers.size()), hi(uppers.size());
     for (int r = 0; r < c.rows(); ++r) {
-      if (!row_in_series(c, r, sf) || c.text(r, cm) != leader || c.text(r, cmode) != "production" ||
+      if (!row_in_series(c, r, sf) || c.text(r, cm) != chosen || c.text(r, cmode) != "production" ||
           c.number(r, ch) != 1)
         continue;
       x.push_back(static_cast<double>(x.size() + 1));
@@ -1253,8 +1257,8 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       lc.series.push_back(
           LineSeries{"one-step forecast", x, fcast, kModelColour, false, LineStyle::solid, false});
       lc.x_ticks = time_ticks(x, stamps, kWideChart);
-      lc.frame.title = "Leader's one-step backtest forecasts: actuals outside the bands are misses";
-      lc.frame.subtitle = leader + " · inputs as in production";
+      lc.frame.title = "Chosen model's one-step backtest forecasts: actuals outside the bands are misses";
+      lc.frame.subtitle = chosen + " · inputs as in production";
       lc.frame.x_title = "Time of the one-step forecast";
       lc.frame.y_title = sf.name;
       lc.frame.width = kWideChart;
@@ -1265,20 +1269,20 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
   if (bf.comparisons) {
     // One row per challenger: at which horizons either model is significantly better.
     const CsvFile& c = *bf.comparisons;
-    const int cl = c.column("leader"), cc = c.column("challenger"), ch = c.column("horizon"),
+    const int cl = c.column("chosen"), cc = c.column("challenger"), ch = c.column("horizon"),
               cn = c.column("n"), cd = c.column("mean_difference"), cp = c.column("p_value"),
               cs = c.column("status");
     struct Summary {
-      std::vector<int> leader_better, challenger_better;
+      std::vector<int> chosen_better, challenger_better;
       int tested = 0;
       double min_p = kNaN, pooled_difference = kNaN, pooled_p = kNaN;
       std::map<std::string, std::vector<int>> odd_status;  // status other than ok -> horizons
     };
     std::vector<std::pair<std::string, Summary>> rows;
-    std::string compared_leader;
+    std::string compared_chosen;
     for (int r = 0; r < c.rows(); ++r) {
       if (!row_in_series(c, r, sf)) continue;
-      compared_leader = c.text(r, cl);
+      compared_chosen = c.text(r, cl);
       const std::string& who = c.text(r, cc);
       auto it = std::find_if(rows.begin(), rows.end(), [&](const auto& e) { return e.first == who; });
       if (it == rows.end()) it = rows.insert(rows.end(), {who, Summary{}});
@@ -1293,7 +1297,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       }
       if (c.text(r, cs) != "not_tested") ++sm.tested;
       if (std::isfinite(pv) && !(sm.min_p <= pv)) sm.min_p = pv;
-      if (std::isfinite(pv) && pv < 0.05) (d < 0 ? sm.leader_better : sm.challenger_better).push_back(static_cast<int>(h));
+      if (std::isfinite(pv) && pv < 0.05) (d < 0 ? sm.chosen_better : sm.challenger_better).push_back(static_cast<int>(h));
     }
     const auto ranges = [](std::vector<int> v) {
       if (v.empty()) return std::string("none");
@@ -1310,11 +1314,11 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     bool pooled = false;
     for (const auto& [who, sm] : rows) pooled = pooled || std::isfinite(sm.pooled_p);
     HtmlTable t;
-    t.caption = "Is the leader better than each challenger? Diebold-Mariano tests, small-sample corrected";
+    t.caption = "Is the chosen model better than each challenger? Diebold-Mariano tests, small-sample corrected";
     t.sortable = true;
     t.columns = {{"Challenger", "", NumberFormat::automatic, 3},
                  {"Horizons tested", "", NumberFormat::automatic, 0},
-                 {"Leader better at", "", NumberFormat::automatic, 3},
+                 {"Chosen model better at", "", NumberFormat::automatic, 3},
                  {"Challenger better at", "", NumberFormat::automatic, 3},
                  {"Smallest p-value", "", NumberFormat::p_value, 3}};
     if (pooled) {
@@ -1323,7 +1327,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
     }
     t.columns.push_back({"Notes", "", NumberFormat::automatic, 3});
     for (const auto& [who, sm] : rows) {
-      std::vector<TableValue> row{cell(who), cell(sm.tested), cell(ranges(sm.leader_better)),
+      std::vector<TableValue> row{cell(who), cell(sm.tested), cell(ranges(sm.chosen_better)),
                                   cell(ranges(sm.challenger_better)), cell(sm.min_p)};
       if (pooled) {
         row.push_back(cell(sm.pooled_difference));
@@ -1346,17 +1350,17 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
       t.rows.push_back(std::move(row));
     }
     t.note = fmt::format(
-        "Leader: {}. Squared-error loss, one test per horizon; \"better at\" lists the horizons where "
-        "the mean loss difference (leader minus challenger) is significant at 5% (two-sided). "
+        "Chosen model: {}. Squared-error loss, one test per horizon; \"better at\" lists the horizons where "
+        "the mean loss difference (chosen model minus challenger) is significant at 5% (two-sided). "
         "Every test is in {}.",
-        compared_leader, fs::path(c.table().source).filename().string());
+        compared_chosen, fs::path(c.table().source).filename().string());
     if (!t.rows.empty()) s.blocks.push_back(std::move(t));
   }
 
   if (bf.input_value) {
     const CsvFile& c = *bf.input_value;
     HtmlTable t;
-    t.caption = "What each input is worth: the leader's backtest score with and without it";
+    t.caption = "What each input is worth: the chosen model's backtest score with and without it";
     t.sortable = true;
     t.columns = {{"Input", "", NumberFormat::automatic, 3},       {"Score with", "", NumberFormat::automatic, 3},
                  {"Score without", "", NumberFormat::automatic, 3}, {"Difference", "", NumberFormat::automatic, 3},
@@ -1375,7 +1379,7 @@ std::optional<HtmlSection> backtest_section(Builder& b, const RunFolder& run, co
   return s;
 }
 
-// ---- Leader diagnostics ---------------------------------------------------------------------
+// ---- Chosen model diagnostics ---------------------------------------------------------------------
 
 std::string complex_text(const json& z) {
   if (!z.is_array() || z.size() != 2 || !z[0].is_number() || !z[1].is_number()) return json_text(z);
@@ -1388,8 +1392,8 @@ HtmlSection diagnostics_section(Builder& b, const SeriesFiles& sf) {
   const JsonFile f(sf.fit_file);
   const json& fit = *sf.fit;
   HtmlSection s;
-  s.heading = "Leader diagnostics" + b.suffix(sf);
-  s.intro = "Checks of the leader's fit: residuals should look like white noise, estimates should "
+  s.heading = "Chosen model diagnostics" + b.suffix(sf);
+  s.intro = "Checks of the chosen model's fit: residuals should look like white noise, estimates should "
             "be well determined, and no root should sit near the unit circle.";
   HtmlKeyValues kv;
   kv.items.emplace_back("Model", f.text(fit, "label", ""));
@@ -1600,13 +1604,13 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
   page.subtitle = names.empty() ? std::string()
                                 : fmt::format("{} {}", names.size() == 1 ? "Series" : "Series:", join(names, ", "));
   // What the rows are sorted by: the criterion, and the backtest score for a backtested shortlist.
-  if (run.leaderboard) {
+  if (run.ranking) {
     bool backtested = false;
-    for (const auto& row : run.leaderboard->rows)
+    for (const auto& row : run.ranking->rows)
       backtested = backtested || std::isfinite(row.backtest_score);
     page.subtitle += fmt::format(
         "{}candidates ranked by {}{}", page.subtitle.empty() ? "" : " · ",
-        criterion_label(run.leaderboard->criterion),
+        criterion_label(run.ranking->criterion),
         backtested ? ", the backtested shortlist by its backtest score" : "");
   }
 
@@ -1623,8 +1627,8 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
       add_input_sections(b, sf, s);
       page.sections.push_back(std::move(s));
     }
-    if (run.leaderboard && !sf.rows.empty())
-      page.sections.push_back(leaderboard_section(b, sf, *run.leaderboard, options));
+    if (run.ranking && !sf.rows.empty())
+      page.sections.push_back(ranking_section(b, sf, *run.ranking, options));
     if (sf.forecast)
       if (auto s = forecast_section(b, sf, options)) page.sections.push_back(std::move(*s));
     if (auto s = past_of_series(b, sf)) page.sections.push_back(std::move(*s));
@@ -1639,7 +1643,7 @@ ReportResult write_report(const fs::path& run_dir, const ReportOptions& options)
     if (sf.fit) page.sections.push_back(diagnostics_section(b, sf));
   }
   if (run.series.empty() && !run.revalidation)
-    result.warnings.push_back("the run folder names no series; the report shows the leaderboard only");
+    result.warnings.push_back("the run folder names no series; the report shows the ranking only");
 
   page.footer = fmt::format("{} · built from {}", options.footer, join(files_read, ", "));
   std::string html = render_html(page);

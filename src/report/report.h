@@ -7,16 +7,16 @@
 // several; per-series files carry the suffix of run_files::per_series):
 //   Verdict            revalidation.json: the verdict and its reasons first, then its evidence
 //   Run summary        model file (training data, range, config text), screen and fit warnings
-//   Inputs             screen.json (+ the leader's impulse response from the model file)
-//   Leaderboard        leaderboard.json: the top rows, sortable
+//   Inputs             screen.json (+ the chosen model's impulse response from the model file)
+//   Ranking        ranking.json: the top rows, sortable
 //   Forecast           forecast.json: fan chart, inputs forecast beside inputs known
 //   Backtest           accuracy.csv, backtest.csv, comparisons.csv, input_value.csv
 //   Detected effects   fit.json `outliers`: history with the effects marked, their table
-//   Leader diagnostics fit.json: residual ACF, Ljung-Box, gains, roots, estimates, warnings
+//   Chosen model diagnostics fit.json: residual ACF, Ljung-Box, gains, roots, estimates, warnings
 //
 // Backtest files that carry no series suffix (and no `series` column) are taken to belong to
 // every series of the run; with a `series` column their rows are filtered per series. In the
-// error-by-horizon chart, models that are not leaderboard candidates are benchmarks (dashed).
+// error-by-horizon chart, models that are not ranking candidates are benchmarks (dashed).
 #include <filesystem>
 #include <string>
 #include <vector>
@@ -24,8 +24,8 @@
 namespace lagsieve {
 
 struct ReportOptions {
-  int leaderboard_rows = 15;    // top rows per series in the leaderboard table
-  int backtest_models = 6;      // most models drawn in the error-by-horizon chart (leader first)
+  int ranking_rows = 15;    // top rows per series in the ranking table
+  int backtest_models = 6;      // most models drawn in the error-by-horizon chart (chosen model first)
   int forecast_table_rows = 24; // forecast steps listed under the fan chart
   bool write_charts = true;     // also write charts/*.svg
   std::string title;            // empty: "Run report: <folder name>"

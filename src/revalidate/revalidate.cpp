@@ -581,7 +581,7 @@ RevalidationResult revalidate(const FittedModel& model, const SeriesData& file_d
   place_deployed(ch, model, data, config, out.search);
   for (const auto& row : out.search.rows) {
     if (!row.rankable()) continue;
-    if (ch.leader_key.empty()) ch.leader_key = row.key;
+    if (ch.chosen_key.empty()) ch.chosen_key = row.key;
     if (row.spec == model.spec) continue;  // the deployed structure itself
     ch.has_challenger = true;
     ch.challenger_key = row.key;
@@ -919,7 +919,7 @@ nlohmann::ordered_json to_json(const RevalidationResult& r) {
              {"deployed", ch.deployed_key},
              {"deployed_rank", ch.deployed_rank > 0 ? json(ch.deployed_rank) : json(nullptr)},
              {"deployed_in_grid", ch.deployed_in_grid},
-             {"search_leader", ch.leader_key},
+             {"search_chosen", ch.chosen_key},
              {"best_challenger", ch.has_challenger ? json(ch.challenger_key) : json(nullptr)},
              {"score_deployed", num(ch.score_deployed)},
              {"score_deployed_refit", num(ch.score_refit)},

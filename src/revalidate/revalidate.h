@@ -176,7 +176,7 @@ struct ChallengerCheck {
   std::string deployed_key;
   int deployed_rank = 0;         // 1 = best; 0 when not comparable (other transform/differencing)
   bool deployed_in_grid = true;  // false: fitted on the search's sample to place it
-  std::string leader_key;
+  std::string chosen_key;
   bool has_challenger = false;
   std::string challenger_key;
   ModelSpec challenger_spec;

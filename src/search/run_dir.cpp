@@ -82,7 +82,8 @@ std::string run_kind(const fs::path& dir) {
   }
   const auto has = [&](const char* name) { return fs::exists(dir / name); };
   if (has(run_files::kRevalidation)) return "revalidate";
-  if (has(run_files::kLeaderboardJson) || has(run_files::kJournal) || has(run_files::kFit))
+  if (has(run_files::kRankingJson) || has(run_files::kLegacyRankingJson) || has(run_files::kJournal) ||
+      has(run_files::kFit))
     return "search";
   if (has(run_files::kBacktest) || has(run_files::kAccuracy)) return "backtest";
   return "";
@@ -195,8 +196,10 @@ void check_run_dir_path(const fs::path& out, const std::string& option) {
 }
 
 bool is_run_entry(const std::string& name) {
-  static const char* const exact[] = {run_files::kLeaderboardCsv,
-                                      run_files::kLeaderboardJson,
+  static const char* const exact[] = {run_files::kRankingCsv,
+                                      run_files::kRankingJson,
+                                      run_files::kLegacyRankingCsv,
+                                      run_files::kLegacyRankingJson,
                                       run_files::kRevalidation,
                                       run_files::kReport,
                                       run_files::kCharts,

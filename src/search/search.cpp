@@ -295,12 +295,12 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
   check_cancel(options.cancel);
   if (config.outliers.enabled) detect_on_shortlist(data, config, result, options.threads);
 
-  // The leader: the first row (by the criterion) whose status may lead (backtest.leader_statuses;
+  // The chosen model: the first row (by the criterion) whose status may lead (backtest.chosen_statuses;
   // boundary and rejected fits do not by default), moved to the front. A shortlist backtest
   // re-chooses it (selection.h).
   const auto may_lead = [&](const CandidateRow& row) {
-    return std::find(config.backtest.leader_statuses.begin(), config.backtest.leader_statuses.end(),
-                     to_string(row.status)) != config.backtest.leader_statuses.end();
+    return std::find(config.backtest.chosen_statuses.begin(), config.backtest.chosen_statuses.end(),
+                     to_string(row.status)) != config.backtest.chosen_statuses.end();
   };
   const auto lead = std::find_if(result.rows.begin(), result.rows.end(), may_lead);
   result.sorted_by = fmt::format("by {} (lower is better)", to_string(config.search.criterion));
@@ -308,40 +308,40 @@ SearchResult run_search(const SeriesData& data, const RunConfig& config,
     if (lead != result.rows.begin()) {
       std::rotate(result.rows.begin(), lead, lead + 1);
       for (size_t i = 0; i < result.rows.size(); ++i) result.rows[i].rank = static_cast<int>(i) + 1;
-      result.sorted_by = fmt::format("rank 1 is the leader; then by {} (lower is better)",
+      result.sorted_by = fmt::format("rank 1 is the chosen model; then by {} (lower is better)",
                                      to_string(config.search.criterion));
     }
-    result.leader_reason = fmt::format(
+    result.chosen_reason = fmt::format(
         "{} has the lowest {} among the fits whose status may lead ({})", result.rows.front().key,
-        to_string(config.search.criterion), fmt::join(config.backtest.leader_statuses, ", "));
+        to_string(config.search.criterion), fmt::join(config.backtest.chosen_statuses, ", "));
     const auto problem = make_problem(search_data(data, result),
                                       fitted_spec(result.rows.front(), result), result.start);
-    result.leader = fit_model(problem);
+    result.chosen = fit_model(problem);
     update_effect_sizes(result);
-    warn_on_leader_residuals(result);
+    warn_on_chosen_residuals(result);
   } else {
-    result.leader_reason = "no candidate with a status that may lead";
+    result.chosen_reason = "no candidate with a status that may lead";
   }
   result.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return result;
 }
 
-void warn_on_leader_residuals(SearchResult& result) {
-  if (!result.has_leader()) return;
-  const std::string prefix = "leader_residuals_autocorrelated";
-  // A leader re-chosen by the backtest replaces the warning about the previous one.
+void warn_on_chosen_residuals(SearchResult& result) {
+  if (!result.has_chosen()) return;
+  const std::string prefix = "chosen_residuals_autocorrelated";
+  // A model re-chosen by the backtest replaces the warning about the previous one.
   std::erase_if(result.warnings, [&](const std::string& w) { return w.rfind(prefix, 0) == 0; });
-  for (const auto& w : result.leader.diagnostics.warnings)
+  for (const auto& w : result.chosen.diagnostics.warnings)
     if (w.rfind(prefix, 0) == 0) return;
-  for (const auto& lb : result.leader.diagnostics.ljung_box)
+  for (const auto& lb : result.chosen.diagnostics.ljung_box)
     if (std::isfinite(lb.p_value) && lb.p_value < 0.01) {
       const std::string w = fmt::format(
-          "{}: the leader's residuals fail the Ljung-Box test at 1 % (Q = {:.2f} up to lag {}, df "
+          "{}: the chosen model's residuals fail the Ljung-Box test at 1 % (Q = {:.2f} up to lag {}, df "
           "{}, p = {:.2g}): "
           "autocorrelation is left, so its intervals are too narrow; try more noise terms",
           prefix, lb.statistic, lb.lag, lb.df, lb.p_value);
       result.warnings.push_back(w);
-      result.leader.diagnostics.warnings.push_back(w);
+      result.chosen.diagnostics.warnings.push_back(w);
       return;
     }
 }

@@ -21,7 +21,7 @@
 
 namespace lagsieve {
 
-// One candidate's outcome: a leaderboard row (the fitted values themselves are not kept).
+// One candidate's outcome: a ranking row (the fitted values themselves are not kept).
 struct CandidateRow {
   std::string series;
   std::string key;  // model label; unique within a series
@@ -41,7 +41,7 @@ struct CandidateRow {
   // Filled by the backtest stage for the shortlist (NaN elsewhere).
   double backtest_score = std::numeric_limits<double>::quiet_NaN();
   int backtest_rank = 0;  // 1 = lowest backtest score
-  std::string selection;  // its part in the choice of the leader (selection.h), in words
+  std::string selection;  // its part in the choice of the model (selection.h), in words
   // Names of the detected effects fitted with this row (search_outliers.h); empty: fitted
   // without. `spec` and `key` stay those of the candidate itself.
   std::vector<std::string> effects;
@@ -79,12 +79,12 @@ struct SearchOptions {
 void check_cancel(const std::atomic<bool>* cancel);
 
 // Outlier detection in a search (config `outliers`; search_outliers.h): one detection on the
-// criterion leader, its set shared by every shortlisted candidate.
+// best candidate by the criterion, its set shared by every shortlisted candidate.
 struct SearchOutliers {
   std::string detected_on;  // key of the candidate detection ran on
   double critical = 0.0;
   int rounds = 0;
-  std::vector<OutlierEffect> effects;  // the shared set; sizes from the leader's fit
+  std::vector<OutlierEffect> effects;  // the shared set; sizes from the chosen model's fit
   std::vector<OutlierEffect> dropped;  // found, then below the critical value in the joint fit
   int shortlisted = 0;                 // rows re-fitted with the set
   double seconds = 0.0;                // detection plus the re-fits
@@ -102,14 +102,14 @@ struct SearchResult {
   std::vector<StageReport> stages;  // what each stage fitted and skipped (stages.h)
   double seconds = 0.0;
   std::optional<ScreenResult> screen;  // guided and stepwise
-  FitResult leader;                    // the top row re-fitted with standard errors
-  // What the rows are sorted by, why the leader was chosen, and what the run should warn about
+  FitResult chosen;                    // the top row re-fitted with standard errors
+  // What the rows are sorted by, why the model was chosen, and what the run should warn about
   // (filled by the search, then by the shortlist backtest); shown by the CLI and the report.
   std::string sorted_by;
-  std::string leader_reason;
+  std::string chosen_reason;
   std::vector<std::string> warnings;
   std::optional<SearchOutliers> outliers;  // with an `outliers` section
-  bool has_leader() const { return leader.usable(); }
+  bool has_chosen() const { return chosen.usable(); }
 };
 
 // Ranks rows in place: rankable rows by criterion (ties by key), then rejected, then failures.
@@ -126,9 +126,9 @@ CandidateRow fit_candidate(const SeriesData& data, const LikelihoodProblem& prob
 SearchResult run_search(const SeriesData& data, const RunConfig& config,
                         const SearchOptions& options);
 
-// Adds a warning (to the result and to the leader's fit) when the leader's residuals fail a
+// Adds a warning (to the result and to the chosen model's fit) when the chosen model's residuals fail a
 // Ljung-Box test at the 1 % level at any lag tested.
-void warn_on_leader_residuals(SearchResult& result);
+void warn_on_chosen_residuals(SearchResult& result);
 
 }  // namespace lagsieve
 

@@ -17,7 +17,7 @@ namespace lagsieve {
 namespace {
 
 bool may_lead(const CandidateRow& row, const RunConfig& config) {
-  const auto& s = config.backtest.leader_statuses;
+  const auto& s = config.backtest.chosen_statuses;
   return std::find(s.begin(), s.end(), to_string(row.status)) != s.end();
 }
 
@@ -128,8 +128,8 @@ BacktestCandidate row_candidate(const std::string& name, const CandidateRow& row
 }
 
 void update_effect_sizes(SearchResult& result) {
-  if (!result.outliers || !result.has_leader()) return;
-  read_sizes(result.leader, result.outliers->effects);
+  if (!result.outliers || !result.has_chosen()) return;
+  read_sizes(result.chosen, result.outliers->effects);
 }
 
 nlohmann::json search_outliers_json(const SearchOutliers& o, const SeriesData& data) {

@@ -2,7 +2,7 @@
 // Outlier detection in a search (config `outliers`), run on the shortlist.
 //
 // Rule: one shared set. After the grid is ranked by the criterion, detection (outliers/detect.h)
-// runs once, on the criterion leader (the first row whose status may lead), on the search's
+// runs once, on the best candidate by the criterion (the first row whose status may lead), on the search's
 // common sample. Its effects then enter every shortlisted candidate (the top
 // `backtest.shortlist` rankable rows) as the same event inputs, and those candidates are fitted
 // again with them: every shortlisted fit has the same sample, the same effect columns and the
@@ -26,14 +26,14 @@
 namespace lagsieve {
 
 inline constexpr const char* kSharedSetRule =
-    "detection ran once, on the criterion leader; its effects enter every shortlisted candidate "
+    "detection ran once, on the best candidate by the criterion; its effects enter every shortlisted candidate "
     "as the same event inputs (same sample, same columns, same added parameters), so their "
     "criteria stay comparable; rows beyond the shortlist are fitted without them and rank after";
 inline constexpr const char* kBacktestOriginRule =
     "in the backtest an effect dated at or after an origin cannot be known there and is left out "
     "of that origin's fit (the origin is kept)";
 
-// Detection on the criterion leader and the re-fits of the shortlist with its set; re-ranks
+// Detection on the best candidate by the criterion and the re-fits of the shortlist with its set; re-ranks
 // result.rows (shortlist first) and fills result.outliers. A detection that fails is a note,
 // never an exception.
 void detect_on_shortlist(const SeriesData& data, const RunConfig& config, SearchResult& result,
@@ -52,7 +52,7 @@ std::vector<OutlierEffect> row_effects(const CandidateRow& row, const SearchResu
 BacktestCandidate row_candidate(const std::string& name, const CandidateRow& row,
                                 const SearchResult& result, const RunConfig& config);
 
-// Sizes, s.e. and statistics of the set from the leader's fit (after a leader change).
+// Sizes, s.e. and statistics of the set from the chosen model's fit (after a chosen model change).
 void update_effect_sizes(SearchResult& result);
 
 // The `outliers` entry of a search's fit.json: {detected_on, critical, critical_rule, rounds,

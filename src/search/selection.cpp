@@ -26,7 +26,7 @@ SelectionOptions selection_options(const RunConfig& config) {
   o.parsimonious = config.backtest.selection != "best_score";
   o.level = config.backtest.selection_level;
   o.statuses.clear();
-  for (const auto& s : config.backtest.leader_statuses)
+  for (const auto& s : config.backtest.chosen_statuses)
     for (FitStatus f : {FitStatus::ok, FitStatus::no_convergence, FitStatus::boundary})
       if (s == to_string(f)) o.statuses.push_back(f);
   o.criterion = config.search.criterion;
@@ -60,7 +60,7 @@ std::vector<double> loss_by_origin(const ForecastRecords& records, const std::ve
   return out;
 }
 
-SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
+SelectionResult choose_model(const std::vector<SelectionCandidate>& candidates,
                               const BacktestResult& backtest, const SelectionOptions& options) {
   SelectionResult out;
   const size_t n = candidates.size();
@@ -90,8 +90,8 @@ SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
   const auto& best_row = *candidates[out.best].row;
   const double best_score = backtest.models[candidates[out.best].model].score;
   if (!options.parsimonious) {
-    out.leader = out.best;
-    out.notes[out.best] = "leader: best backtest score";
+    out.chosen = out.best;
+    out.notes[out.best] = "chosen model: best backtest score";
     out.reason = fmt::format(
         "{} has the lowest backtest score ({:.4f}) among the candidates that may lead "
         "(rule best_score)",
@@ -136,31 +136,31 @@ SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
             ? fmt::format("within noise of the best (p = {} >= {:g})", fmt_p(p), options.level)
             : fmt::format("worse than the best (p = {} < {:g})", fmt_p(p), options.level);
   }
-  int leader = -1;
+  int chosen = -1;
   int contenders = 0;
   for (size_t i = 0; i < n; ++i) {
     if (!within[i]) continue;
     ++contenders;
-    if (leader < 0) {
-      leader = static_cast<int>(i);
+    if (chosen < 0) {
+      chosen = static_cast<int>(i);
       continue;
     }
     const auto& a = *candidates[i].row;
-    const auto& b = *candidates[leader].row;
+    const auto& b = *candidates[chosen].row;
     const double sa = backtest.models[candidates[i].model].score;
-    const double sb = backtest.models[candidates[leader].model].score;
+    const double sb = backtest.models[candidates[chosen].model].score;
     const double ca = a.criterion(options.criterion), cb = b.criterion(options.criterion);
     const bool better = a.n_params != b.n_params ? a.n_params < b.n_params
                         : ca != cb               ? ca < cb
                         : sa != sb               ? sa < sb
                                                  : a.key < b.key;
-    if (better) leader = static_cast<int>(i);
+    if (better) chosen = static_cast<int>(i);
   }
-  out.leader = leader;
-  const auto& lead = *candidates[leader].row;
-  const double lead_score = backtest.models[candidates[leader].model].score;
-  if (leader == out.best) {
-    out.notes[leader] = "leader: best backtest score and the simplest within noise of it";
+  out.chosen = chosen;
+  const auto& lead = *candidates[chosen].row;
+  const double lead_score = backtest.models[candidates[chosen].model].score;
+  if (chosen == out.best) {
+    out.notes[chosen] = "chosen model: best backtest score and the simplest within noise of it";
     out.reason = fmt::format(
         "{} has the lowest backtest score ({:.4f}) and, with k = {} parameters, is the simplest of "
         "the {} "
@@ -170,8 +170,8 @@ SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
         lead.key, lead_score, lead.n_params, contenders, options.level, to_string(lead.status));
   } else {
     out.notes[out.best] = "best backtest score, but not the simplest within noise";
-    out.notes[leader] = fmt::format("leader: simplest within noise of the best (p = {})",
-                                    fmt_p(out.p_worse[leader]));
+    out.notes[chosen] = fmt::format("chosen model: simplest within noise of the best (p = {})",
+                                    fmt_p(out.p_worse[chosen]));
     out.reason = fmt::format(
         "{} (k = {} parameters, backtest score {:.4f}) is the simplest of the {} candidates whose "
         "backtest "
@@ -182,7 +182,7 @@ SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
         "broken by {}",
         lead.key, lead.n_params, lead_score, contenders, best_row.key, best_row.n_params,
         best_score,
-        std::isfinite(out.p_worse[leader]) ? fmt_p(out.p_worse[leader]) : std::string("untested"),
+        std::isfinite(out.p_worse[chosen]) ? fmt_p(out.p_worse[chosen]) : std::string("untested"),
         options.level, lead_score - best_score, to_string(options.criterion));
   }
   return out;

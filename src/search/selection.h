@@ -1,9 +1,9 @@
 #pragma once
-// Choosing the leader of a backtested shortlist without chasing noise.
+// Choosing the chosen model of a backtested shortlist without chasing noise.
 //
 // Rule `simplest_within_noise` (the default):
 //  1. Eligible candidates: backtested, with a finite score and a fit status listed in
-//     `backtest.leader_statuses` (default ok and no_convergence: `boundary` — a unit root or a
+//     `backtest.chosen_statuses` (default ok and no_convergence: `boundary` — a unit root or a
 //     non-invertible MA — and `rejected` never lead unless listed; benchmarks never lead).
 //  2. The best: the eligible candidate with the lowest backtest score.
 //  3. Each eligible candidate's per-origin loss (the mean over horizons of the score's error:
@@ -13,7 +13,7 @@
 //     windows of K steps make per-origin losses autocorrelated up to that lag), capped at n / 3.
 //     A candidate is "significantly worse" when that p-value is below `selection_level`
 //     (default 0.05). With too few origins to test (n < lags + 4) nobody is significantly worse.
-//  4. The leader: among candidates not significantly worse, the fewest parameters, then the
+//  4. The chosen model: among candidates not significantly worse, the fewest parameters, then the
 //     lowest information criterion, then the lowest backtest score, then the label.
 // Rule `best_score`: the eligible candidate with the lowest backtest score (step 2 alone).
 #include <string>
@@ -43,15 +43,15 @@ struct SelectionCandidate {
 };
 
 struct SelectionResult {
-  int leader = -1;  // index into the candidates; -1: none eligible
+  int chosen = -1;  // index into the candidates; -1: none eligible
   int best = -1;    // lowest score among the eligible
   std::vector<double>
       p_worse;  // per candidate: one-sided p of "worse than the best" (NaN: untested)
   std::vector<std::string> notes;  // per candidate: its part in the choice, in words
-  std::string reason;              // why the leader was chosen
+  std::string reason;              // why the model was chosen
 };
 
-SelectionResult choose_leader(const std::vector<SelectionCandidate>& candidates,
+SelectionResult choose_model(const std::vector<SelectionCandidate>& candidates,
                               const BacktestResult& backtest, const SelectionOptions& options);
 
 // Per origin of `origins`: the mean over horizons of the loss the score averages (NaN when the

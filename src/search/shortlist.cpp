@@ -26,7 +26,7 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
       out.candidates.push_back(row_candidate(row.key, row, search, config));
   if (out.candidates.empty()) return out;
 
-  // Benchmark 1: the best candidate without inputs, else the leader's noise model alone.
+  // Benchmark 1: the best candidate without inputs, else the chosen model's noise model alone.
   // It keeps the shortlist's detected effects (they mark the history; they are not inputs).
   CandidateRow no_inputs;
   no_inputs.spec = out.candidates.front().spec;
@@ -58,7 +58,7 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
   search.warnings.insert(search.warnings.end(), out.result.warnings.begin(),
                          out.result.warnings.end());
 
-  // The leader by the selection rule (selection.h), then the rows: the leader first, the other
+  // The chosen model by the selection rule (selection.h), then the rows: the chosen model first, the other
   // backtested rows by score, then the rest in criterion order as before.
   std::map<std::string, size_t> model_of;
   for (size_t i = 0; i < out.candidates.size(); ++i)
@@ -71,18 +71,18 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
     pool.push_back({&row, static_cast<int>(it->second)});
   }
   const SelectionOptions so = selection_options(config);
-  const SelectionResult chosen = choose_leader(pool, out.result, so);
+  const SelectionResult chosen = choose_model(pool, out.result, so);
   std::map<std::string, std::string> note_of;
   for (size_t i = 0; i < pool.size(); ++i) note_of[pool[i].row->key] = chosen.notes[i];
-  const std::string leader_key = chosen.leader >= 0 ? pool[chosen.leader].row->key : std::string();
+  const std::string chosen_key = chosen.chosen >= 0 ? pool[chosen.chosen].row->key : std::string();
   for (auto& row : search.rows)
     if (const auto it = note_of.find(row.key); it != note_of.end()) row.selection = it->second;
-  out.result.leader = chosen.leader >= 0 ? pool[chosen.leader].model : -1;
-  out.result.comparisons = compare_to_leader(out.result);
-  search.leader_reason = chosen.reason;
+  out.result.chosen = chosen.chosen >= 0 ? pool[chosen.chosen].model : -1;
+  out.result.comparisons = compare_to_chosen(out.result);
+  search.chosen_reason = chosen.reason;
   std::stable_sort(
       search.rows.begin(), search.rows.end(), [&](const CandidateRow& a, const CandidateRow& b) {
-        const bool la = a.key == leader_key, lb = b.key == leader_key;
+        const bool la = a.key == chosen_key, lb = b.key == chosen_key;
         if (la != lb) return la;
         const bool fa = std::isfinite(a.backtest_score), fb = std::isfinite(b.backtest_score);
         if (fa != fb) return fa;
@@ -103,7 +103,7 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
           1;
   }
   search.sorted_by = fmt::format(
-      "rank 1 is the leader ({}); then the other backtested candidates by backtest {} (lower is "
+      "rank 1 is the chosen model ({}); then the other backtested candidates by backtest {} (lower is "
       "better); then the "
       "rest by {}",
       so.parsimonious
@@ -113,16 +113,16 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
           : "the best backtest score",
       config.backtest.score, to_string(config.search.criterion));
 
-  if (out.result.leader >= 0) {
-    const auto& lead = out.candidates[out.result.leader];
-    if (!search.has_leader() || !(lead.spec == search.leader.spec)) {
-      search.leader = fit_model(make_problem(data, lead.spec, search.start));
+  if (out.result.chosen >= 0) {
+    const auto& lead = out.candidates[out.result.chosen];
+    if (!search.has_chosen() || !(lead.spec == search.chosen.spec)) {
+      search.chosen = fit_model(make_problem(data, lead.spec, search.start));
       update_effect_sizes(search);
     }
     out.result.input_value =
-        input_value(data, lead, out.result.models[out.result.leader], out.options);
+        input_value(data, lead, out.result.models[out.result.chosen], out.options);
   }
-  warn_on_leader_residuals(search);
+  warn_on_chosen_residuals(search);
   return out;
 }
 

@@ -1,7 +1,7 @@
 #pragma once
 // The second stage of a search: the top candidates by the information criterion are backtested
 // with two benchmarks (the best model without inputs, a seasonal naive forecast); the final
-// ranking is by backtest score, and the leader is re-chosen by it.
+// ranking is by backtest score, and the model is re-chosen by it.
 #include "backtest/backtest.h"
 #include "search/search.h"
 
@@ -20,8 +20,8 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
                                  const SearchResult& search, int size, int threads);
 
 // Backtests the shortlist (config.backtest.shortlist rows), fills backtest_score / backtest_rank of
-// its rows, re-ranks the rows (backtested rows first, by score), re-fits the new leader with
-// standard errors, and measures the value of each of the leader's inputs.
+// its rows, re-ranks the rows (backtested rows first, by score), re-fits the new chosen model with
+// standard errors, and measures the value of each of the chosen model's inputs.
 ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& config,
                                      SearchResult& search, int threads);
 

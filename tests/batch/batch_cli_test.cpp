@@ -54,7 +54,7 @@ TEST(BatchCli, BadSeriesAreReportedTheOthersFinishAndTheExitCodeSaysSo) {
     EXPECT_EQ(fs::exists(dir / "run" / "models" / (row[0] + ".json")), !bad) << row[0];
   }
   // One ranking table over every series that was searched, with the series column.
-  const CsvTable lb = read_csv(dir / "run" / "leaderboard.csv");
+  const CsvTable lb = read_csv(dir / "run" / "ranking.csv");
   EXPECT_EQ(lb.row_count(), 3 * 64);
   EXPECT_TRUE(fs::exists(dir / "run" / "run.json"));
   EXPECT_NE(slurp(dir / "run" / "run.json").find("some_series_failed"), std::string::npos);
@@ -123,7 +123,7 @@ TEST(BatchCli, RunFolderOfAPanelIsAFewLongTablesAndTheModels) {
   for (const auto& e : fs::directory_iterator(dir / "run")) top.insert(e.path().filename().string());
   top.erase("lagsieve.lock");
   EXPECT_EQ(top, (std::set<std::string>{"accuracy.csv", "forecasts.csv", "journal.jsonl",
-                                        "leaderboard.csv", "models", "report.html", "run.json",
+                                        "ranking.csv", "models", "report.html", "run.json",
                                         "series", "summary.csv", "summary.json"}));
   int models = 0;
   for (const auto& e : fs::directory_iterator(dir / "run" / "models")) {
@@ -163,7 +163,7 @@ TEST(BatchCli, RunFolderOfAPanelIsAFewLongTablesAndTheModels) {
   EXPECT_EQ(accuracy.header.front(), "series");
   EXPECT_GE(accuracy.column_index("mase"), 0);
   EXPECT_GT(accuracy.row_count(), 12);
-  const CsvTable ranking = read_csv(dir / "run" / "leaderboard.csv");
+  const CsvTable ranking = read_csv(dir / "run" / "ranking.csv");
   EXPECT_EQ(ranking.row_count(), 12 * 64);
   EXPECT_EQ(ranking.header.front(), "series");
 

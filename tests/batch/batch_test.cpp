@@ -91,10 +91,10 @@ TEST(PanelSplit, SafeNamesKeepPlainKeysAndNeverCollide) {
 }
 
 // The panel's truth varies (b, r, s) of temp over 16 combinations; rain has no effect. The
-// leader of at least 95 % of 200 series must carry temp's true (b, r, s) and leave rain out
+// chosen model of at least 95 % of 200 series must carry temp's true (b, r, s) and leave rain out
 // (BIC is consistent; at 365 daily rows with these gains a miss is rare, a broken search misses
 // most).
-TEST(BatchRecovery, LeaderStructureRightForAtLeast95PercentOf200Series) {
+TEST(BatchRecovery, ChosenStructureRightForAtLeast95PercentOf200Series) {
   constexpr int kSeries = 200;
   const fs::path dir = fresh_dir("recovery");
   const RunConfig config = panel_run(dir, panel_csv(kSeries, 365));
@@ -115,7 +115,7 @@ TEST(BatchRecovery, LeaderStructureRightForAtLeast95PercentOf200Series) {
                 temp.denominator == truth.temp.denominator && !s.inputs[1].included
             ? 1
             : (std::printf("miss %s truth b%d s%d r%d: %s\n", truth.key.c_str(), truth.temp.delay,
-                           truth.temp.numerator, truth.temp.denominator, s.leader.c_str()),
+                           truth.temp.numerator, truth.temp.denominator, s.chosen.c_str()),
                0);
   }
   const double rate = static_cast<double>(right) / kSeries;
@@ -177,14 +177,14 @@ TEST(BatchSelection, OnlyTheNamedSeriesRunAndUnknownNamesAreRefused) {
   }
 }
 
-// Series and candidates share the workers; the summary, each series' leaderboard and backtest do
+// Series and candidates share the workers; the summary, each series' ranking and backtest do
 // not depend on how many there are.
 TEST(BatchThreads, OneAndTwoThreadsGiveIdenticalOutputs) {
   const fs::path dir = fresh_dir("threads");
   const RunConfig config = panel_run(
       dir, panel_csv(12, 160),
       "backtest:\n  first_origin: 130\n  step: 10\n  horizon: 3\n  shortlist: 3\n  refit: 0\n");
-  std::string summary[2], leaderboard[2], backtest[2];
+  std::string summary[2], ranking[2], backtest[2];
   for (int k = 0; k < 2; ++k) {
     BatchOptions options;
     options.threads = k + 1;
@@ -193,17 +193,17 @@ TEST(BatchThreads, OneAndTwoThreadsGiveIdenticalOutputs) {
     ASSERT_TRUE(r.all_ok());
     write_batch_tables(options.folder, r);
     summary[k] = without_seconds(summary_csv(r.series));
-    // fit_seconds is a timing column: compare the leaderboard without it.
-    const CsvTable lb = read_csv(options.folder / "leaderboard.csv");
+    // fit_seconds is a timing column: compare the ranking without it.
+    const CsvTable lb = read_csv(options.folder / "ranking.csv");
     const int timing = lb.column_index("fit_seconds");
     ASSERT_GE(timing, 0);
     for (const auto& row : lb.rows)
-      for (int c = 0; c < lb.columns(); ++c) leaderboard[k] += (c == timing ? "" : row[c]) + ",";
+      for (int c = 0; c < lb.columns(); ++c) ranking[k] += (c == timing ? "" : row[c]) + ",";
     backtest[k] = testing::slurp(options.folder / "accuracy.csv") +
                   testing::slurp(options.folder / "forecasts.csv");
   }
   EXPECT_EQ(summary[0], summary[1]);
-  EXPECT_EQ(leaderboard[0], leaderboard[1]);
+  EXPECT_EQ(ranking[0], ranking[1]);
   EXPECT_EQ(backtest[0], backtest[1]);
   EXPECT_FALSE(backtest[0].empty());
   EXPECT_NE(summary[0].find("zone_011,ok"), std::string::npos) << summary[0];

@@ -48,7 +48,7 @@ TEST(ShardPlan, ShardOptionIsChecked) {
     EXPECT_THROW(parse_shard(bad, "--shard"), InputError) << bad;
 }
 
-// Tables without the timing column `drop` (summary: seconds; leaderboard: fit_seconds).
+// Tables without the timing column `drop` (summary: seconds; ranking: fit_seconds).
 std::string table_without(const fs::path& file, const std::string& drop) {
   const CsvTable t = read_csv(file);
   const int skip = t.column_index(drop);
@@ -71,7 +71,7 @@ TEST(ShardMerge, ShardedOneThreeAndSevenWaysMergesToTheUnshardedTables) {
   const std::string pages = " --pages-worst 2 --pages-sample 1";
   ASSERT_EQ(run_lagsieve(dir, "search panel.yaml --out whole --quiet" + pages).code, 0);
   const std::string summary = table_without(dir / "whole" / "summary.csv", "seconds");
-  const std::string leaderboard = table_without(dir / "whole" / "leaderboard.csv", "fit_seconds");
+  const std::string ranking = table_without(dir / "whole" / "ranking.csv", "fit_seconds");
   const std::string forecasts = testing::slurp(dir / "whole" / "forecasts.csv");
   const auto page_folders = [](const fs::path& run) {
     std::set<std::string> names;
@@ -103,8 +103,8 @@ TEST(ShardMerge, ShardedOneThreeAndSevenWaysMergesToTheUnshardedTables) {
     ASSERT_EQ(m.code, 0) << m.out << m.err;
     EXPECT_EQ(table_without(dir / fmt::format("merged{}", n) / "summary.csv", "seconds"), summary)
         << n;
-    EXPECT_EQ(table_without(dir / fmt::format("merged{}", n) / "leaderboard.csv", "fit_seconds"),
-              leaderboard)
+    EXPECT_EQ(table_without(dir / fmt::format("merged{}", n) / "ranking.csv", "fit_seconds"),
+              ranking)
         << n;
     const fs::path merged = dir / fmt::format("merged{}", n);
     EXPECT_EQ(testing::slurp(merged / "forecasts.csv"), forecasts) << n;

@@ -141,6 +141,20 @@ TEST(Config, PanelTargetsBareBacktestConstantSpellingsAndNoisePeriod) {
   EXPECT_EQ(c.noise.constant, ConstantMode::yes);
 }
 
+TEST(Config, LegacyStatusesKeyIsStillRead) {
+  // Configs written before the rename name the statuses that may be chosen `leader_statuses`.
+  const std::string h = kHead;
+  const auto c = parse_config(h + "backtest: {leader_statuses: [ok, boundary]}\n", kFile);  // legacy
+  EXPECT_EQ(c.backtest.chosen_statuses, (std::vector<std::string>{"ok", "boundary"}));
+  EXPECT_EQ(parse_config(h + "backtest: {chosen_statuses: [ok]}\n", kFile).backtest.chosen_statuses,
+            (std::vector<std::string>{"ok"}));
+  EXPECT_NE(error_of(h + "backtest: {chosen_statuses: [ok], leader_statuses: [ok]}\n")  // legacy
+                .find("give only chosen_statuses"),
+            std::string::npos);
+  EXPECT_NE(error_of(h + "backtest: {leader_statuses: [best]}\n").find("backtest.leader_statuses"),  // legacy
+            std::string::npos);
+}
+
 TEST(Config, Messages) {
   const std::string h = kHead;
   EXPECT_EQ(error_of(h + "inputs:\n  - column: x\n    dela: 3\n"),

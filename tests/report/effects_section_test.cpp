@@ -92,8 +92,8 @@ TEST(ReportEffects, NoSectionWithoutDetection) {
 }
 
 // R's Nile exported with write.csv, searched with detection on: the shift of 1899 is found, every
-// shortlisted candidate carries it, the leader's size matches R's arima with the step as a
-// regressor (the leader is that model: AR(1) and a mean), and the report lists and marks it.
+// shortlisted candidate carries it, the chosen model's size matches R's arima with the step as a
+// regressor (the chosen model is that model: AR(1) and a mean), and the report lists and marks it.
 TEST(ReportEffects, NileSearchAndReportEndToEnd) {
   const auto dir = test::fresh_dir("nile-effects");
   std::filesystem::copy_file(testing::reference_path("outliers/nile.csv"), dir / "nile.csv");
@@ -121,7 +121,7 @@ TEST(ReportEffects, NileSearchAndReportEndToEnd) {
               0.02 * ref["step_se"].get<double>());
   const std::string model = testing::slurp(dir / "run" / "model.json");
   EXPECT_NE(model.find("\"detected\""), std::string::npos);
-  const std::string board = testing::slurp(dir / "run" / "leaderboard.csv");
+  const std::string board = testing::slurp(dir / "run" / "ranking.csv");
   int with = 0;
   for (size_t at = board.find(",LS@1899\n"); at != std::string::npos;
        at = board.find(",LS@1899\n", at + 1))

@@ -31,7 +31,7 @@ HtmlPage example_page(bool sortable) {
   page.sections.push_back(summary);
 
   HtmlSection board;
-  board.heading = "Leaderboard";
+  board.heading = "Ranking";
   HtmlTable t;
   t.caption = "Top candidates";
   t.columns = {{"model", "", NumberFormat::automatic, 3},

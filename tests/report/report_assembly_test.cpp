@@ -129,9 +129,9 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
 
   const std::vector<std::string> want = {
       "Run summary",         "Inputs: cross-correlation and impulse response",
-      "Leaderboard",         "Forecast",
+      "Ranking",         "Forecast",
       "The past, explained", "Backtest",
-      "Leader diagnostics"};
+      "Chosen model diagnostics"};
   EXPECT_EQ(headings(doc), want);
   EXPECT_EQ(r.sections, want);
   EXPECT_TRUE(r.warnings.empty());
@@ -139,7 +139,7 @@ TEST_F(ReportFolder, PageIsWellFormedSelfContainedAndHasEverySection) {
   // The config text sits in a collapsible block, escaped, and reads back verbatim.
   const auto pre = find_all(doc, "pre");
   ASSERT_EQ(pre.size(), 1u);
-  EXPECT_EQ(pre[0].text, test::leader_model("demand").training.config_text);
+  EXPECT_EQ(pre[0].text, test::chosen_model("demand").training.config_text);
   EXPECT_EQ(find_all(doc, "details").size(), 1u);
   EXPECT_NE(html.find("&lt;b&gt;&amp;amp;&lt;/b&gt;"), std::string::npos);
 
@@ -198,7 +198,7 @@ TEST_F(ReportFolder, CrossCorrelationBarsAreTheScreensNumbers) {
   EXPECT_EQ(find_all(chart(dir, "ccf_temp.svg", html), "rect", "beyond").size(), 2u);
 }
 
-TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
+TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheChosenModels) {
   const std::string html = slurp(write_report(dir).path);
   const json temp = test::screen_json("demand")["inputs"][0];
   const auto svg = chart(dir, "impulse_temp.svg", html);
@@ -211,9 +211,9 @@ TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
   expect_same(numbers(shape->attrs.at("data-values")), from_json(temp["impulse_fitted"]),
               "screen shape");
   // Closed form of omega_0 B / (1 - 0.5 B) with omega_0 = 2: 0, 2, 1, 0.5.
-  const Element* leader = series_named(svg, "leader b1 s0 r1");
-  ASSERT_NE(leader, nullptr);
-  expect_same(numbers(leader->attrs.at("data-values")), {0.0, 2.0, 1.0, 0.5}, "leader");
+  const Element* chosen = series_named(svg, "chosen model b1 s0 r1");
+  ASSERT_NE(chosen, nullptr);
+  expect_same(numbers(chosen->attrs.at("data-values")), {0.0, 2.0, 1.0, 0.5}, "chosen");
   const Element* band = band_named(svg, "screen estimate \u00b1 2 s.e.");
   ASSERT_NE(band, nullptr);
   std::vector<double> lo, hi;
@@ -223,10 +223,10 @@ TEST_F(ReportFolder, ImpulseResponsesAreTheScreensAndTheLeaders) {
   }
   expect_same(numbers(band->attrs.at("data-lower")), lo, "band lower");
   expect_same(numbers(band->attrs.at("data-upper")), hi, "band upper");
-  // price is not in the leader: no leader line.
+  // price is not in the chosen model: no chosen model line.
   const auto price = chart(dir, "impulse_price.svg", html);
   for (const auto& e : find_all(price, "g", "series"))
-    EXPECT_EQ(e.attrs.at("data-series").rfind("leader", 0), std::string::npos);
+    EXPECT_EQ(e.attrs.at("data-series").rfind("chosen", 0), std::string::npos);
 }
 
 TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
@@ -270,7 +270,7 @@ TEST_F(ReportFolder, FanChartCarriesHistoryForecastAndBothBandSets) {
 // The past charts plot fit.json "past" as it is; the fan borrows the fitted values of its
 // history stretch; an event of the model file is marked in both.
 TEST_F(ReportFolder, PastChartsAreFitJsonPastWithEventsMarked) {
-  FittedModel model = test::leader_model("demand");
+  FittedModel model = test::chosen_model("demand");
   model.spec.inputs.push_back(InputTerm{"promo", InputOrder{0, 0, 0}});
   model.params.inputs.push_back(InputParams{{1.5}, {}});
   InputUse promo;
@@ -329,14 +329,14 @@ TEST_F(ReportFolder, PastChartsAreFitJsonPastWithEventsMarked) {
 
 TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   const std::string html = slurp(write_report(dir).path);
-  const std::string leader = "temp b1 s0 r1 + ARMA(1,0)";
+  const std::string chosen = "temp b1 s0 r1 + ARMA(1,0)";
   const auto err = chart(dir, "backtest_error_by_horizon.svg", html);
-  const Element* l = series_named(err, leader + " (leader)");
+  const Element* l = series_named(err, chosen + " (chosen model)");
   const Element* c = series_named(err, "temp b1 s1 r0 + ARMA(1,0)");
   const Element* bench = series_named(err, "benchmark: no inputs");
   ASSERT_TRUE(l && c && bench);
   expect_same(numbers(l->attrs.at("data-x")), {1, 2}, "horizons");
-  expect_same(numbers(l->attrs.at("data-values")), {1.0, 1.5}, "leader MAE");
+  expect_same(numbers(l->attrs.at("data-values")), {1.0, 1.5}, "chosen model MAE");
   expect_same(numbers(c->attrs.at("data-values")), {1.125, 1.625}, "runner-up MAE");
   expect_same(numbers(bench->attrs.at("data-values")), {1.75, 2.25}, "benchmark MAE");
   // Only the benchmark is dashed: the path right after each series group.
@@ -359,15 +359,15 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   std::map<std::string, std::vector<double>> got;
   for (const auto& p : find_all(cov, "circle", "point"))
     got[p.attrs.at("data-series")].push_back(std::stod(p.attrs.at("data-value")));
-  expect_same(got[leader + " (leader)"], {0.775, 0.925}, "leader coverage");
+  expect_same(got[chosen + " (chosen model)"], {0.775, 0.925}, "chosen model coverage");
   expect_same(got["temp b1 s1 r0 + ARMA(1,0)"], {0.7, 0.9}, "runner-up coverage");
   expect_same(got["benchmark: no inputs"], {0.8, 0.95}, "benchmark coverage");
   const auto sampling = find_all(cov, "rect", "sampling");
-  ASSERT_EQ(sampling.size(), 2u);  // n = 40 from the leader's count
+  ASSERT_EQ(sampling.size(), 2u);  // n = 40 from the chosen model's count
   EXPECT_NEAR(std::stod(sampling[0].attrs.at("data-upper")) - 0.8, 1.96 * std::sqrt(0.8 * 0.2 / 40),
               1e-12);
 
-  // Leader, production, horizon 1, in file order: origins 80, 81, 82.
+  // Chosen model, production, horizon 1, in file order: origins 80, 81, 82.
   const auto one = chart(dir, "backtest_one_step.svg", html);
   const Element* actual = series_named(one, "actual");
   const Element* fcast = series_named(one, "one-step forecast");
@@ -380,15 +380,15 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
   expect_same(numbers(b80->attrs.at("data-lower")), {8, 8.625, 7.0}, "lower 80");
   expect_same(numbers(b95->attrs.at("data-upper")), {12, 12.625, 11.0}, "upper 95");
 
-  // One row per model: leader, runner-up, benchmark; the oracle MASE in the last column.
+  // One row per model: chosen model, runner-up, benchmark; the oracle MASE in the last column.
   const auto acc = table_cells(html, "Accuracy over all horizons");
   ASSERT_EQ(acc.size(), 3u);
-  EXPECT_EQ(acc[0], (std::vector<std::string>{leader + " (leader)", "40", "1.250", "1.500",
+  EXPECT_EQ(acc[0], (std::vector<std::string>{chosen + " (chosen model)", "40", "1.250", "1.500",
                                               "0.8100", "77.5%", "92.5%", "8.250", "0.7300"}));
   EXPECT_EQ(acc[2][0], "benchmark: no inputs");
   EXPECT_EQ(acc[2][8], "\u2014");  // no oracle rows
-  // Per challenger: where the leader (negative difference, p < 0.05) or the challenger wins.
-  const auto dm = table_cells(html, "Is the leader better than each challenger?");
+  // Per challenger: where the chosen model (negative difference, p < 0.05) or the challenger wins.
+  const auto dm = table_cells(html, "Is the chosen model better than each challenger?");
   ASSERT_EQ(dm.size(), 2u);
   EXPECT_EQ(dm[0], (std::vector<std::string>{"temp b1 s1 r0 + ARMA(1,0)", "2", "none", "1", "0.020",
                                              "-0.1250", "0.218",
@@ -407,7 +407,7 @@ TEST_F(ReportFolder, BacktestChartsAreTheAccuracyAndBacktestFiles) {
             (std::vector<std::string>{"temp", "0.8100", "1.250", "0.4400", "3.25", "0.002"}));
 }
 
-TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
+TEST_F(ReportFolder, RankingAndDiagnostics) {
   const std::string html = slurp(write_report(dir).path);
   const auto doc = parse_markup(html);
   const auto lb = table_cells(html, "Top 3 of 3 candidates");
@@ -421,8 +421,8 @@ TEST_F(ReportFolder, LeaderboardAndDiagnostics) {
   EXPECT_EQ(lb[2][2], "\u2014");  // failed fit: no criterion
   EXPECT_EQ(lb[2][8], "numerical_failure: singular <matrix>");
   EXPECT_EQ(find_all(doc, "table", "sortable").size(),
-            4u);                                           // leaderboard, accuracy, DM, input value
-  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 2u);  // the leader: leaderboard and accuracy
+            4u);                                           // ranking, accuracy, DM, input value
+  EXPECT_EQ(find_all(doc, "tr", "highlight").size(), 2u);  // the chosen model: ranking and accuracy
 
   const auto svg = chart(dir, "residual_acf.svg", html);
   std::vector<double> lags, values;
@@ -532,12 +532,12 @@ TEST(Report, ResidualInputChecksNameTheTreatmentAsTheScreenDoes) {
 TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   const fs::path dir = fresh_dir("panel");
   for (const std::string s : {"north", "south"}) {
-    save_model(dir / ("model_" + s + ".json"), test::leader_model(s));
+    save_model(dir / ("model_" + s + ".json"), test::chosen_model(s));
     write_text(dir / ("screen_" + s + ".json"), test::screen_json(s).dump());
     write_text(dir / ("fit_" + s + ".json"), test::fit_json(s).dump());
     write_text(dir / ("forecast_" + s + ".json"), test::forecast_json(s).dump());
   }
-  write_text(dir / "leaderboard.json", test::leaderboard_json({"north", "south"}).dump());
+  write_text(dir / "ranking.json", test::ranking_json({"north", "south"}).dump());
   // One accuracy file for the whole run, with a series column: filtered per series.
   std::string acc;
   std::istringstream in(test::accuracy_csv());
@@ -550,16 +550,16 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   const ReportResult r = write_report(dir);
   const std::vector<std::string> want = {"Run summary",
                                          "Inputs: cross-correlation and impulse response · north",
-                                         "Leaderboard · north",
+                                         "Ranking · north",
                                          "Forecast · north",
                                          "The past, explained · north",
                                          "Backtest · north",
-                                         "Leader diagnostics · north",
+                                         "Chosen model diagnostics · north",
                                          "Inputs: cross-correlation and impulse response · south",
-                                         "Leaderboard · south",
+                                         "Ranking · south",
                                          "Forecast · south",
                                          "The past, explained · south",
-                                         "Leader diagnostics · south"};
+                                         "Chosen model diagnostics · south"};
   EXPECT_EQ(r.sections, want);
   const std::string html = slurp(r.path);
   ASSERT_TRUE(parse_markup(html).ok);
@@ -572,7 +572,7 @@ TEST(Report, SeveralSeriesGetTheirOwnSectionsAndCharts) {
   // numbers.
   const auto north = parse_markup(slurp(dir / "charts" / "backtest_error_by_horizon_north.svg"));
   EXPECT_EQ(
-      numbers(series_named(north, "temp b1 s0 r1 + ARMA(1,0) (leader)")->attrs.at("data-values")),
+      numbers(series_named(north, "temp b1 s0 r1 + ARMA(1,0) (chosen model)")->attrs.at("data-values")),
       (std::vector<double>{1.0, 1.5}));
   EXPECT_FALSE(fs::exists(dir / "charts" / "backtest_error_by_horizon_south.svg"));
   fs::remove_all(dir);
@@ -661,7 +661,7 @@ TEST(Report, RevalidationListsNewEffects) {
 
 TEST(Report, OnlyTheSectionsWhoseFilesExist) {
   const fs::path dir = fresh_dir("partial");
-  write_text(dir / "leaderboard.json", test::leaderboard_json({"demand"}).dump());
+  write_text(dir / "ranking.json", test::ranking_json({"demand"}).dump());
   write_text(dir / "screen.json", test::screen_json("demand").dump());
   json fj = test::forecast_json("demand");
   fj["forecast"] = nullptr;
@@ -669,20 +669,38 @@ TEST(Report, OnlyTheSectionsWhoseFilesExist) {
   write_text(dir / "forecast.json", fj.dump());
   ReportOptions options;
   options.write_charts = false;
-  options.leaderboard_rows = 2;
+  options.ranking_rows = 2;
   const ReportResult r = write_report(dir, options);
   EXPECT_EQ(r.sections, (std::vector<std::string>{"Run summary",
                                                   "Inputs: cross-correlation and impulse response",
-                                                  "Leaderboard", "Forecast"}));
+                                                  "Ranking", "Forecast"}));
   EXPECT_TRUE(r.charts.empty());
   EXPECT_FALSE(fs::exists(dir / "charts"));
-  ASSERT_EQ(r.warnings.size(), 1u);  // a leader without its model or fit file
+  ASSERT_EQ(r.warnings.size(), 1u);  // a chosen model without its model or fit file
   EXPECT_NE(r.warnings[0].find("model.json"), std::string::npos);
   const std::string html = slurp(r.path);
   ASSERT_TRUE(parse_markup(html).ok);
   EXPECT_EQ(table_cells(html, "Top 2 of 3 candidates").size(), 2u);
   EXPECT_NE(html.find("price needs future values"), std::string::npos);
   EXPECT_EQ(html.find("<details>"), std::string::npos);  // no model file, no config text
+  fs::remove_all(dir);
+}
+
+TEST(Report, FolderWrittenBeforeTheRenameStillReports) {
+  // A run folder of the previous release: leaderboard.json with `leader_reason` (legacy names).
+  const fs::path dir = fresh_dir("legacy_names");
+  json ranking = test::ranking_json({"demand"});
+  ranking["series_notes"] = json::array(
+      {{{"series", "demand"}, {"sorted_by", "by BIC"}, {"leader_reason", "best by BIC"}}});  // legacy
+  write_text(dir / "leaderboard.json", ranking.dump());  // legacy
+  write_text(dir / "screen.json", test::screen_json("demand").dump());
+  ReportOptions options;
+  options.write_charts = false;
+  const ReportResult r = write_report(dir, options);
+  EXPECT_NE(std::find(r.sections.begin(), r.sections.end(), "Ranking"), r.sections.end());
+  const std::string html = slurp(r.path);
+  EXPECT_EQ(table_cells(html, "Top 3 of 3 candidates").size(), 3u);
+  EXPECT_NE(html.find("best by BIC"), std::string::npos);
   fs::remove_all(dir);
 }
 
@@ -700,7 +718,7 @@ TEST(Report, ClearErrorsForWhatIsNotARunFolder) {
   const fs::path dir = fresh_dir("errors");
   expect_input_error(dir / "missing", {"missing", "no such folder"});
   write_text(dir / "notes.txt", "hello");
-  expect_input_error(dir, {"not a run folder", "leaderboard.json", "model.json"});
+  expect_input_error(dir, {"not a run folder", "ranking.json", "model.json"});
   EXPECT_FALSE(fs::exists(dir / "report.html"));
   fs::remove_all(dir);
 }
@@ -712,10 +730,10 @@ TEST(Report, MalformedFilesAreNamed) {
   expect_input_error(dir, {"fit.json", "not valid JSON"});
 
   test::write_full_run(dir);
-  json lb = test::leaderboard_json({"demand"});
+  json lb = test::ranking_json({"demand"});
   lb["rows"][1].erase("key");
-  write_text(dir / "leaderboard.json", lb.dump());
-  expect_input_error(dir, {"leaderboard.json", "rows[1].key", "missing"});
+  write_text(dir / "ranking.json", lb.dump());
+  expect_input_error(dir, {"ranking.json", "rows[1].key", "missing"});
 
   test::write_full_run(dir);
   json sc = test::screen_json("demand");
@@ -739,7 +757,7 @@ TEST(Report, MalformedFilesAreNamed) {
 
 TEST(Report, RejectsBadOptions) {
   ReportOptions o;
-  o.leaderboard_rows = 0;
+  o.ranking_rows = 0;
   EXPECT_THROW(o.validate(), InputError);
 }
 

@@ -32,9 +32,9 @@ inline fs::path fresh_dir(const std::string& name) {
   return dir;
 }
 
-// The leader: demand on temp with b = 1, s = 0, r = 1, omega_0 = 2, delta_1 = 0.5, so its impulse
+// The chosen model: demand on temp with b = 1, s = 0, r = 1, omega_0 = 2, delta_1 = 0.5, so its impulse
 // response is v_0 = 0, v_k = 2 * 0.5^(k - 1) for k >= 1.
-inline FittedModel leader_model(const std::string& series) {
+inline FittedModel chosen_model(const std::string& series) {
   FittedModel m;
   m.spec.inputs = {InputTerm{"temp", InputOrder{1, 0, 1}}};
   m.spec.noise.p = 1;
@@ -76,7 +76,7 @@ inline FittedModel leader_model(const std::string& series) {
   return m;
 }
 
-inline json leaderboard_json(const std::vector<std::string>& series) {
+inline json ranking_json(const std::vector<std::string>& series) {
   json rows = json::array();
   for (const auto& s : series) {
     rows.push_back({{"series", s},
@@ -254,7 +254,7 @@ inline json forecast_json(const std::string& series) {
             {"values", {9.0, 9.5, 8.75, 10.25, 9.8}}}}};
 }
 
-// accuracy.csv: the leader, the runner-up and a no-input benchmark, production and oracle.
+// accuracy.csv: the chosen model, the runner-up and a no-input benchmark, production and oracle.
 inline std::string accuracy_csv() {
   return "model,mode,horizon,count,mae,rmse,mase,coverage_80,coverage_95,interval_score_80,"
          "interval_score_95\n"
@@ -272,7 +272,7 @@ inline std::string accuracy_csv() {
          "benchmark: no inputs,production,2,20,2.25,3.0,1.4,0.8,0.95,10.0,13.0\n";
 }
 
-// backtest.csv: two origins, horizons 1 and 2, the leader in both modes and the runner-up.
+// backtest.csv: two origins, horizons 1 and 2, the chosen model in both modes and the runner-up.
 inline std::string backtest_csv() {
   std::string out =
       "model,mode,origin,origin_time,horizon,time,forecast,actual,lower_80,upper_80,lower_95,upper_"
@@ -298,7 +298,7 @@ inline std::string backtest_csv() {
 }
 
 inline std::string comparisons_csv() {
-  return "leader,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n"
+  return "chosen,challenger,horizon,loss,n,mean_difference,statistic,p_value,status\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",\"temp b1 s1 r0 + "
          "ARMA(1,0)\",0,squared,40,-0.125,-1.25,0.218,ok\n"
          "\"temp b1 s0 r1 + ARMA(1,0)\",benchmark: no inputs,0,squared,40,-0.75,-3.5,0.0012,ok\n"
@@ -322,8 +322,8 @@ inline std::string input_value_csv() {
 
 // A complete single-series run folder (search + backtest).
 inline void write_full_run(const fs::path& dir, const std::string& series = "demand") {
-  save_model(dir / "model.json", leader_model(series));
-  write_text(dir / "leaderboard.json", leaderboard_json({series}).dump(2));
+  save_model(dir / "model.json", chosen_model(series));
+  write_text(dir / "ranking.json", ranking_json({series}).dump(2));
   write_text(dir / "screen.json", screen_json(series).dump(1));
   write_text(dir / "fit.json", fit_json(series).dump(1));
   write_text(dir / "forecast.json", forecast_json(series).dump(1));

@@ -266,11 +266,11 @@ TEST(Svg, BarChartVariableBand) {
 
 TEST(Svg, HorizonChart) {
   HorizonChart h;
-  h.frame.title = "The leader's error stays lowest at every horizon";
+  h.frame.title = "The chosen model's error stays lowest at every horizon";
   h.frame.x_title = "Horizon (steps ahead)";
   h.frame.y_title = "MASE";
   h.horizons = {1, 2, 3, 4};
-  h.series.push_back({"leader", {0.5, 0.7, 0.8, 0.95}, false});
+  h.series.push_back({"chosen", {0.5, 0.7, 0.8, 0.95}, false});
   h.series.push_back({"seasonal naive", {1.0, 1.1, 1.15, 1.2}, true});
   h.series.push_back({"no inputs", {0.6, std::nan(""), 0.9}, false});  // short and with a gap
   const LineChart lc = horizon_line_chart(h);
@@ -294,7 +294,7 @@ TEST(Svg, CoverageChart) {
   c.frame.x_title = "Nominal coverage (%)";
   c.frame.y_title = "Empirical coverage (%)";
   c.nominal = {0.8, 0.95};
-  c.series.push_back({"leader", {0.78, 0.94}, 100});
+  c.series.push_back({"chosen", {0.78, 0.94}, 100});
   c.series.push_back({"A & B <test>", {0.62, 0.85}, 100});
   const std::string svg = coverage_chart_svg(c);
   expect_wellformed_and_offline(svg);
@@ -310,7 +310,7 @@ TEST(Svg, CoverageChart) {
   EXPECT_NEAR(std::stod(bars[0].attrs.at("data-lower")), 0.8 - 0.0784, 1e-12);
   EXPECT_NEAR(std::stod(bars[0].attrs.at("data-upper")), 0.8 + 0.0784, 1e-12);
   // Same scale on both axes: a point with empirical == nominal would sit on the diagonal, so
-  // the leader's 0.78 at 0.8 lies just below it.
+  // the chosen model's 0.78 at 0.8 lies just below it.
   const auto diag = find_all(r, "line", "diagonal");
   ASSERT_EQ(diag.size(), 1u);
   EXPECT_NE(svg.find(">80%<"), std::string::npos);

@@ -73,7 +73,7 @@ TEST(RevalidateCommand, ExitCodesFollowTheVerdict) {
   EXPECT_EQ(verdict_in(dir / "same_out"), "keep");
   EXPECT_NE(keep.out.find("Verdict: keep"), std::string::npos) << keep.out;
   EXPECT_TRUE(fs::exists(dir / "same_out" / "refit_model.json"));
-  EXPECT_TRUE(fs::exists(dir / "same_out" / "leaderboard.json"));
+  EXPECT_TRUE(fs::exists(dir / "same_out" / "ranking.json"));
   const auto doc = nlohmann::json::parse(slurp(dir / "same_out" / "revalidation.json"));
   EXPECT_EQ(doc["performance"]["baseline"], "model file");
 

@@ -66,12 +66,12 @@ TEST(SearchIndicator, GuidedKeepsAStepDataColumn) {
   const InputTerm* kept = nullptr;
   for (const auto& term : top.inputs)
     if (term.name == "law") kept = &term;
-  ASSERT_NE(kept, nullptr) << "the guided leader dropped the step column";
+  ASSERT_NE(kept, nullptr) << "the guided chosen model dropped the step column";
   EXPECT_EQ(kept->order.delay, 2);
-  ASSERT_TRUE(result.has_leader());
-  // The leader's estimate of the jump (the omega of `law`) is near the true 6.
+  ASSERT_TRUE(result.has_chosen());
+  // The chosen model's estimate of the jump (the omega of `law`) is near the true 6.
   int checked = 0;
-  for (const auto& e : result.leader.estimates) {
+  for (const auto& e : result.chosen.estimates) {
     if (e.name != "law.omega0") continue;
     EXPECT_NEAR(e.value, 6.0, 3.0 * e.std_error);
     ++checked;

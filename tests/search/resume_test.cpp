@@ -1,5 +1,5 @@
 // Resuming the `lagsieve search` binary: a run killed part-way (SIGKILL, SIGINT) and resumed with
-// --resume ends with the same leaderboard as an uninterrupted run (fit times aside); a torn last
+// --resume ends with the same ranking as an uninterrupted run (fit times aside); a torn last
 // journal line is tolerated; the journal of another config is refused with exit code 2.
 #include <fcntl.h>
 #include <gtest/gtest.h>
@@ -92,9 +92,9 @@ std::vector<std::string> csv_cells(const std::string& line) {
   return cells;
 }
 
-// The leaderboard without the fit_seconds column (wall-clock times differ between runs).
-std::string leaderboard_without_times(const fs::path& folder) {
-  std::ifstream in(folder / "leaderboard.csv");
+// The ranking without the fit_seconds column (wall-clock times differ between runs).
+std::string ranking_without_times(const fs::path& folder) {
+  std::ifstream in(folder / "ranking.csv");
   std::string line, out;
   int drop = -1;
   size_t width = 0;
@@ -173,7 +173,7 @@ class SearchResume : public ::testing::Test {
     EXPECT_EQ(stopped.code, signal);
     const int lines = line_count(journal);
     EXPECT_LT(lines, 1 + total_) << name << ": the journal is already complete";
-    EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
+    EXPECT_FALSE(fs::exists(dir / "ranking.csv"));
     if (tear) std::ofstream(journal, std::ios::app) << R"({"series":"y","key":"x1[b0)";
     std::vector<std::string> resume = args;
     resume.push_back("--resume");
@@ -203,19 +203,19 @@ class SearchResume : public ::testing::Test {
   static inline bool full_ok_ = false;
 };
 
-TEST_F(SearchResume, KilledRunResumesToTheSameLeaderboardDespiteATornLine) {
+TEST_F(SearchResume, KilledRunResumesToTheSameRankingDespiteATornLine) {
   ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
-  const std::string expected = leaderboard_without_times(root_ / "full");
+  const std::string expected = ranking_without_times(root_ / "full");
   ASSERT_EQ(std::count(expected.begin(), expected.end(), '\n'), total_ + 1);
   const fs::path dir = interrupt_and_resume("killed", SIGKILL, true);
-  EXPECT_EQ(leaderboard_without_times(dir), expected);
+  EXPECT_EQ(ranking_without_times(dir), expected);
   EXPECT_EQ(testing::slurp(dir / "model.json"), testing::slurp(root_ / "full" / "model.json"));
 }
 
-TEST_F(SearchResume, InterruptedRunResumesToTheSameLeaderboard) {
+TEST_F(SearchResume, InterruptedRunResumesToTheSameRanking) {
   ASSERT_TRUE(full_ok_) << testing::slurp(log_of(root_ / "full", "stderr"));
   const fs::path dir = interrupt_and_resume("interrupted", SIGINT, false);
-  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
+  EXPECT_EQ(ranking_without_times(dir), ranking_without_times(root_ / "full"));
 }
 
 TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
@@ -234,7 +234,7 @@ TEST_F(SearchResume, JournalOfAnotherConfigIsRefused) {
   EXPECT_NE(err.find("another run"), std::string::npos) << err;
   EXPECT_EQ(testing::slurp(dir / "journal.jsonl"), before)
       << "a refused journal must be left as it was";
-  EXPECT_FALSE(fs::exists(dir / "leaderboard.csv"));
+  EXPECT_FALSE(fs::exists(dir / "ranking.csv"));
 }
 
 // A row edited by hand (a better BIC than any real fit) fails its checksum: the candidate is
@@ -268,8 +268,8 @@ TEST_F(SearchResume, TamperedJournalRowIsNotTrusted) {
   EXPECT_NE(summary.find("(1 fitted, " + std::to_string(total_ - 1) + " from the journal"),
             std::string::npos)
       << summary;
-  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
-  EXPECT_EQ(testing::slurp(dir / "leaderboard.csv").find("-99999"), std::string::npos);
+  EXPECT_EQ(ranking_without_times(dir), ranking_without_times(root_ / "full"));
+  EXPECT_EQ(testing::slurp(dir / "ranking.csv").find("-99999"), std::string::npos);
 }
 
 // The fingerprint covers what determines the candidates' results only: a comment, other
@@ -290,7 +290,7 @@ TEST_F(SearchResume, CommentsAndUnrelatedSectionsDoNotBlockResume) {
   EXPECT_NE(testing::slurp(log_of(dir, "stdout")).find("(0 fitted, " + std::to_string(total_)),
             std::string::npos)
       << testing::slurp(log_of(dir, "stdout"));
-  EXPECT_EQ(leaderboard_without_times(dir), leaderboard_without_times(root_ / "full"));
+  EXPECT_EQ(ranking_without_times(dir), ranking_without_times(root_ / "full"));
 }
 
 }  // namespace

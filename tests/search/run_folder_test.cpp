@@ -89,13 +89,15 @@ TEST_F(RunFolder, ReRunReplacesTheFolderAsAWhole) {
   EXPECT_FALSE(fs::exists(root_ / ".rerun.lagsieve-next"));
   const auto first = files_of(out);
   // A write cut short by a kill leaves a temporary file; the next run must not keep it.
-  std::ofstream(out / "leaderboard.csv.tmp.99999.0") << "half";
+  std::ofstream(out / "ranking.csv.tmp.99999.0") << "half";
+  // A folder first written by the previous release holds the ranking under its legacy name.
+  std::ofstream(out / "leaderboard.csv") << "rank,model\n";  // legacy
 
   r = lagsieve("search no_backtest.yaml --out rerun --quiet");
   ASSERT_EQ(r.code, 0) << r.err;
   const auto second = files_of(out);
   for (const char* f : {"backtest.csv", "accuracy.csv", "comparisons.csv", "input_value.csv",
-                        "leaderboard.csv.tmp.99999.0"})
+                        "ranking.csv.tmp.99999.0", "leaderboard.csv"})  // legacy
     EXPECT_FALSE(fs::exists(out / f)) << f << " of the first run survived";
   for (const auto& [name, text] : second) {
     if (name == "journal.jsonl" || name.rfind("charts", 0) == 0) continue;
@@ -109,7 +111,7 @@ TEST_F(RunFolder, ReRunReplacesTheFolderAsAWhole) {
   EXPECT_EQ(marker["command"], "search");
   EXPECT_EQ(marker["status"], "complete");
   EXPECT_NE(marker["run"], nlohmann::json::parse(first.at("run.json"))["run"]);
-  EXPECT_NE(slurp(out / "leaderboard.csv").find("x2"), std::string::npos);
+  EXPECT_NE(slurp(out / "ranking.csv").find("x2"), std::string::npos);
 }
 
 TEST_F(RunFolder, SecondRunIsRefusedWhileTheFirstRunsAndADeadHoldersLockIsTakenOver) {
@@ -144,7 +146,7 @@ TEST_F(RunFolder, SecondRunIsRefusedWhileTheFirstRunsAndADeadHoldersLockIsTakenO
   EXPECT_NE(r.err.find("in use by another lagsieve run (pid " + std::to_string(first) + ")"),
             std::string::npos)
       << r.err;
-  EXPECT_FALSE(fs::exists(out / "leaderboard.csv"));
+  EXPECT_FALSE(fs::exists(out / "ranking.csv"));
 
   // The first run dies without releasing anything; its lock file stays but holds nothing.
   ::kill(first, SIGKILL);
@@ -189,7 +191,7 @@ TEST_F(RunFolder, SearchWithoutAUsableCandidateWritesNoModelAndSaysWhy) {
   const fs::path out = root_ / "nomodel";
   for (const char* f : {"model.json", "fit.json", "forecast.json", "backtest.csv"})
     EXPECT_FALSE(fs::exists(out / f)) << f;
-  EXPECT_TRUE(fs::exists(out / "leaderboard.csv"));
+  EXPECT_TRUE(fs::exists(out / "ranking.csv"));
   EXPECT_EQ(nlohmann::json::parse(slurp(out / "run.json"))["status"], "no_usable_candidate");
 }
 

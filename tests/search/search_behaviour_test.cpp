@@ -1,4 +1,4 @@
-// Properties of a search run that hold by construction: the leaderboard does not depend on the
+// Properties of a search run that hold by construction: the ranking does not depend on the
 // thread count (bit for bit), every candidate is scored on the same observations (closed form:
 // rows - differencing loss - largest lag of the grid), and a candidate that cannot be fitted is
 // a failure row ranked last, not an exception.
@@ -48,7 +48,7 @@ SearchOptions options_of(const RunConfig& config) {
 
 std::uint64_t bits(double v) { return std::bit_cast<std::uint64_t>(v); }
 
-TEST(SearchDeterminism, LeaderboardIdenticalWithOneAndTwoThreads) {
+TEST(SearchDeterminism, RankingIdenticalWithOneAndTwoThreads) {
   const SearchCase c = small_case(300, 201);
   const SeriesData data = simulate(testing::simulation_of(c));
   const RunConfig one = testing::config_of(c, 1);
@@ -73,8 +73,8 @@ TEST(SearchDeterminism, LeaderboardIdenticalWithOneAndTwoThreads) {
     fitted += ra.rankable() ? 1 : 0;
   }
   EXPECT_GT(fitted, static_cast<int>(a.rows.size()) * 9 / 10);
-  ASSERT_TRUE(a.has_leader() && b.has_leader());
-  EXPECT_EQ(bits(a.leader.loglik), bits(b.leader.loglik));
+  ASSERT_TRUE(a.has_chosen() && b.has_chosen());
+  EXPECT_EQ(bits(a.chosen.loglik), bits(b.chosen.loglik));
 }
 
 TEST(SearchCommonSample, EveryCandidateReportsTheSameObservationCount) {
@@ -143,7 +143,7 @@ TEST(SearchFailures, CandidateThatCannotBeFittedIsARowRankedLast) {
   }
   // promo in at delay 0 or 1, times x1 (2 delays x 2 denominators) x noise (2 x 2).
   EXPECT_EQ(failures, 2 * 4 * 4);
-  EXPECT_TRUE(result.has_leader());
+  EXPECT_TRUE(result.has_chosen());
   std::printf("  failure row message: %s\n", result.rows.back().message.c_str());
 }
 

@@ -1,4 +1,4 @@
-// Outlier detection in a search: one detection on the criterion leader, the same set fitted with
+// Outlier detection in a search: one detection on the best candidate by the criterion, the same set fitted with
 // every shortlisted candidate (same sample, same columns), the rows ranked with it, and in the
 // shortlist backtest an effect left out of the fits at origins before its date.
 #include <gtest/gtest.h>
@@ -94,19 +94,19 @@ TEST(SearchOutliers, PlantedLevelShiftSharedByEveryShortlistedCandidate) {
       EXPECT_LE(r.rows[i - 1].bic, row.bic) << "shortlist not ranked by the criterion";
     }
   }
-  // Detection ran on one of them (the criterion leader without effects).
+  // Detection ran on one of them (the best candidate by the criterion without effects).
   EXPECT_TRUE(std::any_of(r.rows.begin(), r.rows.begin() + 6,
                           [&](const CandidateRow& row) { return row.key == o.detected_on; }));
   // Rows past the shortlist are fitted without the set.
   for (size_t i = 6; i < r.rows.size(); ++i)
     EXPECT_TRUE(r.rows[i].effects.empty()) << r.rows[i].key;
-  // The leader's fit carries each effect as an input, its size near the planted 5.
-  ASSERT_TRUE(r.has_leader());
+  // The chosen model's fit carries each effect as an input, its size near the planted 5.
+  ASSERT_TRUE(r.has_chosen());
   const auto* shift = shift_near(o.effects, kShiftRow);
-  bool in_leader = false;
-  for (const auto& est : r.leader.estimates)
-    in_leader = in_leader || est.name == shift->name + ".omega0";
-  EXPECT_TRUE(in_leader);
+  bool in_chosen = false;
+  for (const auto& est : r.chosen.estimates)
+    in_chosen = in_chosen || est.name == shift->name + ".omega0";
+  EXPECT_TRUE(in_chosen);
   EXPECT_NEAR(shift->size, 5.0, 4.0 * shift->std_error);
   EXPECT_GT(std::abs(shift->statistic), o.critical);
 }
@@ -178,9 +178,9 @@ TEST(SearchOutliers, EffectLeftOutOfTheFitsAtOriginsBeforeItsDate) {
   EXPECT_FALSE(has(known_at_origin(lead, slice_rows(augmented, 0, shift->row), 0, shift->row)));
   EXPECT_TRUE(
       has(known_at_origin(lead, slice_rows(augmented, 0, shift->row + 1), 0, shift->row + 1)));
-  // The leader's input value leaves the effects alone (they are not inputs asked about).
+  // The chosen model's input value leaves the effects alone (they are not inputs asked about).
   for (const auto& iv : bt.result.input_value) EXPECT_EQ(iv.input.find('@'), std::string::npos);
-  // The leader re-chosen by the backtest still carries the set.
+  // The model re-chosen by the backtest still carries the set.
   EXPECT_FALSE(r.rows.front().effects.empty());
 }
 

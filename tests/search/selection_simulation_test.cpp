@@ -1,4 +1,4 @@
-// The leader rule of selection.h against pure backtest-score ranking on seeded simulations: the
+// The selection rule of selection.h against pure backtest-score ranking on seeded simulations: the
 // true model and two over-parameterised neighbours (an extra numerator lag, an extra AR term).
 #include <gtest/gtest.h>
 
@@ -69,11 +69,11 @@ TEST(SelectionSimulation, TheSimplestWithinNoiseFindsTheTrueModelMoreOftenThanTh
     const BacktestResult bt = run_backtest(data, candidates, o);
     std::vector<SelectionCandidate> pool;
     for (size_t i = 0; i < rows.size(); ++i) pool.push_back({&rows[i], static_cast<int>(i)});
-    const SelectionResult rule = choose_leader(pool, bt, so);
-    const SelectionResult score = choose_leader(pool, bt, best_only);
-    ASSERT_GE(rule.leader, 0) << "seed " << seed;
-    rule_true += rule.leader == 0 ? 1 : 0;
-    score_true += score.leader == 0 ? 1 : 0;
+    const SelectionResult rule = choose_model(pool, bt, so);
+    const SelectionResult score = choose_model(pool, bt, best_only);
+    ASSERT_GE(rule.chosen, 0) << "seed " << seed;
+    rule_true += rule.chosen == 0 ? 1 : 0;
+    score_true += score.chosen == 0 ? 1 : 0;
     EXPECT_FALSE(rule.reason.empty());
   }
   std::printf("true model chosen: selection rule %d / %d, best backtest score %d / %d\n", rule_true,
@@ -102,14 +102,14 @@ TEST(SelectionSimulation, BoundaryAndRejectedFitsDoNotLeadByDefault) {
   std::vector<SelectionCandidate> pool{{&rows[0], 0}, {&rows[1], 1}};
   rows[0].status = FitStatus::boundary;
   SelectionOptions so;
-  auto r = choose_leader(pool, bt, so);
-  EXPECT_EQ(r.leader, 1);
+  auto r = choose_model(pool, bt, so);
+  EXPECT_EQ(r.chosen, 1);
   EXPECT_EQ(r.notes[0], "cannot lead: status boundary");
   rows[1].status = FitStatus::rejected;
-  r = choose_leader(pool, bt, so);
-  EXPECT_EQ(r.leader, -1);
+  r = choose_model(pool, bt, so);
+  EXPECT_EQ(r.chosen, -1);
   so.statuses.push_back(FitStatus::boundary);
-  EXPECT_EQ(choose_leader(pool, bt, so).leader, 0);
+  EXPECT_EQ(choose_model(pool, bt, so).chosen, 0);
 }
 
 }  // namespace

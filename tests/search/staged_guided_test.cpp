@@ -73,7 +73,7 @@ TEST(StagedGuided, ChoosesTheModelOfTheWholeGridWithAFractionOfTheFits) {
     const SearchResult all = search_with(data, config, Strategy::exhaustive, false, 2);
     const SearchResult grid = search_with(data, config, Strategy::guided, false, 2);
     const SearchResult staged = search_with(data, config, Strategy::guided, true, 2);
-    ASSERT_TRUE(all.has_leader() && grid.has_leader() && staged.has_leader()) << "seed " << seed;
+    ASSERT_TRUE(all.has_chosen() && grid.has_chosen() && staged.has_chosen()) << "seed " << seed;
     EXPECT_EQ(staged.rows.front().key, all.rows.front().key) << "seed " << seed;
     EXPECT_EQ(staged.rows.front().key, grid.rows.front().key) << "seed " << seed;
     // The same candidate gets the same criterion up to the optimiser's tolerance, though the
@@ -221,7 +221,7 @@ TEST(StagedGuided, StopsAtTheBudgetAndSaysSo) {
   config.search.budget = 15;
   const SearchResult r = search_with(data, config, Strategy::guided, true, 2);
   EXPECT_LE(r.fitted, 15);
-  EXPECT_TRUE(r.has_leader());
+  EXPECT_TRUE(r.has_chosen());
   EXPECT_EQ(accounted(r.stages), r.full_grid_size);
   bool warned = false;
   for (const auto& w : r.warnings) warned = warned || w.rfind("search_budget_reached", 0) == 0;

@@ -1,4 +1,4 @@
-#include "search/leaderboard.h"
+#include "search/ranking.h"
 
 #include <fmt/format.h>
 #include <cmath>
@@ -19,7 +19,7 @@ std::string input_cell(const CandidateRow& row, const std::string& name) {
 
 }  // namespace
 
-std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConfig& config) {
+std::string ranking_csv(const std::vector<CandidateRow>& rows, const RunConfig& config) {
   std::string out = "series,rank,model";
   for (const auto& in : config.inputs) out += "," + csv_field(in.name);
   out +=
@@ -42,7 +42,7 @@ std::string leaderboard_csv(const std::vector<CandidateRow>& rows, const RunConf
   return out;
 }
 
-nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const RunConfig& config,
+nlohmann::json ranking_json(const std::vector<CandidateRow>& rows, const RunConfig& config,
                                 const std::vector<SearchResult>& results) {
   nlohmann::json j;
   j["criterion"] = to_string(config.search.criterion);
@@ -58,7 +58,7 @@ nlohmann::json leaderboard_json(const std::vector<CandidateRow>& rows, const Run
     for (const auto& r : results)
       j["series_notes"].push_back({{"series", r.series},
                                    {"sorted_by", r.sorted_by},
-                                   {"leader_reason", r.leader_reason},
+                                   {"chosen_reason", r.chosen_reason},
                                    {"warnings", r.warnings},
                                    {"search", {{"grid_size", r.full_grid_size},
                                                {"considered", r.grid_size},
