@@ -69,7 +69,8 @@ std::shared_ptr<PanelSearch> search_panel(RunConfig config, std::vector<PanelPar
 std::shared_ptr<PanelSearch> search_panel_file(const RunConfig& config, std::optional<int> threads,
                                                bool backtest) {
   auto parts = load_panel(config, {});
-  return search_panel(config, std::move(parts), batch_fingerprint(config, {}), threads, backtest);
+  std::string fingerprint = batch_fingerprint(config, parts, {});
+  return search_panel(config, std::move(parts), std::move(fingerprint), threads, backtest);
 }
 
 std::shared_ptr<PanelSearch> search_panel_table(RunConfig config, const CsvTable& table,
