@@ -338,8 +338,10 @@ ProfileValue profile_loglik(const LikelihoodProblem& problem, std::span<const do
     if (ldlt.info() != Eigen::Success || !ldlt.isPositive()) return out;
     const auto d = ldlt.vectorD();
     if (d.minCoeff() <= 1e-12 * d.maxCoeff()) return out;  // collinear regressors
-    // |X' Sigma^-1 X| = |a| prod(norm)^2, and |a| the product of the LDLT pivots.
-    log_det_information = d.array().log().sum() + 2.0 * norm.array().log().sum();
+    // |X' Sigma^-1 X| = |a| prod(norm)^2, and |a| the product of the LDLT pivots; only the
+    // restricted objective reads it, so ML evaluations (the hot loop) skip the logarithms.
+    if (problem.spec.estimation == Estimation::restricted)
+      log_det_information = d.array().log().sum() + 2.0 * norm.array().log().sum();
     Eigen::VectorXd gamma = ldlt.solve(inv.cwiseProduct(m.col(0).tail(k)));
     ssr -= m.col(0).tail(k).dot(inv.cwiseProduct(gamma));
     // ssr = y'y - y'X beta cancels when the fit is close (a large constant, collinear trending
