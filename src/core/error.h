@@ -3,6 +3,7 @@
 // the command-line front turns these into messages and exit codes.
 #include <stdexcept>
 #include <string>
+#include <utility>
 
 namespace lagsieve {
 
@@ -11,6 +12,17 @@ namespace lagsieve {
 class InputError : public std::runtime_error {
  public:
   explicit InputError(const std::string& message) : std::runtime_error(message) {}
+  // With the spot as fields too (the YAML reader knows them), for machine-readable errors.
+  InputError(const std::string& message, std::string file, int line, std::string key)
+      : std::runtime_error(message), file_(std::move(file)), line_(line), key_(std::move(key)) {}
+  const std::string& file() const { return file_; }
+  int line() const { return line_; }  // 1-based; 0 when not known
+  const std::string& key() const { return key_; }
+
+ private:
+  std::string file_;
+  int line_ = 0;
+  std::string key_;
 };
 
 // A numerical failure that the caller may record as a status rather than abort on.

@@ -488,8 +488,19 @@ void read_outliers(const Reader& rd, const YAML::Node& node, OutliersConfig& oc)
 
 }  // namespace
 
-RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) {
+RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file,
+                       std::vector<InputError>* problems) {
   const Reader rd(config_file.string());
+  // Collecting: each section (and each input) is read on its own, its first problem recorded and
+  // its defaults kept, so one pass names a problem in every section that has one.
+  auto part = [&](const auto& read) {
+    if (!problems) return read();
+    try {
+      read();
+    } catch (const InputError& e) {
+      problems->push_back(e);
+    }
+  };
   YAML::Node root;
   try {
     root = YAML::Load(std::string(yaml_text));
@@ -501,82 +512,104 @@ RunConfig parse_config(std::string_view yaml_text, const fs::path& config_file) 
   if (!root || root.IsNull())
     throw InputError(fmt::format("{}: the config is empty; it needs at least `data` and `target`",
                                  config_file.string()));
-  rd.check_map(root, "",
-               {"data", "target", "differencing", "inputs", "events", "noise", "search",
-                "backtest", "fit", "forecast", "outliers", "revalidate", "output"});
+  const std::vector<std::string> sections = {
+      "data",     "target", "differencing", "inputs",   "events",     "noise", "search",
+      "backtest", "fit",    "forecast",     "outliers", "revalidate", "output"};
+  if (!problems || !root.IsMap()) {
+    rd.check_map(root, "", sections);
+  } else {
+    for (const auto& kv : root) {  // every unknown top-level key, not only the first
+      YAML::Node one(YAML::NodeType::Map);
+      one[kv.first] = kv.second;
+      part([&] { rd.check_map(one, "", sections); });
+    }
+  }
 
   RunConfig cfg;
   cfg.config_file = config_file;
   cfg.text = std::string(yaml_text);
   const fs::path base = config_file.parent_path();
+  bool data_ok = true;
   for (const char* key : {"data", "target"})
-    if (!root[key]) rd.fail(root, "", fmt::format("missing section `{}`", key));
+    part([&] {
+      if (!root[key]) {
+        data_ok = false;
+        rd.fail(root, "", fmt::format("missing section `{}`", key));
+      }
+    });
+  const size_t before = problems ? problems->size() : 0;
+  if (root["data"]) part([&] { read_data(rd, root["data"], base, cfg.data); });
+  if (root["target"]) part([&] { read_target(rd, root["target"], cfg.target); });
+  if (problems && problems->size() > before) data_ok = false;
+  if (const auto n = root["differencing"])
+    part([&] { read_differencing(rd, n, cfg.differencing); });
+  if (data_ok && !cfg.data.series_key.empty())
+    part([&] {
+      if (cfg.target.columns.size() != 1)
+        rd.fail(root["target"], "target.columns",
+                "with `data.series_key` (long format) the target is one column: give "
+                "`target.column`; each key value of the data is a series");
+      if (cfg.target.columns.front() == cfg.data.series_key)
+        rd.fail(root["data"]["series_key"], "data.series_key",
+                fmt::format("'{}' is also the target column", cfg.data.series_key));
+    });
 
-  read_data(rd, root["data"], base, cfg.data);
-  read_target(rd, root["target"], cfg.target);
-  if (const auto n = root["differencing"]) read_differencing(rd, n, cfg.differencing);
-  if (!cfg.data.series_key.empty()) {
-    if (cfg.target.columns.size() != 1)
-      rd.fail(root["target"], "target.columns",
-              "with `data.series_key` (long format) the target is one column: give "
-              "`target.column`; each key value of the data is a series");
-    if (cfg.target.columns.front() == cfg.data.series_key)
-      rd.fail(root["data"]["series_key"], "data.series_key",
-              fmt::format("'{}' is also the target column", cfg.data.series_key));
-  }
+  if (const auto n = root["inputs"]; n && !n.IsNull())
+    part([&] {
+      if (!n.IsSequence())
+        rd.fail(n, "inputs",
+                fmt::format("expected a list of inputs (each `- column: ...` or "
+                            "`- event: ...`), got {}",
+                            Reader::describe(n)));
+      std::set<std::string> names;
+      for (size_t i = 0; i < n.size(); ++i)
+        part([&] {
+          const auto path = fmt::format("inputs[{}]", i);
+          InputConfig in;
+          read_input(rd, n[i], path, in);
+          if (!names.insert(in.name).second)
+            rd.fail(n[i], path, fmt::format("input '{}' is listed twice", in.name));
+          if (!in.is_event && in.name == cfg.data.series_key)
+            rd.fail(n[i], path + ".column",
+                    fmt::format("'{}' is data.series_key, which names the series; it is not a "
+                                "number to model",
+                                in.name));
+          for (const auto& t : cfg.target.columns)
+            if (!in.is_event && t == in.name)
+              rd.fail(n[i], path + ".column",
+                      fmt::format("'{}' is the target; a series cannot explain itself", in.name));
+          cfg.inputs.push_back(std::move(in));
+        });
+    });
 
-  if (const auto n = root["inputs"]; n && !n.IsNull()) {
-    if (!n.IsSequence())
-      rd.fail(n, "inputs",
-              fmt::format("expected a list of inputs (each `- column: ...` or "
-                          "`- event: ...`), got {}",
-                          Reader::describe(n)));
-    std::set<std::string> names;
-    for (size_t i = 0; i < n.size(); ++i) {
-      const auto path = fmt::format("inputs[{}]", i);
-      InputConfig in;
-      read_input(rd, n[i], path, in);
-      if (!names.insert(in.name).second)
-        rd.fail(n[i], path, fmt::format("input '{}' is listed twice", in.name));
-      if (!in.is_event && in.name == cfg.data.series_key)
-        rd.fail(n[i], path + ".column",
-                fmt::format("'{}' is data.series_key, which names the series; it is not a "
-                            "number to model",
-                            in.name));
-      for (const auto& t : cfg.target.columns)
-        if (!in.is_event && t == in.name)
-          rd.fail(n[i], path + ".column",
-                  fmt::format("'{}' is the target; a series cannot explain itself", in.name));
-      cfg.inputs.push_back(std::move(in));
-    }
-  }
-
-  if (const auto n = root["events"]) read_event_file(rd, n, base, cfg.inputs);
+  if (const auto n = root["events"]) part([&] { read_event_file(rd, n, base, cfg.inputs); });
   cfg.noise.period = cfg.differencing.period;  // default, overridden by noise.period
-  if (const auto n = root["noise"]) read_noise(rd, n, cfg.noise);
+  if (const auto n = root["noise"]) part([&] { read_noise(rd, n, cfg.noise); });
   // Seasonal terms without any period: the period comes from the data's frequency.
   cfg.differencing_period_from_data = cfg.differencing.seasonal > 0 && cfg.differencing.period < 2;
   cfg.noise_period_from_data =
       (cfg.noise.seasonal_ar.max > 0 || cfg.noise.seasonal_ma.max > 0) && cfg.noise.period < 2;
-  if (const auto n = root["search"]) read_search(rd, n, cfg.search);
-  if (const auto n = root["backtest"]) read_backtest(rd, n, cfg.backtest);
-  if (const auto n = root["fit"]) read_fit(rd, n, cfg.fit);
-  if (const auto n = root["forecast"]) read_forecast(rd, n, cfg.forecast);
-  if (const auto n = root["outliers"]) read_outliers(rd, n, cfg.outliers);
-  if (const auto n = root["revalidate"]) {
-    rd.check_map(n, "revalidate", {"min_new_rows"});
-    if (const auto m = n["min_new_rows"])
-      cfg.revalidate.min_new_rows = rd.get_int(m, "revalidate.min_new_rows", 1, 1000000);
-  }
-  if (const auto n = root["output"]) {
-    rd.check_map(n, "output", {"dir"});
-    if (n["dir"]) cfg.output.dir = rd.get_string(n["dir"], "output.dir");
-  }
+  if (const auto n = root["search"]) part([&] { read_search(rd, n, cfg.search); });
+  if (const auto n = root["backtest"]) part([&] { read_backtest(rd, n, cfg.backtest); });
+  if (const auto n = root["fit"]) part([&] { read_fit(rd, n, cfg.fit); });
+  if (const auto n = root["forecast"]) part([&] { read_forecast(rd, n, cfg.forecast); });
+  if (const auto n = root["outliers"]) part([&] { read_outliers(rd, n, cfg.outliers); });
+  if (const auto n = root["revalidate"])
+    part([&] {
+      rd.check_map(n, "revalidate", {"min_new_rows"});
+      if (const auto m = n["min_new_rows"])
+        cfg.revalidate.min_new_rows = rd.get_int(m, "revalidate.min_new_rows", 1, 1000000);
+    });
+  if (const auto n = root["output"])
+    part([&] {
+      rd.check_map(n, "output", {"dir"});
+      if (n["dir"]) cfg.output.dir = rd.get_string(n["dir"], "output.dir");
+    });
   cfg.output.dir = resolve(base, cfg.output.dir.string());
   return cfg;
 }
 
-RunConfig load_config(const fs::path& config_file) {
+RunConfig load_config(const fs::path& config_file, std::vector<InputError>* problems) {
   std::error_code ec;
   if (!fs::exists(config_file, ec))
     throw InputError(
@@ -590,7 +623,7 @@ RunConfig load_config(const fs::path& config_file) {
         fmt::format("cannot read config file '{}'; check its permissions", config_file.string()));
   std::ostringstream buffer;
   buffer << in.rdbuf();
-  return parse_config(buffer.str(), config_file);
+  return parse_config(buffer.str(), config_file, problems);
 }
 
 long long saturating_product(long long total, long long k) {

@@ -3,8 +3,10 @@
 // InputError of the form "<config file>:<line>: <key path>: <what is wrong and what to do>".
 #include <filesystem>
 #include <string_view>
+#include <vector>
 
 #include "core/config.h"
+#include "core/error.h"
 
 namespace lagsieve {
 
@@ -24,11 +26,16 @@ inline constexpr int kMaxThreads = 1024;
 inline constexpr int kMaxHorizon = 10000;
 
 // Reads and validates the file; paths inside resolve relative to its folder.
-RunConfig load_config(const std::filesystem::path& config_file);
+// With `problems`: every section is read even after one fails, and each section's first problem
+// is appended there instead of thrown (`validate --json`); the sections that failed keep their
+// defaults. Problems that stop the reading (no such file, YAML syntax) are still thrown.
+RunConfig load_config(const std::filesystem::path& config_file,
+                      std::vector<InputError>* problems = nullptr);
 
 // Parses YAML text as if it were the content of `config_file` (used in messages and to resolve
 // relative paths; the file itself is not read).
-RunConfig parse_config(std::string_view yaml_text, const std::filesystem::path& config_file);
+RunConfig parse_config(std::string_view yaml_text, const std::filesystem::path& config_file,
+                       std::vector<InputError>* problems = nullptr);
 
 // Number of candidate models the config spans before any narrowing: the product over inputs of
 // (|b| x |s| x |r| (+1 when optional)) times |p| x |q| x |P| x |Q| times 2 when the constant is

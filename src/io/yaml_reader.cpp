@@ -29,8 +29,9 @@ std::string key_path(const std::string& path, const std::string& key) {
 void YamlReader::fail(const YAML::Node& node, const std::string& path,
                       const std::string& what) const {
   const int line = node.Mark().is_null() ? 0 : node.Mark().line + 1;
-  if (path.empty()) throw InputError(fmt::format("{}:{}: {}", source_, line, what));
-  throw InputError(fmt::format("{}:{}: {}: {}", source_, line, path, what));
+  if (path.empty())
+    throw InputError(fmt::format("{}:{}: {}", source_, line, what), source_, line, "");
+  throw InputError(fmt::format("{}:{}: {}: {}", source_, line, path, what), source_, line, path);
 }
 
 std::string YamlReader::describe(const YAML::Node& node) {
