@@ -15,6 +15,12 @@ with a fixed seed.
 instead of 32. --baseline runs another build on the same panels, side by side: series per second
 and per CPU-second, peak memory and the run folder, with the ratios of this build to the
 baseline. --memory N ... adds peak memory at those panel sizes (one run each, no backtest).
+
+statsmodels SARIMAX on a sample of the same candidates (--sarimax K, default 20; 0 = off): K
+candidate fits spread over a few series of the large panel and over the grid, each the nearest
+model SARIMAX can express (as benchmarks/compare_python.py: a rational transfer function, r = 1,
+becomes six exog lags b..b+5; r = 0 is exact, lags b..b+s), CPU time (process_time, one BLAS
+thread) per fit scaled to the large run's number of candidates, against that run's CPU time.
 """
 import argparse
 import json
@@ -22,9 +28,13 @@ import os
 import subprocess
 import sys
 import tempfile
+import time
 from pathlib import Path
 
-import numpy as np
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_var, "1")
+
+import numpy as np  # noqa: E402
 
 
 def panel(path, count, rows, seed=7):
@@ -104,6 +114,65 @@ def run(binary, folder, threads, backtest, out, grid="full"):
             "rss_mb": int(rss) / 1024, "folder_mb": size / 1e6, "files": files}
 
 
+def grid_candidates(grid):
+    """Every candidate of GRIDS[grid] as (x1 (b, s, r), x2 b or None, (p, q))."""
+    if grid == "full":
+        return [((b, s, r), b2, (p, q)) for b in range(4) for s in range(2) for r in range(2)
+                for b2 in range(2) for p in (1, 2) for q in (0, 1)]
+    return [((b, 0, 0), b2, (1, 0)) for b in range(4) for b2 in (0, 1)]
+
+
+def sarimax_sample(csv, count, grid, sample, seed=11):
+    """CPU seconds per SARIMAX fit over `sample` candidates on a few series of the panel file."""
+    import warnings
+    try:
+        import pandas as pd
+        from statsmodels.tsa.statespace.sarimax import SARIMAX
+    except ImportError as e:
+        return None, "skipped (%s)" % e
+    frame = pd.read_csv(csv)
+    rng = np.random.default_rng(seed)
+    cands = grid_candidates(grid)
+    keys = ["z%04d" % i for i in sorted(rng.choice(count, size=min(4, count), replace=False))]
+    picks = rng.choice(len(cands), size=sample, replace=len(cands) < sample)
+    cpu, fits, failed = 0.0, 0, 0
+    for k, c in enumerate(picks):
+        s = frame[frame["zone"] == keys[k % len(keys)]]
+        (b, num, r), b2, (p, q) = cands[c]
+        lags = {}
+        for j in (range(b, b + 6) if r else range(b, b + num + 1)):
+            lags["x1_l%d" % j] = s["x1"].shift(j)
+        if b2 is not None:
+            lags["x2_l%d" % b2] = s["x2"].shift(b2)
+        exog = pd.DataFrame(lags).iloc[9:].to_numpy()
+        y = s["y"].iloc[9:].to_numpy()
+        t0 = time.process_time()
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            try:
+                SARIMAX(y, exog=exog, order=(p, 0, q), trend="c").fit(disp=False)
+            except Exception:  # noqa: BLE001 - a failed fit still cost its time
+                failed += 1
+        cpu += time.process_time() - t0
+        fits += 1
+    return cpu / fits, "%d fits on %d series, %d failed" % (fits, len(keys), failed)
+
+
+def print_sarimax(csv, count, grid, sample, run_cpu, threads):
+    if sample <= 0:
+        return
+    per_fit, note = sarimax_sample(csv, count, grid, sample)
+    if per_fit is None:
+        print("statsmodels SARIMAX: " + note)
+        return
+    total = count * GRIDS[grid][2]
+    scaled = per_fit * total
+    print(f"statsmodels SARIMAX, a sample of the same candidates ({note}): "
+          f"{1e3 * per_fit:.1f} CPU-ms per fit; scaled to the run's {total} candidates "
+          f"{scaled:.1f} CPU-s against lagsieve's {run_cpu:.1f} CPU-s (search, no backtest, "
+          f"{threads} threads): ratio statsmodels / lagsieve {scaled / run_cpu:.1f}")
+
+
 def side_by_side(title, count, new, old):
     print(title)
     rows = [("exit code", "code", "{:.0f}", None),
@@ -132,6 +201,8 @@ def main():
     ap.add_argument("--memory", type=int, nargs="*", default=[],
                     help="panel sizes at which to measure peak memory (no backtest)")
     ap.add_argument("--threads", type=int, default=2)
+    ap.add_argument("--sarimax", type=int, default=20,
+                    help="statsmodels SARIMAX fits of a sample of the candidates (0: off)")
     args = ap.parse_args()
     binary = os.path.abspath(args.binary)
     baseline = os.path.abspath(args.baseline) if args.baseline else None
@@ -146,6 +217,9 @@ def main():
                 old = run(baseline, folder, args.threads, False, "old", args.grid)
                 side_by_side(f"{count} series x {args.rows} rows, {per_series} candidates per "
                              f"series, {args.threads} threads, no backtest", count, new, old)
+                if count == large:  # the panel file is the large one now
+                    print_sarimax(folder / "panel.csv", count, args.grid, args.sarimax,
+                                  new["cpu"], args.threads)
             for count in args.memory:
                 panel(folder / "panel.csv", count, args.rows)
                 new = run(binary, folder, args.threads, False, "new", args.grid)
@@ -171,6 +245,7 @@ def main():
               f"{large} / {small} series: {rl['rss_mb'] / r2['rss_mb']:.2f}; "
               f"csv {os.path.getsize(folder / 'panel.csv') / 1e6:.1f} MB; folder "
               f"{rl['folder_mb']:.1f} MB in {rl['files']} files")
+        print_sarimax(folder / "panel.csv", large, args.grid, args.sarimax, rl["cpu"], 2)
         for count in args.memory:
             panel(folder / "panel.csv", count, args.rows)
             r = run(binary, folder, 2, False, "mem", args.grid)
