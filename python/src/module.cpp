@@ -250,7 +250,8 @@ std::string search_summary(const Search& s) {
                  {"chosen", r.has_chosen() ? r.rows.front().key : ""},
                  {"sorted_by", r.sorted_by},
                  {"chosen_reason", r.chosen_reason},
-                 {"warnings", r.warnings},
+                 {"warnings", warning_texts(r.warnings)},
+                 {"warning_codes", warnings_json(r.warnings)},
                  {"backtest", s.computed.backtests[k].has_value()}});
   }
   return j.dump();

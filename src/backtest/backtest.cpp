@@ -278,9 +278,13 @@ void score_on_common_origins(BacktestResult& result, const BacktestOptions& o,
   }
   for (size_t i = 0; i < result.models.size(); ++i)
     if (from[i].empty())
-      result.warnings.push_back(fmt::format(
-          "backtest: {} forecast from none of the {} origins and is left out of the comparison: {}",
-          result.models[i].name, result.origins.size(), result.models[i].note));
+      result.warnings.push_back(
+          {"backtest_model_left_out",
+           fmt::format("backtest: {} forecast from none of the {} origins and is left out of the "
+                       "comparison: {}",
+                       result.models[i].name, result.origins.size(), result.models[i].note),
+           {{"origins", static_cast<double>(result.origins.size())}},
+           {{"model", result.models[i].name}}});
   if (dropped.empty()) return;
   const std::set<int> keep(common.begin(), common.end());
   for (auto& m : result.models) {
@@ -315,15 +319,23 @@ void score_on_common_origins(BacktestResult& result, const BacktestOptions& o,
       "the same {} origins: {}",
       dropped.size(), result.origins.size(), origin_list(dropped, o.step), common.size(),
       causes_text);
+  Warning structured{"backtest_origins_dropped",
+                     "",
+                     {{"dropped", static_cast<double>(dropped.size())},
+                      {"origins", static_cast<double>(result.origins.size())},
+                      {"common", static_cast<double>(common.size())}},
+                     {}};
   // Leading origins dropped (an event after the first origin, typically): where to start instead.
   if (!common.empty() && dropped.front() == result.origins.front()) {
     const int first = common.front();
+    structured.numbers.emplace_back("suggested_first_origin", first);
     warning += fmt::format(
         ". The first origin from which every model forecasts is {} (window rows 1..{}{}); set "
         "backtest.first_origin: {} to start there",
         first, first, data.time.empty() ? "" : ", up to " + data.time[first - 1], first);
   }
-  result.warnings.push_back(warning);
+  structured.message = std::move(warning);
+  result.warnings.push_back(std::move(structured));
   result.dropped_origins = dropped;
   std::vector<std::string> times;
   for (size_t k = 0; k < result.origins.size(); ++k)

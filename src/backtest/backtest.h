@@ -11,6 +11,7 @@
 
 #include "core/config.h"
 #include "core/series.h"
+#include "core/warning.h"
 #include "evaluation/diebold_mariano.h"
 #include "evaluation/metrics.h"
 #include "forecast/fitted_model.h"
@@ -114,7 +115,7 @@ struct BacktestResult {
   std::vector<int> origins;
   std::vector<std::string> origin_times;  // time stamp of the origin's last row (1..origin)
   std::vector<int> dropped_origins;
-  std::vector<std::string> warnings;
+  std::vector<Warning> warnings;
   std::vector<std::string> row_times;  // the data's time stamps (backtest.csv `time` column)
   std::vector<ModelBacktest> models;  // candidate order
   int chosen = -1;                    // best score among non-benchmark models

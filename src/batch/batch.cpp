@@ -76,7 +76,7 @@ std::vector<SeriesSummary> check_panel(const RunConfig& config,
       s.status = SeriesStatus::ok;
       s.rows = data.rows();
       if (!data.time.empty()) s.first_time = data.time.front(), s.last_time = data.time.back();
-      s.warnings = describe_missing(data);
+      s.warnings = missing_warnings(data);
       out.push_back(std::move(s));
     } catch (const InputError& e) {
       out.push_back(bad_series_summary(part.key, "", e.what()));

@@ -261,7 +261,7 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
       model = chosen_model(fitted, config, r, bt);
       if (folder || options.tables) {
         forecast = chosen_forecast(*model, fitted, config, &forecast_note);
-        if (!forecast) s.warnings.push_back(forecast_note);
+        if (!forecast) s.warnings.push_back({"no_forecast", forecast_note, {}, {}});
       }
       if (!options.model_file.empty()) save_model(options.model_file, *model);
     }
@@ -359,7 +359,8 @@ nlohmann::json summary_json(const std::vector<SeriesSummary>& rows) {
                     {"backtest_score", number_or_null(s.backtest_score)},
                     {"benchmark_score", number_or_null(s.benchmark_score)},
                     {"benchmark_p", number_or_null(s.benchmark_p)},
-                    {"warnings", s.warnings},
+                    {"warnings", warning_texts(s.warnings)},
+                    {"warning_codes", warnings_json(s.warnings)},
                     {"seconds", s.seconds}});
   }
   return {{"series_total", rows.size()}, {"by_status", counts}, {"series", list}};

@@ -84,7 +84,7 @@ struct SeriesSummary {
   double backtest_score = kNaN;   // the chosen model's backtest score (config.backtest.score)
   double benchmark_score = kNaN;  // the best model without inputs, same origins
   double benchmark_p = kNaN;      // Diebold-Mariano p (two-sided, horizon 1), chosen model vs it
-  std::vector<std::string> warnings;
+  std::vector<Warning> warnings;
   double seconds = 0.0;  // timing: differs between runs
 
   bool beats_benchmark(double level = 0.05) const {

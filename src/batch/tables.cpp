@@ -101,7 +101,9 @@ SeriesSummary summary_from_json(const nlohmann::json& j) {
   s.backtest_score = number(j, "backtest_score");
   s.benchmark_score = number(j, "benchmark_score");
   s.benchmark_p = number(j, "benchmark_p");
-  if (j.contains("warnings")) s.warnings = j["warnings"].get<std::vector<std::string>>();
+  s.warnings =
+      warnings_from_json(j.contains("warning_codes") ? j["warning_codes"] : nlohmann::json(),
+                         j.contains("warnings") ? j["warnings"] : nlohmann::json());
   s.seconds = number(j, "seconds");
   return s;
 }

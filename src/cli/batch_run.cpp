@@ -9,6 +9,8 @@
 #include "batch/panel_report.h"
 #include "batch/progress.h"
 #include "batch/shards.h"
+#include "batch/tables.h"
+#include "core/names.h"
 #include "forecast/fitted_model.h"
 #include "io/atomic_file.h"
 #include "io/csv.h"
@@ -27,6 +29,67 @@ void print_bad_series(const std::vector<SeriesSummary>& rows, size_t limit) {
       fmt::print(stderr, "lagsieve: series '{}' {}: {}\n", s.series, to_string(s.status), s.reason);
   }
   if (bad > shown) fmt::print(stderr, "lagsieve: ... and {} more (see summary.csv)\n", bad - shown);
+}
+
+nlohmann::json existing_path(const std::filesystem::path& p) {
+  std::error_code ec;
+  return std::filesystem::exists(p, ec) ? nlohmann::json(std::filesystem::absolute(p).string())
+                                        : nlohmann::json(nullptr);
+}
+
+// `search --json` of a panel: counts by status, the series that are not ok with their reasons
+// (every one: the caller decides what to show), and where the run's files are.
+nlohmann::json panel_search_json(const SearchArgs& args, const RunConfig& config,
+                                 const BatchResult& result, size_t total,
+                                 const std::optional<ShardSpec>& shard,
+                                 const std::filesystem::path& out) {
+  nlohmann::json by_status = nlohmann::json::object();
+  for (const auto status : {SeriesStatus::ok, SeriesStatus::no_usable_candidate,
+                            SeriesStatus::bad_data, SeriesStatus::failed})
+    by_status[std::string(to_string(status))] = result.count(status);
+  nlohmann::json not_ok = nlohmann::json::array();
+  long long candidates = 0, fitted = 0, resumed = 0, usable = 0, models = 0, warned = 0;
+  for (const auto& s : result.series) {
+    candidates += s.candidates;
+    fitted += s.fitted;
+    resumed += s.resumed;
+    usable += s.usable;
+    models += s.model.empty() ? 0 : 1;
+    warned += s.warnings.empty() ? 0 : 1;
+    if (s.status == SeriesStatus::ok) continue;
+    not_ok.push_back({{"series", s.series},
+                      {"status", std::string(to_string(s.status))},
+                      {"reason", s.reason},
+                      {"warning_codes", warnings_json(s.warnings)}});
+  }
+  nlohmann::json shard_json_value = nullptr;
+  if (shard) shard_json_value = {{"k", shard->index}, {"n", shard->count}};
+  return {{"command", "search"},
+          {"config", args.config},
+          {"panel", true},
+          {"ran",
+           {{"series", total},
+            {"strategy", to_string(config.search.strategy)},
+            {"candidates", candidates},
+            {"fitted", fitted},
+            {"from_journal", resumed},
+            {"not_usable", candidates - usable},
+            {"backtest", config.backtest.enabled && !args.no_backtest},
+            {"resume", args.resume},
+            {"shard", shard_json_value}}},
+          {"by_status", by_status},
+          {"series_with_warnings", warned},
+          {"not_ok", not_ok},
+          {"files",
+           {{"run_folder", existing_path(out)},
+            {"summary_csv", existing_path(out / kSummaryCsv)},
+            {"summary_json", existing_path(out / kSummaryJson)},
+            {"ranking_csv", existing_path(out / run_files::kRankingCsv)},
+            {"forecasts_csv", existing_path(out / kForecastsCsv)},
+            {"models_folder", existing_path(out / kModelsFolder)},
+            {"model_files", models},
+            {"report", existing_path(out / run_files::kReport)},
+            {"shard", existing_path(out / kShardFile)}}}};
 }
 
 }  // namespace
@@ -66,7 +129,7 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   options.pages = pages;
   options.sample = sample;
   std::optional<ProgressPrinter> printer;
-  if (!args.quiet) {
+  if (!args.quiet) {  // on stderr, also with --json
     printer.emplace(ProgressOptions{static_cast<bool>(::isatty(STDERR_FILENO))},
                     [](const std::string& text) {
                       std::fputs(text.c_str(), stderr);
@@ -87,6 +150,14 @@ int run_batch_search_command(const SearchArgs& args, const RunConfig& config) {
   dir.commit(ok == static_cast<int>(total) ? "complete"
              : ok > 0                      ? "some_series_failed"
                                            : "no_usable_candidate");
+  const int code = ok == static_cast<int>(total) ? kExitOk
+                   : ok > 0                      ? kExitSomeSeriesFailed
+                                                 : kExitNoModel;
+  if (args.json) {
+    auto j = panel_search_json(args, config, result, total, shard, out);
+    print_bad_series(result.series, 20);  // on stderr, for people
+    return print_json_result(j, code);
+  }
   fmt::print("{} series: {} ok, {} no usable candidate, {} bad data, {} failed\n", total, ok,
              result.count(SeriesStatus::no_usable_candidate), result.count(SeriesStatus::bad_data),
              result.count(SeriesStatus::failed));
@@ -130,7 +201,7 @@ int validate_panel_command(const RunConfig& config, const std::vector<std::strin
     }
     fmt::print("series     {} ({} rows{})\n", s.series, s.rows,
                s.first_time.empty() ? "" : fmt::format(", {} .. {}", s.first_time, s.last_time));
-    for (const auto& w : s.warnings) fmt::print("missing    {}: {}\n", s.series, w);
+    for (const auto& w : s.warnings) fmt::print("missing    {}: {}\n", s.series, w.message);
   }
   fmt::print("output     {}\n", config.output.dir.string());
   if (bad > 0) {

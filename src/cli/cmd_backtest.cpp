@@ -33,7 +33,69 @@ struct BacktestArgs {
   std::optional<std::string> out;  // absent: <output.dir>/backtest
   std::string series;
   std::optional<int> threads;
+  bool json = false;
 };
+
+nlohmann::json number_or_null(double x) {
+  return std::isfinite(x) ? nlohmann::json(x) : nlohmann::json(nullptr);
+}
+
+nlohmann::json backtest_json(const BacktestArgs& args, const SeriesData& data,
+                             const BacktestOptions& options, const BacktestResult& result,
+                             const std::filesystem::path& out) {
+  nlohmann::json models = nlohmann::json::array();
+  for (size_t i = 0; i < result.models.size(); ++i) {
+    const auto& m = result.models[i];
+    const bool none = m.production.records.empty();
+    models.push_back({{"name", m.name},
+                      {"status", none ? "no_forecast" : "ok"},
+                      {"note", m.note},
+                      {"chosen", static_cast<int>(i) == result.chosen},
+                      {"score", number_or_null(m.score)},
+                      {"mae", number_or_null(m.production_accuracy.overall.mae)},
+                      {"rmse", number_or_null(m.production_accuracy.overall.rmse)},
+                      {"oracle_mae", number_or_null(m.oracle_accuracy.overall.mae)},
+                      {"failed_origins", m.failed_origins}});
+  }
+  nlohmann::json input_value = nlohmann::json::array();
+  for (const auto& v : result.input_value)
+    input_value.push_back({{"input", v.input},
+                           {"score_with", number_or_null(v.score_with)},
+                           {"score_without", number_or_null(v.score_without)},
+                           {"p_value", number_or_null(v.test.p_value)}});
+  auto file = [&](const char* name) {
+    std::error_code ec;
+    const auto p = out / name;
+    return std::filesystem::exists(p, ec) ? nlohmann::json(std::filesystem::absolute(p).string())
+                                          : nlohmann::json(nullptr);
+  };
+  return {{"command", "backtest"},
+          {"config", args.config},
+          {"series", data.target_name},
+          {"ran",
+           {{"models", result.models.size()},
+            {"model_files", args.models.size()},
+            {"origins", result.origins.size()},
+            {"dropped_origins", result.dropped_origins.size()},
+            {"first_origin", options.first_origin},
+            {"step", options.step},
+            {"horizon", options.horizon},
+            {"window", to_string(options.window)},
+            {"refit", options.refit}}},
+          {"models", models},
+          {"chosen", result.chosen >= 0 ? nlohmann::json(result.models[result.chosen].name)
+                                        : nlohmann::json(nullptr)},
+          {"input_value", input_value},
+          {"warnings", warning_texts(result.warnings)},
+          {"warning_codes", warnings_json(result.warnings)},
+          {"files",
+           {{"run_folder", std::filesystem::absolute(out).string()},
+            {"backtest_csv", file(run_files::kBacktest)},
+            {"accuracy_csv", file(run_files::kAccuracy)},
+            {"comparisons_csv", file(run_files::kComparisons)},
+            {"input_value_csv", file(run_files::kInputValue)},
+            {"report", file(run_files::kReport)}}}};
+}
 
 int run_backtest_command(const BacktestArgs& args) {
   const LoadedRun run = load_run_one(args.config, args.series);
@@ -83,6 +145,10 @@ int run_backtest_command(const BacktestArgs& args) {
   report_options.folder_name = dir.out().filename().string();
   write_report(stage, report_options);
   dir.commit();
+  if (args.json) {
+    auto j = backtest_json(args, data, options, result, out);
+    return print_json_result(j, kExitOk);
+  }
 
   fmt::print("{} · {} origins from row {} by {}, horizons 1..{}, {} window, refit {}\n", data.target_name,
              result.origins.size(), options.first_origin, options.step, options.horizon,
@@ -115,7 +181,12 @@ void register_backtest(CLI::App& app) {
       "Output folder, a run folder of its own (default: <output.dir of the config>/backtest)");
   cmd->add_option("--series", args->series, "Target column (default: the first)");
   cmd->add_option("--threads", args->threads, "Worker threads (0 = all cores)");
-  cmd->callback([args] { finish(run_command([&] { return run_backtest_command(*args); })); });
+  cmd->add_flag("--json", args->json,
+                "Print one JSON object (models, scores, warnings, files) instead of the table");
+  cmd->callback([args] {
+    finish(run_command_json(args->json, "backtest", args->config,
+                            [&] { return run_backtest_command(*args); }));
+  });
 }
 
 }  // namespace lagsieve::cli

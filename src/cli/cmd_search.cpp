@@ -35,7 +35,12 @@ void register_search(CLI::App& app) {
                   "Panels: further series, spread over the keys, given a page (default 5)")
       ->check(CLI::Range(0, 100000));
   cmd->add_flag("--no-backtest", args->no_backtest, "Skip the backtest even if the config has one");
-  cmd->callback([args] { finish(run_command([&] { return run_search_command(*args); })); });
+  cmd->add_flag("--json", args->json,
+                "Print one JSON object (what ran, statuses, files) instead of the summary");
+  cmd->callback([args] {
+    finish(run_command_json(args->json, "search", args->config,
+                            [&] { return run_search_command(*args); }));
+  });
 }
 
 }  // namespace lagsieve::cli

@@ -5,6 +5,8 @@
 #include <exception>
 
 #include <algorithm>
+#include <cstdio>
+#include <regex>
 
 #include "core/error.h"
 #include "core/names.h"
@@ -28,6 +30,78 @@ int run_command(const std::function<int()>& body) {
     fmt::print(stderr, "lagsieve: internal error: {}\n", e.what());
     return kExitInternal;
   }
+}
+
+std::string exit_meaning(int code) {
+  switch (code) {
+    case kExitOk:
+      return "ok";
+    case kExitBadInput:
+      return "bad input (config, data, model file or options)";
+    case kExitInternal:
+      return "internal or numerical error";
+    case kExitNoModel:
+      return "no usable candidate: no model file written";
+    case kExitSomeSeriesFailed:
+      return "some series failed, the others finished";
+    case kExitRefitAdvised:
+      return "revalidate verdict: refit";
+    case kExitReplaceAdvised:
+      return "revalidate verdict: replace";
+    default:
+      return "unknown";
+  }
+}
+
+nlohmann::json input_error_json(const InputError& e) {
+  nlohmann::json j = {{"kind", "bad_input"}, {"message", e.what()}};
+  std::string file = e.file(), key = e.key();
+  int line = e.line();
+  if (file.empty()) {
+    // "path:12: ..." (CSV and YAML syntax errors): the spot from the message.
+    static const std::regex spot(R"(^([^:\s][^:]*):(\d+): )");
+    std::cmatch m;
+    if (std::regex_search(e.what(), m, spot)) {
+      file = m[1].str();
+      line = std::stoi(m[2].str());
+    }
+  }
+  j["file"] = file.empty() ? nlohmann::json(nullptr) : nlohmann::json(file);
+  j["line"] = line > 0 ? nlohmann::json(line) : nlohmann::json(nullptr);
+  j["key"] = key.empty() ? nlohmann::json(nullptr) : nlohmann::json(key);
+  return j;
+}
+
+int print_json_result(nlohmann::json& j, int code) {
+  j["exit_code"] = code;
+  j["exit_meaning"] = exit_meaning(code);
+  fmt::print("{}\n", j.dump(2));
+  std::fflush(stdout);
+  return code;
+}
+
+int run_command_json(bool json, const std::string& command, const std::string& config,
+                     const std::function<int()>& body) {
+  if (!json) return run_command(body);
+  nlohmann::json error;
+  int code = kExitOk;
+  try {
+    return body();
+  } catch (const InputError& e) {
+    fmt::print(stderr, "lagsieve: error: {}\n", e.what());
+    error = input_error_json(e);
+    code = kExitBadInput;
+  } catch (const NumericalError& e) {
+    fmt::print(stderr, "lagsieve: numerical error: {}\n", e.what());
+    error = {{"kind", "numerical"}, {"message", e.what()}};
+    code = kExitInternal;
+  } catch (const std::exception& e) {
+    fmt::print(stderr, "lagsieve: internal error: {}\n", e.what());
+    error = {{"kind", "internal"}, {"message", e.what()}};
+    code = kExitInternal;
+  }
+  nlohmann::json j = {{"command", command}, {"config", config}, {"error", error}};
+  return print_json_result(j, code);
 }
 
 void finish(int code) { throw CLI::RuntimeError(code); }

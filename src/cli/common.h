@@ -6,7 +6,10 @@
 #include <string>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
 #include "core/config.h"
+#include "core/error.h"
 #include "core/series.h"
 
 namespace lagsieve::cli {
@@ -23,6 +26,22 @@ inline constexpr int kExitReplaceAdvised = 11;   // `revalidate`: verdict replac
 // Runs a command body and maps exceptions to exit codes: InputError -> message on stderr
 // ("lagsieve: error: ...") and 2; NumericalError and anything else -> 3.
 int run_command(const std::function<int()>& body);
+
+// The README's one-line meaning of an exit code ("ok", "bad input", ...).
+std::string exit_meaning(int code);
+
+// The same for a command with --json: with `json`, an error is also one JSON object on stdout,
+// `{"command", "config", "error": {"kind", "message", "file", "line", "key"}, "exit_code",
+// "exit_meaning"}` (file/line/key where known), so a caller always has an object to parse.
+int run_command_json(bool json, const std::string& command, const std::string& config,
+                     const std::function<int()>& body);
+
+// {"kind": "bad_input", "message", "file", "line", "key"} of an InputError: the fields the YAML
+// reader sets, else read from a leading "file:line: " of the message (CSV errors).
+nlohmann::json input_error_json(const InputError& e);
+
+// Sets "exit_code" and "exit_meaning" and prints the object on stdout; returns `code`.
+int print_json_result(nlohmann::json& j, int code);
 
 // Throws the exit code out of a CLI11 callback so main() returns it.
 [[noreturn]] void finish(int code);

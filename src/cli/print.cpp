@@ -84,7 +84,7 @@ void print_fit(const FitResult& fit, const SeriesData& data) {
     for (const auto& r : fit.diagnostics.roots)
       fmt::print("  {:<20} {}\n", r.polynomial, num(r.min_modulus, 4));
   }
-  for (const auto& w : fit.diagnostics.warnings) fmt::print("\nwarning: {}\n", w);
+  for (const auto& w : fit.diagnostics.warnings) fmt::print("\nwarning: {}\n", w.message);
 }
 
 void print_outliers(const OutlierFit& detected) {

@@ -157,6 +157,80 @@ FittedModel chosen_model(const LoadedRun& run, const SearchComputation& c, size_
   return model;
 }
 
+namespace {
+
+// A path in the JSON: the file's path when it exists, else null.
+nlohmann::json existing(const std::filesystem::path& p) {
+  std::error_code ec;
+  return std::filesystem::exists(p, ec) ? nlohmann::json(std::filesystem::absolute(p).string())
+                                        : nlohmann::json(nullptr);
+}
+
+}  // namespace
+
+nlohmann::json search_json(const SearchArgs& args, const LoadedRun& run, const SearchComputation& c,
+                           const std::filesystem::path& out) {
+  const RunConfig& config = run.config;
+  const bool several = run.series.size() > 1;
+  nlohmann::json series = nlohmann::json::array();
+  nlohmann::json by_status = {{"ok", 0}, {"no_usable_candidate", 0}};
+  int candidates = 0, fitted = 0, resumed = 0, failed_total = 0;
+  for (size_t k = 0; k < c.results.size(); ++k) {
+    const auto& r = c.results[k];
+    int failed = 0;
+    for (const auto& row : r.rows) failed += row.rankable() ? 0 : 1;
+    candidates += static_cast<int>(r.rows.size());
+    fitted += r.fitted;
+    resumed += r.resumed;
+    failed_total += failed;
+    const std::string status = r.has_chosen() ? "ok" : "no_usable_candidate";
+    by_status[status] = by_status[status].get<int>() + 1;
+    auto file = [&](const char* name) {
+      return existing(out / run_files::per_series(name, r.series, several));
+    };
+    series.push_back(
+        {{"series", r.series},
+         {"status", status},
+         {"reason",
+          r.has_chosen() ? nlohmann::json(nullptr) : nlohmann::json(no_candidate_reason(r))},
+         {"chosen", r.has_chosen() ? nlohmann::json(r.rows.front().key) : nlohmann::json(nullptr)},
+         {"chosen_reason", r.chosen_reason},
+         {"candidates", r.rows.size()},
+         {"fitted", r.fitted},
+         {"from_journal", r.resumed},
+         {"not_usable", failed},
+         {"backtest", c.backtests[k].has_value()},
+         {"warnings", warning_texts(r.warnings)},
+         {"warning_codes", warnings_json(r.warnings)},
+         {"files",
+          {{"model", existing(out / run_files::model_file(r.series, several))},
+           {"fit", file(run_files::kFit)},
+           {"forecast", file(run_files::kForecast)},
+           {"screen", file(run_files::kScreen)},
+           {"backtest", file(run_files::kBacktest)},
+           {"accuracy", file(run_files::kAccuracy)}}}});
+  }
+  return {{"command", "search"},
+          {"config", args.config},
+          {"panel", false},
+          {"ran",
+           {{"series", c.results.size()},
+            {"strategy", to_string(config.search.strategy)},
+            {"candidates", candidates},
+            {"fitted", fitted},
+            {"from_journal", resumed},
+            {"not_usable", failed_total},
+            {"backtest", config.backtest.enabled && !args.no_backtest},
+            {"resume", args.resume}}},
+          {"by_status", by_status},
+          {"series", series},
+          {"files",
+           {{"run_folder", existing(out)},
+            {"ranking_csv", existing(out / run_files::kRankingCsv)},
+            {"ranking_json", existing(out / run_files::kRankingJson)},
+            {"report", existing(out / run_files::kReport)}}}};
+}
+
 int run_search_command(const SearchArgs& args) {
   {
     const RunConfig config = load_config(args.config);
@@ -187,6 +261,7 @@ int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
   const std::vector<std::string> without_model = write_search_files(stage, run, computed);
 
   for (const auto& r : results) {
+    if (args.json) break;  // the JSON object below says it all
     int failed = 0;
     for (const auto& row : r.rows) failed += row.rankable() ? 0 : 1;
     fmt::print(
@@ -218,13 +293,19 @@ int run_search_in_folder(const LoadedRun& run, const SearchArgs& args) {
     }
     if (r.outliers) print_search_outliers(*r.outliers);
     if (!r.chosen_reason.empty()) fmt::print("  chosen model: {}\n", r.chosen_reason);
-    for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w);
+    for (const auto& w : r.warnings) fmt::print("  warning: {}\n", w.message);
   }
   ReportOptions report_options;
   report_options.folder_name = dir.out().filename().string();
   write_report(stage, report_options);
   dir.commit(without_model.empty() ? "complete" : "no_usable_candidate");
   const auto report_path = out / run_files::kReport;
+  if (args.json) {
+    const int code = without_model.empty() ? kExitOk : kExitNoModel;
+    for (const auto& why : without_model) fmt::print(stderr, "lagsieve: error: {}\n", why);
+    auto j = search_json(args, run, computed, out);
+    return print_json_result(j, code);
+  }
   if (!without_model.empty()) {
     for (const auto& why : without_model)
       fmt::print(stderr,

@@ -20,6 +20,7 @@ struct SearchArgs {
   bool quiet = false;
   std::optional<int> threads;
   bool no_backtest = false;
+  bool json = false;  // --json: one JSON object on stdout instead of the readable summary
   std::vector<std::string> series;   // --series: run only these (keys, or target columns)
   std::optional<std::string> shard;  // --shard K/N (long-format panels)
   int pages_worst = 10;   // --pages-worst: series listed per "worst" table and given a page
@@ -30,6 +31,11 @@ struct SearchArgs {
 std::function<void(int, int)> progress_printer(bool quiet, const std::string& what);
 
 int run_search_command(const SearchArgs& args);
+
+struct SearchComputation;
+// The --json object of a search of one series or a few target columns (docs in README.md).
+nlohmann::json search_json(const SearchArgs& args, const LoadedRun& run, const SearchComputation& c,
+                           const std::filesystem::path& out);
 
 // The same on a run already loaded (the Python module loads its data from a DataFrame).
 int run_search_in_folder(const LoadedRun& run, const SearchArgs& args);

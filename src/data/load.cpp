@@ -228,27 +228,40 @@ double first_observed(const std::vector<double>& v) {
 
 }  // namespace
 
-std::vector<std::string> describe_missing(const SeriesData& data) {
-  std::vector<std::string> out;
+std::vector<Warning> missing_warnings(const SeriesData& data) {
+  std::vector<Warning> out;
   for (const auto& f : data.fills) {
     if (f.missing == 0) continue;
     const std::string what = f.is_target ? "target" : "input";
     if (f.interpolated == f.missing)
-      out.push_back(fmt::format("{} '{}': {} missing value{} filled by linear interpolation{}",
-                                what, f.column, f.missing, f.missing == 1 ? "" : "s",
-                                f.is_target ? " (never scored as observations)" : ""));
+      out.push_back({"missing_interpolated",
+                     fmt::format("{} '{}': {} missing value{} filled by linear interpolation{}",
+                                 what, f.column, f.missing, f.missing == 1 ? "" : "s",
+                                 f.is_target ? " (never scored as observations)" : ""),
+                     {{"missing", f.missing}},
+                     {{"column", f.column}, {"role", what}}});
     else
-      out.push_back(fmt::format(
-          "{} '{}': {} missing value{} left out of the likelihood (exact "
-          "likelihood of the {} observed values)",
-          what, f.column, f.missing, f.missing == 1 ? "" : "s", data.rows() - f.missing));
+      out.push_back({"missing_left_out",
+                     fmt::format("{} '{}': {} missing value{} left out of the likelihood (exact "
+                                 "likelihood of the {} observed values)",
+                                 what, f.column, f.missing, f.missing == 1 ? "" : "s",
+                                 data.rows() - f.missing),
+                     {{"missing", f.missing}, {"observed", data.rows() - f.missing}},
+                     {{"column", f.column}, {"role", what}}});
   }
   for (const auto& g : data.gaps)
-    out.push_back(fmt::format("{} missing period{} inserted from {} (row {}, 1-based)", g.count,
-                              g.count == 1 ? "" : "s", g.first_stamp, g.row + 1));
+    out.push_back({"periods_inserted",
+                   fmt::format("{} missing period{} inserted from {} (row {}, 1-based)", g.count,
+                               g.count == 1 ? "" : "s", g.first_stamp, g.row + 1),
+                   {{"count", g.count}, {"row", g.row + 1}},
+                   {{"first_time", g.first_stamp}}});
   for (const auto& n : data.time_notes)
-    if (n.find("daylight") != std::string::npos) out.push_back(n);
+    if (n.find("daylight") != std::string::npos) out.push_back({"daylight_saving", n, {}, {}});
   return out;
+}
+
+std::vector<std::string> describe_missing(const SeriesData& data) {
+  return warning_texts(missing_warnings(data));
 }
 
 void apply_seasonal_default(RunConfig& config, const SeriesData& data) {

@@ -6,6 +6,7 @@
 
 #include "core/config.h"
 #include "core/series.h"
+#include "core/warning.h"
 #include "data/time_index.h"
 #include "io/csv.h"
 
@@ -39,6 +40,9 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
 // (left out of the likelihood, or interpolated), then the inserted gaps and time notes; empty
 // when the data are complete. Every summary of the data (validate, fit, report) shows these.
 std::vector<std::string> describe_missing(const SeriesData& data);
+// The same as warnings with codes and numbers (missing_interpolated, missing_left_out,
+// periods_inserted, daylight_saving; docs/warnings.md).
+std::vector<Warning> missing_warnings(const SeriesData& data);
 
 // Seasonal terms used without a period (config.differencing_period_from_data,
 // noise_period_from_data): sets the periods to the one the data's frequency suggests (12

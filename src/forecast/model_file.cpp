@@ -571,7 +571,8 @@ json fit_to_json(const FitResult& fit) {
     d["roots"].push_back(
         {{"polynomial", r.polynomial}, {"min_modulus", r.min_modulus}, {"roots", roots}});
   }
-  d["warnings"] = fit.diagnostics.warnings;
+  d["warnings"] = warning_texts(fit.diagnostics.warnings);
+  d["warning_codes"] = warnings_json(fit.diagnostics.warnings);
   if (!fit.diagnostics.residual_acf.empty()) {
     // Residual autocorrelation at lags 1..L with the approximate 2/sqrt(n) band.
     const auto& r = fit.diagnostics.residual_acf;

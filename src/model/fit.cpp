@@ -414,10 +414,13 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
       for (size_t j = 1; j < ip.omega.size(); ++j) scaled.push_back(ip.omega[j] / ip.omega[0]);
       double dist = 0.0;
       if (ip.omega[0] != 0.0 && near_common_root(ip.delta, -1.0, scaled, 1.0, 0.1, &dist))
-        diag.warnings.push_back(fmt::format(
-            "near_cancellation: {} numerator and denominator share a root (distance {:.3g}); a "
-            "lower order fits the same",
-            name, dist));
+        diag.warnings.push_back({"near_cancellation",
+                                 fmt::format("near_cancellation: {} numerator and denominator "
+                                             "share a root (distance {:.3g}); a lower order fits "
+                                             "the same",
+                                             name, dist),
+                                 {{"distance", dist}},
+                                 {{"input", name}}});
     }
     delta_offset += static_cast<int>(ip.delta.size());
     omega_offset += static_cast<int>(ip.omega.size());
@@ -446,9 +449,13 @@ void compute_diagnostics(const LikelihoodProblem& problem, const FitOptions& opt
   add_roots(diag, "Theta", p.seasonal_theta, +1.0);
   double dist = 0.0;
   if (!p.phi.empty() && !p.theta.empty() && near_common_root(p.phi, -1.0, p.theta, 1.0, 0.1, &dist))
-    diag.warnings.push_back(fmt::format(
-        "near_cancellation: AR and MA share a root (distance {:.3g}); a lower order fits the same",
-        dist));
+    diag.warnings.push_back(
+        {"near_cancellation",
+         fmt::format("near_cancellation: AR and MA share a root (distance {:.3g}); a lower order "
+                     "fits the same",
+                     dist),
+         {{"distance", dist}},
+         {{"polynomials", "ar_ma"}}});
 }
 
 std::string starts_note(const FitResult& fit) {
@@ -697,9 +704,12 @@ FitResult fit_model(const LikelihoodProblem& problem, const FitOptions& options)
     for (size_t i = 0; i < all.size(); ++i) se[i] = std::sqrt(fit.covariance(i, i));
   } else if (options.standard_errors && !all.empty()) {
     fit.covariance.resize(0, 0);
-    fit.diagnostics.warnings.emplace_back(
-        "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
-        "standard errors are not available");
+    fit.diagnostics.warnings.push_back(
+        {"hessian_not_definite",
+         "hessian_not_definite: the log-likelihood is flat or not concave at the optimum; "
+         "standard errors are not available",
+         {},
+         {}});
   }
   for (size_t i = 0; i < all.size(); ++i)
     fit.estimates.push_back(

@@ -14,6 +14,7 @@
 
 #include "core/series.h"
 #include "core/spec.h"
+#include "core/warning.h"
 #include "model/likelihood.h"
 #include "model/params.h"
 #include "model/residual_input.h"
@@ -77,7 +78,7 @@ struct FitDiagnostics {
   // Per input (spec order; an input is left out where the check is undefined, e.g. constant
   // over the sample): residuals against the prewhitened input, see model/residual_input.h.
   std::vector<ResidualInputCorrelation> residual_input;
-  std::vector<std::string> warnings;  // fixed codes with numbers, e.g. "near_cancellation: ..."
+  std::vector<Warning> warnings;  // codes with numbers (core/warning.h), e.g. near_cancellation
 };
 
 struct FitResult {

@@ -65,13 +65,22 @@ std::string residual_input_warning_prefix(const std::string& input) {
   return fmt::format("residual_input_correlation: residuals still correlate with {} (", input);
 }
 
-std::string residual_input_warning(const ResidualInputCorrelation& c) {
-  return fmt::format(
-      "{}{}; S = {:.1f}, df {}, p = {:.2g}; largest at lag {}: {:.2f}, band {:.2f}); its "
-      "transfer function misses a lag or has the wrong delay",
-      residual_input_warning_prefix(c.input), describe_treatment(c.kind, c.prewhitened, c.ar_order),
-      c.statistic, c.df, c.p_value, c.largest_lag,
-      c.values[static_cast<size_t>(c.largest_lag + c.max_lag)], c.band);
+Warning residual_input_warning(const ResidualInputCorrelation& c) {
+  const double largest = c.values[static_cast<size_t>(c.largest_lag + c.max_lag)];
+  return {"residual_input_correlation",
+          fmt::format(
+              "{}{}; S = {:.1f}, df {}, p = {:.2g}; largest at lag {}: {:.2f}, band {:.2f}); its "
+              "transfer function misses a lag or has the wrong delay",
+              residual_input_warning_prefix(c.input),
+              describe_treatment(c.kind, c.prewhitened, c.ar_order), c.statistic, c.df, c.p_value,
+              c.largest_lag, largest, c.band),
+          {{"statistic", c.statistic},
+           {"df", c.df},
+           {"p_value", c.p_value},
+           {"lag", c.largest_lag},
+           {"correlation", largest},
+           {"band", c.band}},
+          {{"input", c.input}}};
 }
 
 }  // namespace lagsieve

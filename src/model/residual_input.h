@@ -19,6 +19,7 @@
 #include <string>
 #include <vector>
 
+#include "core/warning.h"
 #include "screen/indicator.h"
 
 namespace lagsieve {
@@ -65,7 +66,8 @@ std::optional<ResidualInputCorrelation> residual_input_correlation(
 
 // "residuals still correlate with NAME (TREATMENT; S = ...)": the fit's warning when p is below
 // options.warn_level, and its fixed start (everything up to the treatment) for matching it.
-std::string residual_input_warning(const ResidualInputCorrelation& check);
+Warning residual_input_warning(
+    const ResidualInputCorrelation& check);  // residual_input_correlation
 std::string residual_input_warning_prefix(const std::string& input);
 
 }  // namespace lagsieve

@@ -289,8 +289,9 @@ OutlierFit finish(JointFit&& j, std::vector<OutlierEffect> effects, double criti
   auto& diag = j.fit.diagnostics;
   for (const auto& e : effects) {
     std::erase_if(diag.residual_input, [&](const auto& c) { return c.input == e.name; });
-    std::erase_if(diag.warnings, [&](const std::string& w) {
-      return w.starts_with(residual_input_warning_prefix(e.name));
+    std::erase_if(diag.warnings, [&](const Warning& w) {
+      return w.is("residual_input_correlation") &&
+             w.message.starts_with(residual_input_warning_prefix(e.name));
     });
   }
   out.data = std::move(j.data);

@@ -720,6 +720,7 @@ nlohmann::json to_json(const ScreenResult& r) {
   json warnings = json::array();
   for (const auto& wv : r.warnings)
     warnings.push_back({{"kind", std::string(to_string(wv.kind))},
+                        {"code", std::string(to_string(wv.kind))},  // as every warning_codes entry
                         {"inputs", wv.inputs},
                         {"message", wv.message}});
   out["warnings"] = warnings;

@@ -270,10 +270,13 @@ class Stager {
     if (skip.not_reached > 0 || out_of_budget_) {
       polish.skipped.push_back(
           {fmt::format("not reached within search.budget ({} fits)", budget_), skip.not_reached});
-      result.warnings.push_back(fmt::format(
-          "search_budget_reached: the guided search stopped after search.budget = {} fits; raise "
-          "it to let every stage finish",
-          budget_));
+      result.warnings.push_back(
+          {"search_budget_reached",
+           fmt::format("search_budget_reached: the guided search stopped after search.budget = "
+                       "{} fits; raise it to let every stage finish",
+                       budget_),
+           {{"budget", budget_}, {"not_reached", static_cast<double>(skip.not_reached)}},
+           {}});
     }
     result.stages = {inputs, noise, polish};
     for (const auto& key : order_) result.rows.push_back(rows_.at(key));

@@ -18,7 +18,7 @@ class Evaluator;
 struct StagedSearch {
   std::vector<CandidateRow> rows;     // every candidate evaluated, in evaluation order
   std::vector<StageReport> stages;    // inputs, noise, polish (the screen stage is the caller's)
-  std::vector<std::string> warnings;  // e.g. the budget ran out
+  std::vector<Warning> warnings;      // e.g. search_budget_reached
 };
 
 // `grid` is the guided grid (guided_grid); `start` the screen's suggestion (suggested_spec).

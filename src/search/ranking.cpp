@@ -59,12 +59,14 @@ nlohmann::json ranking_json(const std::vector<CandidateRow>& rows, const RunConf
       j["series_notes"].push_back({{"series", r.series},
                                    {"sorted_by", r.sorted_by},
                                    {"chosen_reason", r.chosen_reason},
-                                   {"warnings", r.warnings},
-                                   {"search", {{"grid_size", r.full_grid_size},
-                                               {"considered", r.grid_size},
-                                               {"fitted", r.fitted},
-                                               {"from_journal", r.resumed},
-                                               {"stages", stages_json(r.stages)}}}});
+                                   {"warnings", warning_texts(r.warnings)},
+                                   {"warning_codes", warnings_json(r.warnings)},
+                                   {"search",
+                                    {{"grid_size", r.full_grid_size},
+                                     {"considered", r.grid_size},
+                                     {"fitted", r.fitted},
+                                     {"from_journal", r.resumed},
+                                     {"stages", stages_json(r.stages)}}}});
   }
   return j;
 }

@@ -163,9 +163,9 @@ void fit_into(CandidateRow& row, const LikelihoodProblem& problem,
   if (!fit.diagnostics.ljung_box.empty())
     row.ljung_box_p = fit.diagnostics.ljung_box.back().p_value;
   for (const auto& w : fit.diagnostics.warnings)
-    if (w.rfind("near_cancellation", 0) == 0 && fit.usable()) {
+    if (w.is("near_cancellation") && fit.usable()) {
       row.status = FitStatus::rejected;
-      row.message = w;
+      row.message = w.message;
     }
   if (!fit.usable()) row.loglik = row.aic = row.aicc = row.bic = std::nan("");
   if (fit.usable()) row.nonlinear = pack_nonlinear(problem.spec, fit.params);
@@ -330,16 +330,19 @@ void warn_on_chosen_residuals(SearchResult& result) {
   if (!result.has_chosen()) return;
   const std::string prefix = "chosen_residuals_autocorrelated";
   // A model re-chosen by the backtest replaces the warning about the previous one.
-  std::erase_if(result.warnings, [&](const std::string& w) { return w.rfind(prefix, 0) == 0; });
+  std::erase_if(result.warnings, [&](const Warning& w) { return w.is(prefix); });
   for (const auto& w : result.chosen.diagnostics.warnings)
-    if (w.rfind(prefix, 0) == 0) return;
+    if (w.is(prefix)) return;
   for (const auto& lb : result.chosen.diagnostics.ljung_box)
     if (std::isfinite(lb.p_value) && lb.p_value < 0.01) {
-      const std::string w = fmt::format(
-          "{}: the chosen model's residuals fail the Ljung-Box test at 1 % (Q = {:.2f} up to lag {}, df "
-          "{}, p = {:.2g}): "
-          "autocorrelation is left, so its intervals are too narrow; try more noise terms",
-          prefix, lb.statistic, lb.lag, lb.df, lb.p_value);
+      const Warning w{
+          prefix,
+          fmt::format("{}: the chosen model's residuals fail the Ljung-Box test at 1 % (Q = {:.2f} "
+                      "up to lag {}, df {}, p = {:.2g}): autocorrelation is left, so its "
+                      "intervals are too narrow; try more noise terms",
+                      prefix, lb.statistic, lb.lag, lb.df, lb.p_value),
+          {{"statistic", lb.statistic}, {"lag", lb.lag}, {"df", lb.df}, {"p_value", lb.p_value}},
+          {}};
       result.warnings.push_back(w);
       result.chosen.diagnostics.warnings.push_back(w);
       return;

@@ -107,7 +107,7 @@ struct SearchResult {
   // (filled by the search, then by the shortlist backtest); shown by the CLI and the report.
   std::string sorted_by;
   std::string chosen_reason;
-  std::vector<std::string> warnings;
+  std::vector<Warning> warnings;
   std::optional<SearchOutliers> outliers;  // with an `outliers` section
   bool has_chosen() const { return chosen.usable(); }
 };

@@ -103,7 +103,11 @@ TEST(BacktestCommonOrigins, AnEventAfterTheFirstOriginDropsTheSameOriginsForEver
     }
 
   ASSERT_EQ(result.warnings.size(), 1u);
-  const std::string& w = result.warnings[0];
+  EXPECT_EQ(result.warnings[0].code, "backtest_origins_dropped");
+  EXPECT_EQ(result.warnings[0].number("dropped"), 7);
+  EXPECT_EQ(result.warnings[0].number("origins"), 20);
+  EXPECT_EQ(result.warnings[0].number("suggested_first_origin"), 235);
+  const std::string& w = result.warnings[0].message;
   EXPECT_NE(w.find("7 of 20 origins (200..230 every 5) dropped for every model and benchmark"),
             std::string::npos)
       << w;

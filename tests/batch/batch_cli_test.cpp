@@ -61,6 +61,49 @@ TEST(BatchCli, BadSeriesAreReportedTheOthersFinishAndTheExitCodeSaysSo) {
   EXPECT_FALSE(fs::exists(dir / ".run.lagsieve-next"));
 }
 
+TEST(BatchCli, SearchJsonCountsStatusesNamesTheBadSeriesAndTheFiles) {
+  const fs::path dir = panel_folder("json");
+  const auto r = run_lagsieve(dir, "search panel.yaml --out run --threads 2 --quiet --json");
+  EXPECT_EQ(r.code, 5) << r.err;
+  const auto j = nlohmann::json::parse(r.out);  // stdout is the one JSON object
+  EXPECT_EQ(j.at("command"), "search");
+  EXPECT_EQ(j.at("panel"), true);
+  EXPECT_EQ(j.at("exit_code"), 5);
+  EXPECT_EQ(j.at("exit_meaning"), "some series failed, the others finished");
+  EXPECT_EQ(j.at("ran").at("series"), 5);
+  EXPECT_EQ(j.at("ran").at("candidates"), 3 * 64);
+  EXPECT_EQ(j.at("by_status").at("ok"), 3);
+  EXPECT_EQ(j.at("by_status").at("bad_data"), 2);
+  std::set<std::string> bad;
+  for (const auto& s : j.at("not_ok")) {
+    bad.insert(s.at("series").get<std::string>());
+    EXPECT_EQ(s.at("status"), "bad_data");
+    EXPECT_FALSE(s.at("reason").get<std::string>().empty());
+  }
+  EXPECT_EQ(bad, (std::set<std::string>{"dry", "new"}));
+  for (const char* f :
+       {"run_folder", "summary_csv", "summary_json", "ranking_csv", "models_folder", "report"}) {
+    ASSERT_TRUE(j.at("files").at(f).is_string()) << f;
+    EXPECT_TRUE(fs::exists(j.at("files").at(f).get<std::string>())) << f;
+  }
+  EXPECT_EQ(j.at("files").at("model_files"), 3);
+  EXPECT_NE(r.err.find("series 'dry' bad_data"), std::string::npos) << r.err;  // people read it
+  // A shard says which one it ran.
+  const auto s = run_lagsieve(dir, "search panel.yaml --out shard2 --quiet --json --shard 2/2");
+  const auto sj = nlohmann::json::parse(s.out);
+  EXPECT_EQ(sj.at("ran").at("shard").at("k"), 2);
+  EXPECT_EQ(sj.at("ran").at("shard").at("n"), 2);
+  EXPECT_TRUE(fs::exists(sj.at("files").at("shard").get<std::string>()));
+  // validate --json: every bad series is a problem naming it.
+  const auto v = run_lagsieve(dir, "validate panel.yaml --json");
+  EXPECT_EQ(v.code, 2);
+  const auto vj = nlohmann::json::parse(v.out);
+  std::set<std::string> named;
+  for (const auto& p : vj.at("problems")) named.insert(p.at("series").get<std::string>());
+  EXPECT_EQ(named, (std::set<std::string>{"dry", "new"}));
+  EXPECT_EQ(vj.at("series").size(), 3u);
+}
+
 TEST(BatchCli, SeriesOptionRunsOnlyTheNamedSeries) {
   const fs::path dir = panel_folder("only");
   const auto r =

@@ -30,7 +30,7 @@ using testing::to_vector;
 
 bool has_warning(const FitResult& fit, const std::string& input) {
   for (const auto& w : fit.diagnostics.warnings)
-    if (w.rfind("residual_input_correlation: ", 0) == 0 && w.find(input) != std::string::npos)
+    if (w.is("residual_input_correlation") && w.message.find(input) != std::string::npos)
       return true;
   return false;
 }

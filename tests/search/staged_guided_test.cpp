@@ -224,7 +224,12 @@ TEST(StagedGuided, StopsAtTheBudgetAndSaysSo) {
   EXPECT_TRUE(r.has_chosen());
   EXPECT_EQ(accounted(r.stages), r.full_grid_size);
   bool warned = false;
-  for (const auto& w : r.warnings) warned = warned || w.rfind("search_budget_reached", 0) == 0;
+  for (const auto& w : r.warnings)
+    if (w.is("search_budget_reached")) {
+      warned = true;
+      EXPECT_EQ(w.number("budget"), 15);
+      EXPECT_TRUE(w.message.starts_with("search_budget_reached: "));
+    }
   EXPECT_TRUE(warned);
 }
 
