@@ -21,7 +21,7 @@ import numpy as np
 import pandas as pd
 
 from . import _core
-from ._inputs import config_source, frame_columns, load
+from ._inputs import frame_columns, load, load_frame, read_config
 from ._panel import PanelRun
 
 InputError = _core.InputError  # bad input: the CLI's message; a subclass of ValueError
@@ -128,8 +128,15 @@ class Fit:
 
     def __init__(self, core):
         self._core = core
-        self._doc = json.loads(core.json())
+        self._json = None
         self._rows = None
+
+    @property
+    def _doc(self):
+        """fit.json's content, made by the core when first asked for (not by the fit)."""
+        if self._json is None:
+            self._json = json.loads(self._core.json())
+        return self._json
 
     # Numbers of the fit (NaN where the fit failed).
     def _number(self, key):
@@ -350,17 +357,19 @@ def search(config, data=None, threads=None, backtest=True):
 
     With data.series_key in the config, the data are a long-format panel (the key column naming
     each series): every series is searched as `lagsieve search` does, and the result is a
-    PanelRun. Ctrl-C stops a search between candidates (KeyboardInterrupt, nothing written)."""
-    text, name = config_source(config)
-    if _core.config_series_key(text, name):
+    PanelRun. Ctrl-C stops a search between candidates, and its shortlist backtest between
+    origins (KeyboardInterrupt, nothing written)."""
+    handle = read_config(config, data is not None)
+    if handle.series_key:
         if data is None:
-            core = _core.search_panel_file(text, name, threads, bool(backtest))
+            core = _core.search_panel_file(handle, threads, bool(backtest))
         else:
-            header, columns, told = frame_columns(data, _core.config_time_column(text, name))
-            core = _core.search_panel_table(text, name, told, header, columns, threads,
+            header, columns, told = frame_columns(data, handle.time_column)
+            core = _core.search_panel_table(handle, told, header, columns, threads,
                                             bool(backtest))
         return PanelRun(core)
-    return SearchRun(_core.search(load(config, data), threads, bool(backtest)))
+    run = _core.load_file(handle) if data is None else load_frame(handle, data)
+    return SearchRun(_core.search(run, threads, bool(backtest)))
 
 
 def screen(config, data=None):
@@ -372,7 +381,8 @@ def screen(config, data=None):
 def backtest(config, models=(), data=None, threads=None):
     """The rolling-origin backtest of `lagsieve backtest CONFIG --models ...`: model files (paths
     or Model objects; none: the config's one model) beside the seasonal naive benchmark, on the
-    config's backtest settings. {accuracy, backtest, comparisons, input_value} as DataFrames."""
+    config's backtest settings. {accuracy, backtest, comparisons, input_value} as DataFrames.
+    Ctrl-C stops it before the next origin (KeyboardInterrupt)."""
     named = []
     for k, m in enumerate(models):
         if isinstance(m, Model):

@@ -35,6 +35,22 @@ Scratch::~Scratch() {
   fs::remove_all(path_, ec);
 }
 
+const std::optional<FittedModel>& Fit::fitted() const {
+  std::lock_guard lock(model_mutex_);
+  if (!model_made_) {
+    if (result.fit.usable())
+      fitted_ = cli::fitted_model_of(result, run->loaded.config, run->loaded.series[series]);
+    model_made_ = true;
+  }
+  return fitted_;
+}
+
+void Fit::set_fitted(FittedModel model) {
+  std::lock_guard lock(model_mutex_);
+  fitted_ = std::move(model);
+  model_made_ = true;
+}
+
 std::string fit_json(const Fit& f, bool with_past) {
   const SeriesData& data = f.run->loaded.series[f.series];
   const FitResult& fit = f.result.fit;
@@ -55,12 +71,13 @@ void write_fit_files(const fs::path& folder, const Fit& f) {
   const SeriesData& data = f.run->loaded.series[f.series];
   write_file_atomic(folder / run_files::kScreen, to_json(screen_series(data, config)).dump(1) + "\n");
   write_file_atomic(folder / run_files::kFit, fit_json(f, true));
-  if (!f.fitted) return;  // no model: the report shows the fit's status and the screen
+  const auto& model = f.fitted();
+  if (!model) return;  // no model: the report shows the fit's status and the screen
   const FitResult& fit = f.result.fit;
-  save_model(folder / run_files::model_file(data.target_name, false), *f.fitted);
+  save_model(folder / run_files::model_file(data.target_name, false), *model);
   write_file_atomic(folder / run_files::kPast,
                     past_csv(explain_past(f.data(), fit.spec, fit.params, fit.start)));
-  write_chosen_forecast(folder / run_files::kForecast, *f.fitted, f.data(), config);
+  write_chosen_forecast(folder / run_files::kForecast, *model, f.data(), config);
 }
 
 fs::path fit_charts(Fit& f) {

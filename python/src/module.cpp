@@ -77,20 +77,28 @@ RunConfig read_config(const std::string& text, const std::string& name, bool dat
   return parse_config(data_in_memory ? with_data_file(text) : text, name);
 }
 
-RunPtr load_from_file(const std::string& text, const std::string& name) {
+// The handle every call takes: the config read once per call of the package. A dict config
+// comes with data.file already set when its data are a DataFrame (the package sets it), so its
+// text is parsed once; YAML text without data.file is given one here.
+ConfigPtr config_handle(const std::string& text, const std::string& name, bool data_in_memory) {
+  auto c = std::make_shared<Config>();
+  c->config = read_config(text, name, data_in_memory);
+  return c;
+}
+
+RunPtr load_from_file(const ConfigPtr& c) {
   auto run = std::make_shared<Run>();
-  run->loaded.config = read_config(text, name, false);
+  run->loaded.config = c->config;
   run->loaded.series = load_series(run->loaded.config);
   apply_seasonal_default(run->loaded.config, run->loaded.series.front());
   return run;
 }
 
-RunPtr load_from_table(const std::string& text, const std::string& name,
-                       const std::optional<std::string>& time_column,
+RunPtr load_from_table(const ConfigPtr& c, const std::optional<std::string>& time_column,
                        const std::vector<std::string>& header, const py::list& columns,
                        bool one_series) {
   auto run = std::make_shared<Run>();
-  RunConfig config = read_config(text, name, true);
+  RunConfig config = c->config;
   if (one_series) config.data.series_key.clear();  // one series' rows of a panel, key dropped
   if (!config.data.series_key.empty())
     throw InputError(fmt::format(
@@ -99,9 +107,9 @@ RunPtr load_from_table(const std::string& text, const std::string& name,
         "a config without data.series_key",
         config.config_file.string(), config.data.series_key));
   if (time_column && config.data.time.empty()) config.data.time = *time_column;
-  const CsvTable table = table_from_columns(kFrameSource, header, columns);
+  const FrameTable frame = table_from_columns(kFrameSource, header, columns);
   for (const auto& column : config.target.columns)
-    run->loaded.series.push_back(series_from_table(config, table, column));
+    run->loaded.series.push_back(series_from_table(config, frame.table, column, frame.numbers));
   apply_seasonal_default(config, run->loaded.series.front());
   run->loaded.config = std::move(config);
   return run;
@@ -198,10 +206,8 @@ std::shared_ptr<Fit> fit_loaded(const RunPtr& run, const std::string& series) {
     py::gil_scoped_release unlocked;
     f->result = cli::fit_single(run->loaded.config, all[f->series],
                                 run->loaded.config.config_file.string());
-    if (f->result.fit.usable())
-      f->fitted = cli::fitted_model_of(f->result, run->loaded.config, all[f->series]);
   }
-  return f;
+  return f;  // the model file's content is made when asked for (Fit::fitted)
 }
 
 std::shared_ptr<Search> search_loaded(const RunPtr& run, std::optional<int> threads,
@@ -266,7 +272,7 @@ std::shared_ptr<Fit> search_chosen(const std::shared_ptr<Search>& s, size_t k) {
   f->series = k;
   f->result.fit = r.chosen;
   f->fitted_on = search_data(s->run->loaded.series[k], r);
-  f->fitted = cli::chosen_model(s->run->loaded, s->computed, k);
+  f->set_fitted(cli::chosen_model(s->run->loaded, s->computed, k));
   return f;
 }
 
@@ -304,14 +310,15 @@ py::dict backtest_models(const RunPtr& run,
     candidates.push_back(candidate_from_spec(model_label(spec), spec, config));
   }
   candidates.push_back(seasonal_naive_candidate(options.season));
-  BacktestResult result;
-  {
-    py::gil_scoped_release unlocked;
-    result = run_backtest(data, candidates, options);
-    if (result.chosen >= 0)
-      result.input_value =
-          input_value(data, candidates[result.chosen], result.models[result.chosen], options);
-  }
+  // Ctrl-C stops it before the next origin (BacktestOptions::cancel): KeyboardInterrupt.
+  BacktestResult result = run_interruptible([&](const std::atomic<bool>* cancel) {
+    BacktestOptions o = options;
+    o.cancel = cancel;
+    BacktestResult r = run_backtest(data, candidates, o);
+    if (r.chosen >= 0)
+      r.input_value = input_value(data, candidates[r.chosen], r.models[r.chosen], o);
+    return r;
+  });
   py::dict out;
   out["accuracy"] = accuracy_csv(result);
   out["backtest"] = backtest_csv(result);
@@ -363,11 +370,16 @@ PYBIND11_MODULE(_core, m) {
         return to_json(s).dump();
       });
 
+  py::class_<Config, std::shared_ptr<Config>>(m, "Config")
+      .def_property_readonly("time_column", [](const Config& c) { return c.config.data.time; })
+      .def_property_readonly("series_key",
+                             [](const Config& c) { return c.config.data.series_key; });
+  m.def("config", &config_handle, py::arg("text"), py::arg("name"), py::arg("data_in_memory"));
   m.def("config_time_column", [](const std::string& text, const std::string& name) {
     return read_config(text, name, true).data.time;
   });
-  m.def("load_file", &load_from_file, py::arg("text"), py::arg("name"));
-  m.def("load_table", &load_from_table, py::arg("text"), py::arg("name"), py::arg("time_column"),
+  m.def("load_file", &load_from_file, py::arg("config"));
+  m.def("load_table", &load_from_table, py::arg("config"), py::arg("time_column"),
         py::arg("header"), py::arg("columns"), py::arg("one_series") = false);
 
   py::class_<Model, std::shared_ptr<Model>>(m, "Model")
@@ -382,9 +394,9 @@ PYBIND11_MODULE(_core, m) {
               const py::dict& future, const std::vector<double>& levels, bool uncertainty) {
              RunConfig config = mo.config;
              if (time_column && config.data.time.empty()) config.data.time = *time_column;
-             const CsvTable table = table_from_columns(kFrameSource, header, columns);
-             const SeriesData history =
-                 series_from_table(config, table, mo.fitted.training.target_column);
+             const FrameTable frame = table_from_columns(kFrameSource, header, columns);
+             const SeriesData history = series_from_table(
+                 config, frame.table, mo.fitted.training.target_column, frame.numbers);
              return forecast_json(mo, history, horizon, future, levels, uncertainty);
            })
       .def("revalidate_json",
@@ -419,17 +431,17 @@ PYBIND11_MODULE(_core, m) {
       .def_property_readonly("usable", [](const Fit& f) { return f.result.fit.usable(); })
       .def("model",
            [](const Fit& f) -> ModelPtr {
-             if (!f.fitted)
+             if (!f.fitted())
                throw InputError("the fit is not usable (see .status); no model to use");
              auto mo = std::make_shared<Model>();
-             mo->fitted = *f.fitted;
+             mo->fitted = *f.fitted();
              mo->config = f.run->loaded.config;
              return mo;
            })
       .def("forecast", [](const Fit& f, int horizon, const py::dict& future,
                           const std::vector<double>& levels, bool uncertainty) {
-        if (!f.fitted) throw InputError("the fit is not usable (see .status); no forecast");
-        Model mo{*f.fitted, f.run->loaded.config};
+        if (!f.fitted()) throw InputError("the fit is not usable (see .status); no forecast");
+        Model mo{*f.fitted(), f.run->loaded.config};
         return forecast_json(mo, f.run->loaded.series[f.series], horizon, future, levels,
                              uncertainty);
       });
@@ -477,22 +489,22 @@ PYBIND11_MODULE(_core, m) {
   });
   m.def(
       "search_panel_file",
-      [](const std::string& text, const std::string& name, std::optional<int> threads,
-         bool backtest) {
-        return search_panel_file(read_config(text, name, false), threads, backtest);
+      [](const ConfigPtr& c, std::optional<int> threads, bool backtest) {
+        return search_panel_file(c->config, threads, backtest);
       },
-      py::arg("text"), py::arg("name"), py::arg("threads"), py::arg("backtest"));
+      py::arg("config"), py::arg("threads"), py::arg("backtest"));
   m.def(
       "search_panel_table",
-      [](const std::string& text, const std::string& name,
-         const std::optional<std::string>& time_column, const std::vector<std::string>& header,
-         const py::list& columns, std::optional<int> threads, bool backtest) {
-        RunConfig config = read_config(text, name, true);
+      [](const ConfigPtr& c, const std::optional<std::string>& time_column,
+         const std::vector<std::string>& header, const py::list& columns,
+         std::optional<int> threads, bool backtest) {
+        RunConfig config = c->config;
         if (time_column && config.data.time.empty()) config.data.time = *time_column;
-        const CsvTable table = table_from_columns(kFrameSource, header, columns);
-        return search_panel_table(std::move(config), table, threads, backtest);
+        // As text: the panel is split by key and copied, and its cells fingerprinted.
+        const FrameTable frame = table_from_columns(kFrameSource, header, columns, true);
+        return search_panel_table(std::move(config), frame.table, threads, backtest);
       },
-      py::arg("text"), py::arg("name"), py::arg("time_column"), py::arg("header"),
-      py::arg("columns"), py::arg("threads"), py::arg("backtest"));
+      py::arg("config"), py::arg("time_column"), py::arg("header"), py::arg("columns"),
+      py::arg("threads"), py::arg("backtest"));
   m.def("search", &search_loaded, py::arg("run"), py::arg("threads"), py::arg("backtest") = true);
 }

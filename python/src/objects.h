@@ -3,6 +3,7 @@
 // a model, a fit, a search and a panel search. Each holds what the CLI computed, nothing more.
 #include <filesystem>
 #include <memory>
+#include <mutex>
 #include <optional>
 #include <string>
 
@@ -26,6 +27,13 @@ class Scratch {
   std::filesystem::path path_;
 };
 
+// A config read and checked once: every call of the package that takes a config reads it into
+// this handle first, and the calls it makes take the handle.
+struct Config {
+  RunConfig config;
+};
+using ConfigPtr = std::shared_ptr<const Config>;
+
 // A config with the data it describes, loaded as `lagsieve` commands load them.
 struct Run {
   cli::LoadedRun loaded;
@@ -44,7 +52,6 @@ struct Fit {
   RunPtr run;
   size_t series = 0;
   cli::FitRun result;
-  std::optional<FittedModel> fitted;     // when usable
   std::optional<SeriesData> fitted_on;   // a chosen model's data with its detected effects' columns
   std::shared_ptr<Scratch> charts;       // the report's charts of this fit, once drawn
 
@@ -52,6 +59,16 @@ struct Fit {
     if (fitted_on) return *fitted_on;
     return result.detected ? result.detected->data : run->loaded.series[series];
   }
+
+  // The model file's content when the fit is usable (else empty): made on first use (a save, a
+  // forecast, the charts), not by the fit itself. Safe from several threads.
+  const std::optional<FittedModel>& fitted() const;
+  void set_fitted(FittedModel model);  // a search's chosen model, already made
+
+ private:
+  mutable std::mutex model_mutex_;
+  mutable bool model_made_ = false;
+  mutable std::optional<FittedModel> fitted_;
 };
 
 // A finished search: its computation, and the journal its candidates were written to (kept in a

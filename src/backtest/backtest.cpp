@@ -176,7 +176,8 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
   out.oracle.levels = o.levels;
   std::optional<FittedModel> current = c.fixed;
   std::optional<FittedModel> last_fit;
-  for (size_t k = 0; k < origins.size(); ++k) {
+  // One origin: its forecasts (or its failure) added to `out`.
+  const auto run_origin = [&](size_t k) {
     const int origin = origins[k];
     const int from = o.window == WindowKind::sliding ? std::max(0, origin - o.window_length) : 0;
     const int horizon = std::min(o.horizon, data.rows() - origin);
@@ -184,7 +185,7 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
     const double scale = mase_scale(window.target, o.season);
     if (c.kind == BacktestCandidate::Kind::seasonal_naive) {
       seasonal_naive(out, data, origin, from, horizon, o.season, o.levels, scale);
-      continue;
+      return;
     }
     try {
       const bool refit_now =
@@ -201,7 +202,7 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
         ++out.failed_origins;
         out.failed_at.push_back(origin);
         if (out.note.empty()) out.note = "no usable fit from the window before this origin";
-        continue;
+        return;
       }
       ForecastOptions fo;
       fo.horizon = horizon;
@@ -227,6 +228,12 @@ ModelBacktest backtest_one(const SeriesData& data, const BacktestCandidate& c,
       out.failed_at.push_back(origin);
       if (out.note.empty()) out.note = e.what();
     }
+  };
+  for (size_t k = 0; k < origins.size(); ++k) {
+    // Outside the origin's try: a cancelled run is not a failed origin.
+    if (o.cancel && o.cancel->load()) throw Cancelled();
+    run_origin(k);
+    if (o.origin_done) o.origin_done();
   }
   score_model(out, o);
   return out;

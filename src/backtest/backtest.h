@@ -2,6 +2,8 @@
 // Rolling-origin backtest (Tashman 2000): forecasts 1..K from a sequence of origins, each from
 // the data before it, inputs treated as in production and, side by side, with their real future
 // (oracle). Refit at every origin, every m-th origin, or never (re-filter the first fit).
+#include <atomic>
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -35,17 +37,24 @@ void run_in_arena(int threads, Body&& body) {
 }
 
 struct BacktestOptions {
-  int first_origin = 0;                 // row of the first origin (forecasts start there)
+  int first_origin = 0;  // row of the first origin (forecasts start there)
   int step = 1;
-  int horizon = 1;                      // K
+  int horizon = 1;  // K
   WindowKind window = WindowKind::expanding;
-  int window_length = 0;                // sliding: rows in the window (0 = first_origin)
-  int refit = 1;                        // every m-th origin; 0 = never (re-filter the first fit)
+  int window_length = 0;  // sliding: rows in the window (0 = first_origin)
+  int refit = 1;          // every m-th origin; 0 = never (re-filter the first fit)
   std::vector<double> levels{0.8, 0.95};
   AccuracyMeasure score = AccuracyMeasure::mase;  // overall score: mean over horizons 1..K
-  int season = 1;                       // period of the MASE scale and of the naive benchmark
-  int start = -1;                       // first differenced index of every fit (-1: the spec's)
-  int threads = 0;                      // 0: all cores; kInCallerArena: the caller's arena
+  int season = 1;   // period of the MASE scale and of the naive benchmark
+  int start = -1;   // first differenced index of every fit (-1: the spec's)
+  int threads = 0;  // 0: all cores; kInCallerArena: the caller's arena
+  // Set (from any thread) to stop: every candidate checks it before each origin, and
+  // run_backtest (and input_value) then throws Cancelled (core/error.h) once the origins already
+  // running have finished; nothing of the run is returned. Null (the default) never cancels.
+  const std::atomic<bool>* cancel = nullptr;
+  // Called after each origin of each candidate (from the worker threads, not serialised), e.g.
+  // to count progress or to cancel midway.
+  std::function<void()> origin_done;
 };
 
 // Validated options from the config (InputError naming the backtest key otherwise).
@@ -73,16 +82,16 @@ struct BacktestCandidate {
   Kind kind = Kind::model;
   bool benchmark = false;
   ModelSpec spec;
-  std::vector<InputUse> inputs;         // production treatment of each spec input
+  std::vector<InputUse> inputs;                // production treatment of each spec input
   std::vector<InputModelConfig> input_orders;  // own-model orders of inputs forecast (per input)
-  std::optional<FittedModel> fixed;     // a deployed model: its parameters are the first fit
+  std::optional<FittedModel> fixed;            // a deployed model: its parameters are the first fit
 };
 
 struct ModelBacktest {
   std::string name;
   bool benchmark = false;
-  ForecastRecords production;           // inputs as in production
-  ForecastRecords oracle;               // inputs' real future
+  ForecastRecords production;  // inputs as in production
+  ForecastRecords oracle;      // inputs' real future
   AccuracyTable production_accuracy;
   AccuracyTable oracle_accuracy;
   double score = 0.0;          // production, mean over horizons of the chosen measure
@@ -104,7 +113,7 @@ struct InputValueRow {
   std::string input;
   double score_with = 0.0;
   double score_without = 0.0;
-  DieboldMarianoResult test;            // per-origin mean scaled absolute error, chosen model vs without
+  DieboldMarianoResult test;  // per-origin mean scaled absolute error, chosen model vs without
 };
 
 struct BacktestResult {
@@ -117,16 +126,18 @@ struct BacktestResult {
   std::vector<int> dropped_origins;
   std::vector<Warning> warnings;
   std::vector<std::string> row_times;  // the data's time stamps (backtest.csv `time` column)
-  std::vector<ModelBacktest> models;  // candidate order
-  int chosen = -1;                    // best score among non-benchmark models
+  std::vector<ModelBacktest> models;   // candidate order
+  int chosen = -1;                     // best score among non-benchmark models
   std::vector<ComparisonRow> comparisons;
   std::vector<InputValueRow> input_value;
   std::vector<double> levels;
 };
 
 // Backtests every candidate (parallel over candidates; origins in order so refits warm-start
-// from the previous origin's parameters). Results do not depend on the thread count.
-BacktestResult run_backtest(const SeriesData& data, const std::vector<BacktestCandidate>& candidates,
+// from the previous origin's parameters). Results do not depend on the thread count. Throws
+// Cancelled when options.cancel is set before the last origin of every candidate has run.
+BacktestResult run_backtest(const SeriesData& data,
+                            const std::vector<BacktestCandidate>& candidates,
                             const BacktestOptions& options);
 
 // The candidate as it can be fitted at `origin` from the window of rows from..origin-1: a

@@ -48,7 +48,8 @@ struct BatchOptions {
   // Called after every finished candidate and series (serialised; from worker threads).
   std::function<void(const BatchProgress&)> progress;
   // Set (from any thread) to stop: series not started are skipped, running searches stop
-  // between candidates, and run_batch throws Cancelled (core/error.h).
+  // between candidates (their shortlist backtests between origins), and run_batch throws
+  // Cancelled (core/error.h).
   const std::atomic<bool>* cancel = nullptr;
 };
 

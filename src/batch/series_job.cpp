@@ -238,7 +238,7 @@ SeriesSummary run_series_job(const SeriesData& data, const RunConfig& config,
     check_cancel(options.cancel);
     std::optional<ShortlistBacktest> bt;
     if (config.backtest.enabled && options.backtest && r.has_chosen())
-      bt = backtest_shortlist(data, config, r, options.threads);
+      bt = backtest_shortlist(data, config, r, options.threads, options.cancel);
     s.candidates = static_cast<int>(r.rows.size());
     s.fitted = r.fitted;
     s.resumed = r.resumed;

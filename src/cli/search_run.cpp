@@ -80,11 +80,12 @@ SearchComputation compute_search(const LoadedRun& run, const SearchOptions& base
     options.progress = base.progress;
     auto& r = c.results.back();
     c.backtests.emplace_back();
-    check_cancel(options.cancel);  // the shortlist backtest itself runs to its end
+    check_cancel(options.cancel);  // and before every origin of the shortlist backtest
     if (config.backtest.enabled && backtest && r.has_chosen()) {
       if (!quiet && ::isatty(STDERR_FILENO))
         fmt::print(stderr, "{}: backtesting the shortlist ...\n", data.target_name);
-      c.backtests.back() = backtest_shortlist(data, config, r, options.threads);
+      c.backtests.back() =
+          backtest_shortlist(data, config, r, options.threads, options.cancel);
     }
     c.all_rows.insert(c.all_rows.end(), r.rows.begin(), r.rows.end());
   }

@@ -6,6 +6,7 @@
 #include <charconv>
 #include <cmath>
 #include <optional>
+#include <stdexcept>
 
 #include "core/error.h"
 #include "core/names.h"
@@ -76,9 +77,11 @@ std::string list_rows(const CsvTable& table, const RowMap& map, const std::vecto
 // Reads a numeric column onto the series rows; missing cells (and inserted rows) become NaN and
 // are then left (skip, target only), filled linearly (interpolate) or refused (error).
 // `filled` receives 1 per row filled by interpolation (left empty when none was).
+// `numbers` (when not empty): the column's values, read in place of its text cells.
 std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int col, bool is_target,
                                  MissingPolicy policy, SeriesData& s,
-                                 std::vector<unsigned char>& filled) {
+                                 std::vector<unsigned char>& filled,
+                                 std::span<const double> numbers) {
   const auto& name = table.header[col];
   const std::string role = is_target ? "target" : "input";
   const int n = static_cast<int>(map.table_row.size());
@@ -88,6 +91,20 @@ std::vector<double> read_numeric(const CsvTable& table, const RowMap& map, int c
     const int tr = map.table_row[r];
     if (tr < 0) {
       missing.push_back(r);
+      continue;
+    }
+    if (!numbers.empty()) {
+      const double x = numbers[static_cast<size_t>(tr)];
+      if (std::isnan(x)) {
+        missing.push_back(r);
+        continue;
+      }
+      if (!std::isfinite(x))
+        throw InputError(
+            fmt::format("{}: {} column '{}' (column {}): '{}' is not finite; only "
+                        "finite numbers can be modelled",
+                        table.where(tr), role, name, col + 1, x));
+      v[r] = x;
       continue;
     }
     const auto& cell = table.rows[tr][col];
@@ -346,6 +363,16 @@ void check_feasible(const RunConfig& config, const SeriesData& series) {
 
 SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
                              const std::string& target_column) {
+  return series_from_table(config, table, target_column, {});
+}
+
+SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
+                             const std::string& target_column, const NumericColumns& numbers) {
+  if (!numbers.empty() && numbers.size() != table.header.size())
+    throw std::invalid_argument("series_from_table: one entry of `numbers` per column");
+  const auto numbers_of = [&](int c) {
+    return numbers.empty() ? std::span<const double>() : numbers[static_cast<size_t>(c)];
+  };
   const auto cfg = config.config_file.string();
   if (table.row_count() == 0)
     throw InputError(fmt::format("{}: the file has a header but no data rows", table.source));
@@ -355,6 +382,8 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
   RowMap map;
   if (!config.data.time.empty()) {
     const int tc = find_column(table, config.data.time, "data.time in " + cfg);
+    if (!numbers_of(tc).empty())
+      throw std::invalid_argument("series_from_table: the time column is read as text");
     if (config.data.time == target_column)
       throw InputError(
           fmt::format("{}: data.time: '{}' is also the target column; the time "
@@ -369,7 +398,8 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
   }
 
   const int yc = find_column(table, target_column, "the target in " + cfg);
-  s.target = read_numeric(table, map, yc, true, config.data.missing, s, s.target_filled);
+  s.target =
+      read_numeric(table, map, yc, true, config.data.missing, s, s.target_filled, numbers_of(yc));
   if (s.fills.empty()) s.fills.push_back({target_column, true, 0, 0});
   if (is_constant(s.target))
     throw InputError(
@@ -397,7 +427,8 @@ SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
         throw InputError(fmt::format("{}:{}: input '{}' is the time column; it cannot be an input",
                                      cfg, in.line, in.name));
       const int c = find_column(table, in.name, "an input in " + cfg);
-      values = read_numeric(table, map, c, false, config.data.input_policy(), s, filled);
+      values =
+          read_numeric(table, map, c, false, config.data.input_policy(), s, filled, numbers_of(c));
     }
     if (is_constant(values))
       throw InputError(fmt::format(

@@ -1,6 +1,7 @@
 #pragma once
 // Reading the data a config names: one SeriesData per target column, checked and ready to model.
 #include <filesystem>
+#include <span>
 #include <string>
 #include <vector>
 
@@ -35,6 +36,15 @@ SeriesData load_series_from_csv(const RunConfig& config, const std::filesystem::
 // The same for an already parsed table (tests parse CSV text).
 SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
                              const std::string& target_column);
+
+// Columns of a table given as numbers instead of text cells (a table built in memory, e.g. from
+// numpy arrays): numbers[c], when not empty, holds column c's values, NaN for a missing cell,
+// and the table's cells of that column are not read. The values are taken as they are and
+// checked as parsed cells are (an infinite value is an error naming its row); the time column
+// is always text. Empty: every column is text.
+using NumericColumns = std::vector<std::span<const double>>;
+SeriesData series_from_table(const RunConfig& config, const CsvTable& table,
+                             const std::string& target_column, const NumericColumns& numbers);
 
 // One line per column with missing cells (target first) saying how many and what was done
 // (left out of the likelihood, or interpolated), then the inserted gaps and time notes; empty

@@ -50,16 +50,18 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
 }
 
 ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& config,
-                                     SearchResult& search, int threads) {
+                                     SearchResult& search, int threads,
+                                     const std::atomic<bool>* cancel) {
   const SeriesData data = search_data(plain, search);  // with the detected effects' columns
   ShortlistBacktest out = shortlist_plan(data, config, search, config.backtest.shortlist, threads);
   if (out.candidates.empty()) return out;
+  out.options.cancel = cancel;
   out.result = run_backtest(data, out.candidates, out.options);
   search.warnings.insert(search.warnings.end(), out.result.warnings.begin(),
                          out.result.warnings.end());
 
-  // The chosen model by the selection rule (selection.h), then the rows: the chosen model first, the other
-  // backtested rows by score, then the rest in criterion order as before.
+  // The chosen model by the selection rule (selection.h), then the rows: the chosen model first,
+  // the other backtested rows by score, then the rest in criterion order as before.
   std::map<std::string, size_t> model_of;
   for (size_t i = 0; i < out.candidates.size(); ++i)
     if (!out.candidates[i].benchmark) model_of[out.candidates[i].name] = i;
@@ -103,7 +105,8 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
           1;
   }
   search.sorted_by = fmt::format(
-      "rank 1 is the chosen model ({}); then the other backtested candidates by backtest {} (lower is "
+      "rank 1 is the chosen model ({}); then the other backtested candidates by backtest {} (lower "
+      "is "
       "better); then the "
       "rest by {}",
       so.parsimonious
@@ -122,6 +125,7 @@ ShortlistBacktest backtest_shortlist(const SeriesData& plain, const RunConfig& c
     out.result.input_value =
         input_value(data, lead, out.result.models[out.result.chosen], out.options);
   }
+  out.options.cancel = nullptr;  // the flag is the caller's, not part of the plan kept
   warn_on_chosen_residuals(search);
   return out;
 }

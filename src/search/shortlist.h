@@ -21,8 +21,12 @@ ShortlistBacktest shortlist_plan(const SeriesData& data, const RunConfig& config
 
 // Backtests the shortlist (config.backtest.shortlist rows), fills backtest_score / backtest_rank of
 // its rows, re-ranks the rows (backtested rows first, by score), re-fits the new chosen model with
-// standard errors, and measures the value of each of the chosen model's inputs.
+// standard errors, and measures the value of each of the chosen model's inputs. `cancel`
+// (BacktestOptions::cancel) stops it before the next origin, throwing Cancelled (`search` may
+// then be re-ranked already: a caller that catches it drops the search); the returned options
+// hold no cancel flag.
 ShortlistBacktest backtest_shortlist(const SeriesData& data, const RunConfig& config,
-                                     SearchResult& search, int threads);
+                                     SearchResult& search, int threads,
+                                     const std::atomic<bool>* cancel = nullptr);
 
 }  // namespace lagsieve

@@ -2,9 +2,11 @@
 // model, and the value of an input (Diebold-Mariano).
 #include <gtest/gtest.h>
 
+#include <atomic>
 #include <cmath>
 
 #include "backtest/backtest.h"
+#include "core/error.h"
 #include "forecast/forecast.h"
 #include "model/likelihood.h"
 #include "model/simulate.h"
@@ -149,6 +151,62 @@ TEST(Backtest, TrueModelCoverageAndTheValueOfItsMainInput) {
   EXPECT_EQ(values[0].input, "x1");
   EXPECT_GT(values[0].score_without, values[0].score_with);
   EXPECT_LT(values[0].test.p_value, 0.05);
+}
+
+// BacktestOptions::cancel: set midway (here after the third origin), the backtest stops before
+// the next origin and throws Cancelled instead of returning a partial result; set beforehand, no
+// origin runs; a flag that stays clear changes nothing.
+BacktestOptions cancel_options() {
+  BacktestOptions o;
+  o.first_origin = 200;
+  o.step = 5;
+  o.horizon = 3;
+  o.refit = 1;
+  o.threads = 1;
+  return o;
+}
+
+TEST(Backtest, ASetCancelFlagStopsBeforeTheNextOrigin) {
+  const SeriesData data = simulate(two_input_truth(260, 5));
+  const auto candidate = candidate_from_spec("truth", true_spec(), two_input_config());
+  std::atomic<bool> cancel{false};
+  int done = 0;
+  BacktestOptions o = cancel_options();
+  o.cancel = &cancel;
+  o.origin_done = [&] {
+    if (++done == 3) cancel = true;
+  };
+  EXPECT_THROW(run_backtest(data, {candidate}, o), Cancelled);
+  EXPECT_EQ(done, 3);  // of 12 origins
+
+  done = 0;
+  EXPECT_THROW(input_value(data, candidate, ModelBacktest{}, o), Cancelled);
+  EXPECT_EQ(done, 0);  // the flag was already set: not one origin ran
+}
+
+TEST(Backtest, AClearCancelFlagChangesNothing) {
+  const SeriesData data = simulate(two_input_truth(260, 5));
+  const auto candidate = candidate_from_spec("truth", true_spec(), two_input_config());
+  const BacktestOptions plain = cancel_options();
+  std::atomic<bool> cancel{false};
+  int done = 0;
+  BacktestOptions watched = plain;
+  watched.cancel = &cancel;
+  watched.origin_done = [&] { ++done; };
+  const std::vector<BacktestCandidate> candidates{candidate, seasonal_naive_candidate(1)};
+  const auto a = run_backtest(data, candidates, plain);
+  const auto b = run_backtest(data, candidates, watched);
+  ASSERT_EQ(a.origins.size(), 12u);
+  EXPECT_EQ(done, 24);  // every origin of both candidates
+  EXPECT_EQ(a.origins, b.origins);
+  ASSERT_EQ(a.models.size(), b.models.size());
+  for (size_t i = 0; i < a.models.size(); ++i) {
+    EXPECT_EQ(a.models[i].score, b.models[i].score);
+    ASSERT_EQ(a.models[i].production.records.size(), b.models[i].production.records.size());
+    for (size_t r = 0; r < a.models[i].production.records.size(); ++r)
+      EXPECT_EQ(a.models[i].production.records[r].forecast,
+                b.models[i].production.records[r].forecast);
+  }
 }
 
 }  // namespace
